@@ -1,0 +1,80 @@
+#!/usr/bin/env node
+import { realpathSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { Command, CommanderError } from 'commander';
+import { isUserError } from '../core/errors.js';
+import { version } from '../core/version.js';
+import { COMMANDS } from './commands/index.js';
+
+/**
+ * The `landform` command: a thin shell over the library. Each subcommand lives in `commands/<name>.ts`,
+ * defines its options there and loads the heavy parts of the library only inside its action.
+ */
+export function buildProgram(): Command {
+  const program = new Command('landform')
+    .description('Topological features and validated classifiers from labelled samples.')
+    .version(version(), '-V, --version')
+    .showHelpAfterError(false)
+    .exitOverride();
+  for (const define of COMMANDS) {
+    const sub = define(program);
+    sub.option('--quiet', 'no progress bar').option('--debug', 'show stack traces of errors').exitOverride();
+  }
+  return program;
+}
+
+export async function main(argv: string[]): Promise<number> {
+  const program = buildProgram();
+  let commanderMessage = '';
+  const capture = { writeErr: (s: string) => { commanderMessage += s; }, outputError: (s: string) => { commanderMessage += s; } };
+  program.configureOutput(capture);
+  for (const sub of program.commands) sub.configureOutput(capture);
+  const debug = argv.includes('--debug');
+  try {
+    await program.parseAsync(argv, { from: 'user' });
+    return 0;
+  } catch (error) {
+    if (error instanceof CommanderError) {
+      if (error.code === 'commander.helpDisplayed' || error.code === 'commander.version' || error.code === 'commander.help') {
+        if (commanderMessage) process.stdout.write(commanderMessage);
+        return 0;
+      }
+      if (error.exitCode === 0) return 0;
+      const first = (commanderMessage || error.message).split('\n').find((l) => l.trim() !== '') ?? error.message;
+      process.stderr.write(`landform: ${first.replace(/^error:\s*/, '')}; see 'landform --help'\n`);
+      return 2;
+    }
+    if (isUserError(error)) {
+      process.stderr.write(`landform: ${error.describe()}\n`);
+      if (debug && error.stack) process.stderr.write(error.stack + '\n');
+      return 2;
+    }
+    const e = error as Error;
+    process.stderr.write(
+      `landform: internal error: ${e?.message ?? String(error)}. This is a bug in landform; please report it with the command you ran${debug ? '' : ' (add --debug for details)'}.\n`,
+    );
+    if (debug && e?.stack) process.stderr.write(e.stack + '\n');
+    return 1;
+  }
+}
+
+function isEntryPoint(): boolean {
+  if (!process.argv[1]) return false;
+  try {
+    return realpathSync(process.argv[1]) === realpathSync(fileURLToPath(import.meta.url));
+  } catch {
+    return false;
+  }
+}
+
+if (isEntryPoint()) {
+  main(process.argv.slice(2)).then(
+    (code) => {
+      process.exitCode = code;
+    },
+    (error) => {
+      process.stderr.write(`landform: internal error: ${String(error)}. This is a bug in landform; please report it.\n`);
+      process.exitCode = 1;
+    },
+  );
+}

@@ -1,0 +1,3 @@
+export { UserError, isUserError, ensure } from './errors.js';
+export { Random } from './random.js';
+export { version, provenance, packageRoot, type Provenance } from './version.js';

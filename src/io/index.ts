@@ -1,0 +1,4 @@
+export * from './dataset.js';
+export { writeFileAtomic, writeFilesAtomic, writeFolderAtomic } from './atomic.js';
+export { parseCsv, csvField, csvNumber, type CsvRow } from './csv.js';
+export { DIAGRAM_CSV_HEADER, formatDiagramCsv, parseDiagramCsv, readDiagramCsv, writeDiagramCsv } from './diagram-csv.js';

@@ -1,0 +1,41 @@
+import { describe, expect, it } from 'vitest';
+import { UserError } from '../../src/core/errors.js';
+import { makeDiagram } from '../../src/homology/diagram.js';
+import { formatDiagramCsv, parseDiagramCsv } from '../../src/io/diagram-csv.js';
+
+describe('diagram CSV', () => {
+  it('round-trips pairs, essential classes, empty labels and quoted ids', () => {
+    const sets = [
+      { sample: 'a,1', label: '', diagrams: [makeDiagram(0, [[0, Infinity], [0, 0.25]]), makeDiagram(1, [[0.5, 1.125]])] },
+      { sample: 'b', label: 'ring', diagrams: [makeDiagram(0, [[0, 0.1 + 0.2]]), makeDiagram(1, [])] },
+    ];
+    const text = formatDiagramCsv(sets);
+    expect(text.split('\n')[0]).toBe('sample,label,degree,birth,death');
+    expect(text).toContain('"a,1",,0,0,inf');
+    const back = parseDiagramCsv(text, 'x.csv');
+    expect(back.map((s) => s.sample)).toEqual(['a,1', 'b']);
+    expect([...back[0].diagrams[0].deaths]).toEqual([Infinity, 0.25]);
+    expect(back[1].diagrams[0].deaths[0]).toBe(0.1 + 0.2);
+    expect(back[1].diagrams[1].births.length).toBe(0);
+  });
+
+  it.each([
+    ['sample,label,degree,birth,death\ns,a,1,x,2\n', 2, /'x' is not a number in column birth/],
+    ['sample,label,degree,birth,death\ns,a,1,0,1\ns,a,1,3,2\n', 3, /death 2 is before birth 3/],
+    ['sample,label,degree,birth,death\ns,a,1,NaN,2\n', 2, /not a number/],
+    ['sample,label,degree,birth\ns,a,1,0\n', 1, /missing column 'death'/],
+    ['sample,label,degree,birth,death\ns,a,h1,0,1\n', 2, /unknown degree 'h1'/],
+    ['sample,label,degree,birth,death\ns,a,1,0\n', 2, /has 4 fields/],
+  ])('refuses bad input with file and line (%#)', (text, line, message) => {
+    let caught: unknown;
+    try {
+      parseDiagramCsv(text, 'bad.csv');
+    } catch (error) {
+      caught = error;
+    }
+    expect(caught).toBeInstanceOf(UserError);
+    expect((caught as UserError).line).toBe(line);
+    expect((caught as UserError).describe()).toMatch(message);
+    expect((caught as UserError).describe().startsWith(`bad.csv:${line}: `)).toBe(true);
+  });
+});
