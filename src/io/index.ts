@@ -1,4 +1,5 @@
 export * from './dataset.js';
 export { writeFileAtomic, writeFilesAtomic, writeFolderAtomic } from './atomic.js';
 export { parseCsv, csvField, csvNumber, type CsvRow } from './csv.js';
+export { provenancePath, readProvenance, writeWithProvenance } from './provenance-file.js';
 export { DIAGRAM_CSV_HEADER, formatDiagramCsv, parseDiagramCsv, readDiagramCsv, writeDiagramCsv } from './diagram-csv.js';

@@ -1,1 +1,2 @@
 export * from './matrix.js';
+export * from './classifier.js';
