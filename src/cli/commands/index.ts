@@ -5,6 +5,7 @@ import { defineDemo } from './demo.js';
 import { defineDiagrams } from './diagrams.js';
 import { defineDistance } from './distance.js';
 import { defineEvaluate } from './evaluate.js';
+import { defineInspect } from './inspect.js';
 import { defineLandscape } from './landscape.js';
 import { defineMerge } from './merge.js';
 import { definePredict } from './predict.js';
@@ -14,6 +15,7 @@ import { defineVectorize } from './vectorize.js';
 /** Every subcommand, in the order `landform --help` lists them. Each returns its commander.Command. */
 export const COMMANDS: Array<(program: Command) => Command> = [
   defineDemo,
+  defineInspect,
   defineDiagrams,
   defineLandscape,
   defineDistance,
