@@ -3,3 +3,4 @@ export { writeFileAtomic, writeFilesAtomic, writeFolderAtomic } from './atomic.j
 export { parseCsv, csvField, csvNumber, type CsvRow } from './csv.js';
 export { provenancePath, readProvenance, writeWithProvenance } from './provenance-file.js';
 export { DIAGRAM_CSV_HEADER, formatDiagramCsv, parseDiagramCsv, readDiagramCsv, writeDiagramCsv } from './diagram-csv.js';
+export { loadDataset, parseKind, kindFromHeader, expectKind, type LoadOptions } from './load.js';

@@ -1,0 +1,166 @@
+import { statSync } from 'node:fs';
+import { extname } from 'node:path';
+import { UserError } from '../core/errors.js';
+import type {
+  Dataset,
+  DiagramSample,
+  PointSample,
+  Sample,
+  SampleKind,
+  SignalSample,
+  TableSample,
+} from './dataset.js';
+import { SAMPLE_KINDS } from './dataset.js';
+import { DIAGRAM_CSV_HEADER, parseDiagramCsv } from './diagram-csv.js';
+import { readTextFile } from './csv.js';
+import { type SampleCsv, readCsvHeader, readSampleCsv } from './sample-csv.js';
+
+/**
+ * The one dataset loader every command uses.
+ *
+ * Kind detection for a CSV file (the first matching rule wins; `kind` forces a kind instead):
+ *   1. the header holds `sample,label,degree,birth,death`      → diagrams
+ *   2. the header is `sample,label,value`                       → signal (long: one value per row, rows in time order)
+ *   3. `sample,label,<one or more numeric columns>`:
+ *        some sample id appears on more than one row            → points (one point per row)
+ *        every sample id appears once                           → table (one feature row per sample)
+ * A wide signal CSV (`sample,label,v1,v2,…`, one row per sample) is read with `kind: 'signal'`; a point
+ * cloud file where every cloud has a single point needs `kind: 'points'`.
+ */
+export interface LoadOptions {
+  /** Force the sample kind instead of detecting it. */
+  kind?: SampleKind;
+  /** Reports progress as (done, total), in bytes for files and in files for folders. */
+  onProgress?: (done: number, total: number) => void;
+}
+
+/** Checks a `--kind` value. */
+export function parseKind(text: string, option = '--kind'): SampleKind {
+  if (!(SAMPLE_KINDS as readonly string[]).includes(text)) {
+    throw new UserError(`${option} '${text}' is not known; choose from ${SAMPLE_KINDS.join(', ')}`);
+  }
+  return text as SampleKind;
+}
+
+export async function loadDataset(path: string, options: LoadOptions = {}): Promise<Dataset> {
+  if (options.kind !== undefined) parseKind(options.kind, 'kind');
+  let isFolder: boolean;
+  try {
+    const stat = statSync(path);
+    isFolder = stat.isDirectory();
+  } catch {
+    throw new UserError('file not found; check the path', { file: path });
+  }
+  // Folders of per-sample files and .npy files arrive in the next step of this module.
+  if (isFolder || extname(path).toLowerCase() === '.npy') {
+    throw new UserError('folders and .npy files cannot be read yet; give a CSV file', { file: path });
+  }
+  return loadCsvFile(path, options);
+}
+
+/** The kind a CSV header points to before the rows are read, or undefined when the rows must decide. */
+export function kindFromHeader(header: readonly string[]): 'diagrams' | 'signal' | undefined {
+  const lower = header.map((h) => h.trim().toLowerCase());
+  if (DIAGRAM_CSV_HEADER.every((name) => lower.includes(name))) return 'diagrams';
+  if (lower.length === 3 && lower[0] === 'sample' && lower[1] === 'label' && lower[2] === 'value') return 'signal';
+  return undefined;
+}
+
+async function loadCsvFile(file: string, options: LoadOptions): Promise<Dataset> {
+  const first = await readCsvHeader(file);
+  if (first === undefined) {
+    throw new UserError('empty file; expected a header such as sample,label,x,y and one row per value', { file });
+  }
+  const detected = kindFromHeader(first.fields);
+  const kind = options.kind ?? detected;
+  if (kind === 'diagrams') return loadDiagramCsv(file, options);
+  if (kind === 'distances' || kind === 'image') {
+    throw new UserError(
+      `a ${kind === 'distances' ? 'distances' : 'image'} dataset is a folder of per-sample files with labels.csv, not one CSV; give the folder`,
+      { file },
+    );
+  }
+  const csv = await readSampleCsv(file, { onProgress: options.onProgress });
+  const chosen: SampleKind = kind ?? (csv.samples.some((s) => s.rows > 1) ? 'points' : 'table');
+  switch (chosen) {
+    case 'points':
+      return pointsFromCsv(csv);
+    case 'table':
+      return tableFromCsv(csv);
+    case 'signal':
+      return signalFromCsv(csv);
+    default:
+      throw new Error(`unreachable kind ${chosen}`);
+  }
+}
+
+function loadDiagramCsv(file: string, options: LoadOptions): Dataset<DiagramSample> {
+  const text = readTextFile(file);
+  options.onProgress?.(text.length, text.length);
+  const sets = parseDiagramCsv(text, file);
+  return {
+    kind: 'diagrams',
+    source: file,
+    samples: sets.map((s) => ({ kind: 'diagrams', id: s.sample, label: s.label, diagrams: s.diagrams })),
+  };
+}
+
+function pointsFromCsv(csv: SampleCsv): Dataset<PointSample> {
+  const dim = csv.columns.length;
+  return {
+    kind: 'points',
+    source: csv.file,
+    samples: csv.samples.map((s) => ({ kind: 'points', id: s.id, label: s.label, dim, count: s.rows, coords: s.values })),
+  };
+}
+
+function tableFromCsv(csv: SampleCsv): Dataset<TableSample> {
+  for (const s of csv.samples) {
+    if (s.rows > 1) {
+      throw new UserError(
+        `sample '${s.id}' appears again (first on line ${s.firstLine}); a table has one row per sample — use --kind points for point clouds`,
+        { file: csv.file, line: s.secondLine },
+      );
+    }
+  }
+  return {
+    kind: 'table',
+    source: csv.file,
+    columns: csv.columns,
+    samples: csv.samples.map((s) => ({ kind: 'table', id: s.id, label: s.label, values: s.values })),
+  };
+}
+
+function signalFromCsv(csv: SampleCsv): Dataset<SignalSample> {
+  if (csv.columns.length > 1) {
+    // Wide layout: one row per sample, the value columns in time order.
+    for (const s of csv.samples) {
+      if (s.rows > 1) {
+        throw new UserError(
+          `sample '${s.id}' appears again (first on line ${s.firstLine}); a wide signal CSV has one row per sample — for one value per row use the header sample,label,value`,
+          { file: csv.file, line: s.secondLine },
+        );
+      }
+    }
+  }
+  return {
+    kind: 'signal',
+    source: csv.file,
+    samples: csv.samples.map((s) => ({ kind: 'signal', id: s.id, label: s.label, values: s.values })),
+  };
+}
+
+/** Narrows a dataset to one kind, or throws the user error saying which kind the command needs. */
+export function expectKind<K extends SampleKind>(
+  dataset: Dataset,
+  kinds: readonly K[],
+  what = 'this command',
+): Dataset<Extract<Sample, { kind: K }>> {
+  if (!(kinds as readonly SampleKind[]).includes(dataset.kind)) {
+    throw new UserError(
+      `is a ${dataset.kind} dataset, but ${what} needs ${kinds.join(' or ')}; check the file or force the kind with --kind`,
+      { file: dataset.source },
+    );
+  }
+  return dataset as Dataset<Extract<Sample, { kind: K }>>;
+}

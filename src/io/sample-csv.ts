@@ -1,0 +1,208 @@
+import { createReadStream, statSync } from 'node:fs';
+import { parse } from 'csv-parse';
+import { UserError } from '../core/errors.js';
+import { parseNumberField } from './csv.js';
+
+/**
+ * Streams a CSV of the shape `sample,label,<numeric columns>` (the long layout shared by points, signals and
+ * feature tables) into one growing Float64Array per sample. Rows of a sample need not be contiguous; samples
+ * keep the order of their first row. Nothing holds a JavaScript number per value: memory stays near the numeric
+ * payload (8 bytes a value) plus at most the growth slack of each sample's buffer.
+ */
+export interface SampleRows {
+  id: string;
+  label: string;
+  /** Row-major values, `rows × width`. */
+  values: Float64Array;
+  rows: number;
+  /** The line of this sample's first and of its second row (0 when it has one row). */
+  firstLine: number;
+  secondLine: number;
+}
+
+export interface SampleCsv {
+  file: string;
+  /** The header as written (trimmed). */
+  header: string[];
+  /** The numeric column names (header minus `sample,label`). */
+  columns: string[];
+  samples: SampleRows[];
+  /** Data rows read. */
+  rowCount: number;
+}
+
+export interface SampleCsvOptions {
+  /** Called with bytes read so far and the file's size. */
+  onProgress?: (done: number, total: number) => void;
+}
+
+/** Reads only the header line of a CSV (for kind detection), without reading the whole file. */
+export async function readCsvHeader(file: string): Promise<{ fields: string[]; line: number } | undefined> {
+  const parser = createReadStream(file).pipe(
+    parse({ info: true, relax_column_count: true, skip_empty_lines: true, bom: true, trim: true, to_line: 64 }),
+  );
+  try {
+    for await (const item of parser as AsyncIterable<{ record: string[]; info: { lines: number } }>) {
+      return { fields: item.record, line: item.info.lines };
+    }
+  } catch (error) {
+    throw csvSyntaxError(error, file);
+  } finally {
+    parser.destroy();
+  }
+  return undefined;
+}
+
+export function csvSyntaxError(error: unknown, file: string): UserError {
+  if (error instanceof UserError) return error;
+  const e = error as { lines?: number; message?: string; code?: string };
+  if (e.code === 'ENOENT') return new UserError('file not found; check the path', { file });
+  if (e.code === 'EISDIR') return new UserError('is a folder, not a file; give a file', { file });
+  if (typeof e.code === 'string' && e.code.startsWith('CSV_')) {
+    return new UserError(`not valid CSV (${String(e.message ?? error).split('\n')[0]}); fix the quoting or the row`, {
+      file,
+      line: e.lines,
+    });
+  }
+  return error as UserError;
+}
+
+const GROWTH = 1.5;
+
+/** Streams `file` (header `sample,label,c1,…,ck`, k ≥ 1) into per-sample buffers. */
+export async function readSampleCsv(file: string, options: SampleCsvOptions = {}): Promise<SampleCsv> {
+  const total = statSync(file).size;
+  const stream = createReadStream(file, { highWaterMark: 1 << 20 });
+  let bytes = 0;
+  let lastReport = 0;
+  if (options.onProgress) {
+    const report = options.onProgress;
+    stream.on('data', (chunk) => {
+      bytes += chunk.length;
+      if (bytes - lastReport >= 1 << 22 || bytes === total) {
+        lastReport = bytes;
+        report(bytes, total);
+      }
+    });
+  }
+  const parser = stream.pipe(
+    parse({ info: true, relax_column_count: true, skip_empty_lines: true, bom: true, trim: true }),
+  );
+
+  let header: string[] | undefined;
+  let headerLine = 0;
+  let width = 0;
+  const index = new Map<string, number>();
+  const samples: SampleRows[] = [];
+  let rowCount = 0;
+
+  const take = (record: string[], line: number): void => {
+    if (header === undefined) {
+      header = record;
+      headerLine = line;
+      checkHeader(header, file, line);
+      width = header.length - 2;
+      return;
+    }
+    if (record.length !== header.length) {
+      if (record.length === 1 && record[0] === '') return;
+      throw new UserError(
+        `has ${record.length} fields, the header has ${header.length}; every row needs sample, label and ${width} value${width === 1 ? '' : 's'}`,
+        { file, line },
+      );
+    }
+    const id = record[0];
+    if (id === '') throw new UserError('empty sample id; every row needs one in column sample', { file, line });
+    const label = record[1];
+    let k = index.get(id);
+    let s: SampleRows;
+    if (k === undefined) {
+      k = samples.length;
+      index.set(id, k);
+      s = { id, label, values: new Float64Array(width * 4), rows: 0, firstLine: line, secondLine: 0 };
+      samples.push(s);
+    } else {
+      s = samples[k];
+      if (s.label !== label) {
+        throw new UserError(
+          `sample '${id}' has label '${label}' here but '${s.label}' on line ${s.firstLine}; give each sample one label`,
+          { file, line },
+        );
+      }
+      if (s.rows === 1) s.secondLine = line;
+    }
+    let offset = s.rows * width;
+    if (offset + width > s.values.length) {
+      const grown = new Float64Array(Math.max(offset + width, Math.ceil(s.values.length * GROWTH)));
+      grown.set(s.values.subarray(0, offset));
+      s.values = grown;
+    }
+    // Invariant: values[0 .. offset) of this sample hold its earlier rows; each field fills the next slot.
+    for (let c = 2; c < record.length; c++) {
+      const text = record[c];
+      const v = Number(text);
+      if (text === '' || !Number.isFinite(v)) {
+        parseNumberField(text, { file, line, column: header[c] });
+        throw new UserError(`'${text}' is not a number in column ${header[c]}`, { file, line });
+      }
+      s.values[offset++] = v;
+    }
+    s.rows++;
+    rowCount++;
+  };
+
+  await new Promise<void>((resolve, reject) => {
+    let failed = false;
+    const fail = (error: unknown): void => {
+      if (failed) return;
+      failed = true;
+      stream.destroy();
+      parser.destroy();
+      reject(csvSyntaxError(error, file));
+    };
+    stream.on('error', fail);
+    parser.on('error', fail);
+    parser.on('readable', () => {
+      try {
+        let item: { record: string[]; info: { lines: number } } | null;
+        while (!failed && (item = parser.read() as typeof item) !== null) take(item.record, item.info.lines);
+      } catch (error) {
+        fail(error);
+      }
+    });
+    parser.on('end', () => {
+      if (!failed) resolve();
+    });
+  });
+
+  if (header === undefined) {
+    throw new UserError('empty file; expected a header such as sample,label,x,y and one row per value', { file });
+  }
+  if (rowCount === 0) {
+    throw new UserError('header only, no rows; add at least one sample', { file, line: headerLine });
+  }
+  for (const s of samples) {
+    const used = s.rows * width;
+    if (s.values.length !== used) s.values = s.values.slice(0, used);
+  }
+  return { file, header, columns: header.slice(2), samples, rowCount };
+}
+
+function checkHeader(header: string[], file: string, line: number): void {
+  const lower = header.map((h) => h.toLowerCase());
+  if (lower[0] !== 'sample' || lower[1] !== 'label') {
+    throw new UserError(
+      `the header must start with sample,label (got '${header.slice(0, 2).join(',')}'); name the first two columns sample and label`,
+      { file, line },
+    );
+  }
+  if (header.length < 3) {
+    throw new UserError('no value columns after sample,label; add at least one numeric column', { file, line });
+  }
+  const seen = new Set<string>();
+  for (let c = 2; c < header.length; c++) {
+    if (header[c] === '') throw new UserError(`column ${c + 1} has no name; name every column`, { file, line });
+    if (seen.has(lower[c])) throw new UserError(`column '${header[c]}' appears twice; give columns distinct names`, { file, line });
+    seen.add(lower[c]);
+  }
+}
