@@ -12,6 +12,7 @@ import type {
 } from './dataset.js';
 import { SAMPLE_KINDS } from './dataset.js';
 import { DIAGRAM_CSV_HEADER, parseDiagramCsv } from './diagram-csv.js';
+import { loadArrayFile } from './array-file.js';
 import { readTextFile } from './csv.js';
 import { type SampleCsv, readCsvHeader, readSampleCsv } from './sample-csv.js';
 
@@ -51,10 +52,11 @@ export async function loadDataset(path: string, options: LoadOptions = {}): Prom
   } catch {
     throw new UserError('file not found; check the path', { file: path });
   }
-  // Folders of per-sample files and .npy files arrive in the next step of this module.
-  if (isFolder || extname(path).toLowerCase() === '.npy') {
-    throw new UserError('folders and .npy files cannot be read yet; give a CSV file', { file: path });
+  if (isFolder) {
+    // Folders of per-sample files arrive in the next step of this module.
+    throw new UserError('folders cannot be read yet; give a CSV or .npy file', { file: path });
   }
+  if (extname(path).toLowerCase() === '.npy') return loadArrayFile(path, options);
   return loadCsvFile(path, options);
 }
 
