@@ -1,0 +1,98 @@
+import { describe, expect, it } from 'vitest';
+import { Random } from '../../src/core/random.js';
+import { LandscapeVectorizer, learnGrid, parseLandscapeFeatureName } from '../../src/features/landscape-vectorizer.js';
+import { type DiagramSet, makeDiagram } from '../../src/homology/diagram.js';
+
+function set(id: string, h0: Array<[number, number]>, h1: Array<[number, number]>): DiagramSet {
+  return { sample: id, label: 'x', diagrams: [makeDiagram(0, h0), makeDiagram(1, h1)] };
+}
+
+function randomSets(n: number, seed: number, scale = 1): DiagramSet[] {
+  const r = new Random(seed);
+  const out: DiagramSet[] = [];
+  for (let s = 0; s < n; s++) {
+    const h0: Array<[number, number]> = [];
+    const h1: Array<[number, number]> = [];
+    for (let i = 0; i < 20; i++) h0.push([0, scale * r.uniform(0.05, 1)]);
+    h0.push([0, Infinity]);
+    for (let i = 0; i < 5; i++) {
+      const b = scale * r.uniform(0.2, 1);
+      h1.push([b, b + scale * r.uniform(0, 0.8)]);
+    }
+    out.push(set(`s${s}`, h0, h1));
+  }
+  return out;
+}
+
+describe('LandscapeVectorizer', () => {
+  it('samples layers by the landscape definition on an explicit grid', () => {
+    // λ_k(t) is the k-th largest of max(0, min(t − b, d − t)) over the pairs (Bubenik, "Statistical topological
+    // data analysis using persistence landscapes", 2015, Definition 3). Pairs (0,4) and (1,3), worked by hand
+    // at t = 0, 1, 2, 3, 4: λ1 = 0,1,2,1,0; λ2 = 0,0,1,0,0.
+    const v = new LandscapeVectorizer({ degrees: [1], depth: 2, gridSize: 5, range: { start: 0, stop: 4 } });
+    const sets = [set('a', [], [
+      [0, 4],
+      [1, 3],
+    ])];
+    const x = v.fitTransform(sets);
+    expect([...x.data]).toEqual([0, 1, 2, 1, 0, 0, 0, 1, 0, 0]);
+    expect(v.featureNames().slice(0, 3)).toEqual(['H1/L1/t=0.0000', 'H1/L1/t=1.0000', 'H1/L1/t=2.0000']);
+  });
+
+  it('learns each degree’s range from the training samples only (a test-fold change cannot move it)', () => {
+    const sets = randomSets(30, 5);
+    const train = Int32Array.from({ length: 20 }, (_, i) => i);
+    const test = Int32Array.from({ length: 10 }, (_, i) => 20 + i);
+    const a = new LandscapeVectorizer({ depth: 3, gridSize: 20 }).fit(sets, train);
+    // Replace the test samples with diagrams ten times larger: were they seen by fit, the grid would stretch.
+    const leaked = [...sets.slice(0, 20), ...randomSets(10, 9, 10)];
+    const b = new LandscapeVectorizer({ depth: 3, gridSize: 20 }).fit(leaked, train);
+    expect(b.state!.grids).toEqual(a.state!.grids);
+    expect([...b.transform(leaked, train).data]).toEqual([...a.transform(sets, train).data]);
+    // And the grid is the documented one: [min birth, 0.99 quantile of deaths] of the training pairs.
+    const g1 = learnGrid(sets, train, 1, { mode: 'drop' }, 0.99, 20);
+    expect(a.state!.grids[1].grid).toEqual(g1);
+    const all = new LandscapeVectorizer({ depth: 3, gridSize: 20 }).fit(leaked);
+    expect(all.state!.grids[0].grid.stop).toBeGreaterThan(2 * a.state!.grids[0].grid.stop);
+  });
+
+  it('names map back to (degree, layer, t)', () => {
+    const sets = randomSets(8, 2);
+    const v = new LandscapeVectorizer({ depth: 4, gridSize: 7 }).fit(sets);
+    const names = v.featureNames();
+    expect(names).toHaveLength(2 * 4 * 7);
+    expect(new Set(names).size).toBe(names.length);
+    for (const i of [0, 6, 7, 27, 28, 29, 55]) {
+      const parsed = parseLandscapeFeatureName(names[i])!;
+      const located = v.locate(i);
+      expect(parsed.degree).toBe(located.degree);
+      expect(parsed.layer).toBe(located.layer);
+      expect(parsed.t).toBeCloseTo(located.t, 3);
+    }
+    expect(v.locate(28)).toMatchObject({ degree: 1, layer: 1 });
+    expect(v.locate(28).t).toBe(v.state!.grids[1].grid.start);
+  });
+
+  it('standardises with training moments and round-trips through JSON', () => {
+    const sets = randomSets(12, 4);
+    const train = Int32Array.from([0, 1, 2, 3, 4, 5, 6, 7]);
+    const v = new LandscapeVectorizer({ depth: 2, gridSize: 10, standardize: true, infinite: { mode: 'clip', value: 1.5 } }).fit(sets, train);
+    const x = v.transform(sets, train);
+    // Each non-constant column of the training rows now has mean 0.
+    let colMean = 0;
+    for (let i = 0; i < x.rows; i++) colMean += x.data[i * x.cols + 5];
+    expect(Math.abs(colMean / x.rows)).toBeLessThan(1e-9);
+    const back = LandscapeVectorizer.fromJSON(JSON.parse(JSON.stringify(v.toJSON())));
+    expect([...back.transform(sets).data]).toEqual([...v.transform(sets).data]);
+    expect(() => LandscapeVectorizer.fromJSON({ kind: 'other' })).toThrow(/not a saved landscape vectoriser/);
+    expect(() => LandscapeVectorizer.fromJSON({ ...v.toJSON(), format: 9 })).toThrow(/format 9/);
+  });
+
+  it('clip policy keeps the essential H0 class as a tent up to the clip value', () => {
+    const sets = [set('a', [[0, Infinity]], [])];
+    const v = new LandscapeVectorizer({ degrees: [0], depth: 1, gridSize: 3, range: { start: 0, stop: 2 }, infinite: { mode: 'clip', value: 2 } });
+    expect([...v.fitTransform(sets).data]).toEqual([0, 1, 0]);
+    const d = new LandscapeVectorizer({ degrees: [0], depth: 1, gridSize: 3, range: { start: 0, stop: 2 } });
+    expect([...d.fitTransform(sets).data]).toEqual([0, 0, 0]);
+  });
+});
