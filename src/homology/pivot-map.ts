@@ -1,0 +1,165 @@
+/**
+ * A hash map from simplex index (a double below 2^53) to a column number (a non-negative Int32), on typed
+ * arrays with open addressing and linear probing. Used for the pivots of the reduction: which column owns a
+ * given cofacet as its pivot.
+ */
+const EMPTY = -1;
+
+export class PivotMap {
+  private keys: Float64Array;
+  private values: Int32Array;
+  private mask: number;
+  count = 0;
+
+  constructor(expected = 1024) {
+    let cap = 16;
+    while (cap < expected * 2) cap *= 2;
+    this.keys = new Float64Array(cap).fill(EMPTY);
+    this.values = new Int32Array(cap);
+    this.mask = cap - 1;
+  }
+
+  private slot(key: number): number {
+    const lo = key >>> 0;
+    const hi = (key / 4294967296) >>> 0;
+    let h = Math.imul(lo ^ Math.imul(hi, 0x9e3779b1), 0x85ebca6b);
+    h ^= h >>> 15;
+    h = Math.imul(h, 0xc2b2ae35);
+    h ^= h >>> 13;
+    return h & this.mask;
+  }
+
+  /** The column stored for `key`, or −1. */
+  get(key: number): number {
+    const keys = this.keys;
+    let s = this.slot(key);
+    // invariant: every slot between the home slot of `key` and s is occupied by another key
+    while (true) {
+      const k = keys[s];
+      if (k === key) return this.values[s];
+      if (k === EMPTY) return -1;
+      s = (s + 1) & this.mask;
+    }
+  }
+
+  has(key: number): boolean {
+    return this.get(key) >= 0;
+  }
+
+  /** Stores `value` for a key not yet present. */
+  set(key: number, value: number): void {
+    if ((this.count + 1) * 2 > this.keys.length) this.grow();
+    const keys = this.keys;
+    let s = this.slot(key);
+    // invariant: as in get; stops at the key itself or the first empty slot
+    while (keys[s] !== EMPTY && keys[s] !== key) s = (s + 1) & this.mask;
+    if (keys[s] === EMPTY) this.count++;
+    keys[s] = key;
+    this.values[s] = value;
+  }
+
+  /** Calls `visit(key)` for every stored key (order unspecified). */
+  forEachKey(visit: (key: number) => void): void {
+    const keys = this.keys;
+    for (let s = 0; s < keys.length; s++) if (keys[s] !== EMPTY) visit(keys[s]);
+  }
+
+  private grow(): void {
+    const oldKeys = this.keys;
+    const oldValues = this.values;
+    const cap = oldKeys.length * 2;
+    this.keys = new Float64Array(cap).fill(EMPTY);
+    this.values = new Int32Array(cap);
+    this.mask = cap - 1;
+    this.count = 0;
+    for (let s = 0; s < oldKeys.length; s++) if (oldKeys[s] !== EMPTY) this.set(oldKeys[s], oldValues[s]);
+  }
+}
+
+/** A binary min-heap of cofacet entries (rank, index): smallest rank on top, ties to the largest index. */
+export class CofacetHeap {
+  ranks: Int32Array;
+  indices: Float64Array;
+  size = 0;
+  /** Set by `popPivot`. */
+  pivotRank = 0;
+  pivotIndex = 0;
+
+  constructor(capacity = 1024) {
+    this.ranks = new Int32Array(capacity);
+    this.indices = new Float64Array(capacity);
+  }
+
+  clear(): void {
+    this.size = 0;
+  }
+
+  push(rank: number, index: number): void {
+    if (this.size === this.ranks.length) {
+      const r = new Int32Array(this.size * 2);
+      r.set(this.ranks);
+      const x = new Float64Array(this.size * 2);
+      x.set(this.indices);
+      this.ranks = r;
+      this.indices = x;
+    }
+    const ranks = this.ranks;
+    const indices = this.indices;
+    let i = this.size++;
+    // invariant: the heap order holds everywhere except possibly between i and its parent
+    while (i > 0) {
+      const p = (i - 1) >> 1;
+      const pr = ranks[p];
+      if (pr < rank || (pr === rank && indices[p] >= index)) break;
+      ranks[i] = pr;
+      indices[i] = indices[p];
+      i = p;
+    }
+    ranks[i] = rank;
+    indices[i] = index;
+  }
+
+  private popTop(): void {
+    const ranks = this.ranks;
+    const indices = this.indices;
+    const n = --this.size;
+    if (n === 0) return;
+    const rank = ranks[n];
+    const index = indices[n];
+    let i = 0;
+    // invariant: the heap order holds everywhere except possibly between i and its children
+    while (true) {
+      let c = 2 * i + 1;
+      if (c >= n) break;
+      const c2 = c + 1;
+      if (c2 < n && (ranks[c2] < ranks[c] || (ranks[c2] === ranks[c] && indices[c2] > indices[c]))) c = c2;
+      if (rank < ranks[c] || (rank === ranks[c] && index >= indices[c])) break;
+      ranks[i] = ranks[c];
+      indices[i] = indices[c];
+      i = c;
+    }
+    ranks[i] = rank;
+    indices[i] = index;
+  }
+
+  /**
+   * Removes and reports (in pivotRank, pivotIndex) the top entry with odd multiplicity over Z/2; entries that
+   * occur an even number of times cancel. Returns false when the column is zero.
+   */
+  popPivot(): boolean {
+    // invariant: every entry removed so far occurred an even number of times
+    while (this.size > 0) {
+      const rank = this.ranks[0];
+      const index = this.indices[0];
+      this.popTop();
+      if (this.size > 0 && this.indices[0] === index) {
+        this.popTop();
+        continue;
+      }
+      this.pivotRank = rank;
+      this.pivotIndex = index;
+      return true;
+    }
+    return false;
+  }
+}
