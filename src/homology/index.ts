@@ -1,1 +1,3 @@
 export * from './diagram.js';
+export { bottleneckDistance, wassersteinDistance } from './distance.js';
+export { type Assignment, solveAssignment } from './assignment.js';
