@@ -46,24 +46,37 @@ export function dtmEdgeValue(fx: number, fy: number, distance: number): number {
 }
 
 /**
- * Edge values of the DTM filtration from condensed pairwise distances (pairs i < j in row order:
- * (0,1), (0,2), …, (0,n−1), (1,2), …) and the DTM values `f` of the n points. Same layout out.
+ * Edge values of the DTM filtration from condensed pairwise distances, in the Rips engine's layout (the pair
+ * i < j at j(j−1)/2 + i, see simplex-index.ts), and the DTM values `f` of the n points. Same layout out.
  */
 export function dtmEdgeValues(condensed: ArrayLike<number>, f: ArrayLike<number>): Float64Array {
   const n = f.length;
   const out = new Float64Array((n * (n - 1)) / 2);
   let e = 0;
-  // Invariant: out[0, e) holds the values of the pairs before (i, j) in row order.
-  for (let i = 0; i < n; i++) {
-    const fi = f[i];
-    for (let j = i + 1; j < n; j++, e++) {
-      const fj = f[j];
+  // Invariant: e is the condensed index of the pair (i, j), and out[0, e) is filled.
+  for (let j = 1; j < n; j++) {
+    const fj = f[j];
+    for (let i = 0; i < j; i++, e++) {
+      const fi = f[i];
       const high = fi > fj ? fi : fj;
       const joined = (fi + fj + condensed[e]) / 2;
       out[e] = joined > high ? joined : high;
     }
   }
   return out;
+}
+
+/** DTM values from condensed pairwise distances (engine layout), K nearest neighbours, self included. */
+export function dtmValuesFromCondensed(condensed: ArrayLike<number>, n: number, k: number): Float64Array {
+  const matrix = new Float64Array(n * n);
+  let e = 0;
+  for (let j = 1; j < n; j++) {
+    for (let i = 0; i < j; i++, e++) {
+      matrix[i * n + j] = condensed[e];
+      matrix[j * n + i] = condensed[e];
+    }
+  }
+  return dtmValuesFromMatrix(matrix, n, k);
 }
 
 /** Checks a DTM neighbour count K against the size of a sample; returns a message for the user or undefined. */

@@ -78,17 +78,17 @@ describe('DTM edge values (p = 1)', () => {
     expect(dtmEdgeValue(0.5, 0.25, 1)).toBe(0.875);
   });
 
-  it('match the case rule over all pairs of a random cloud, in condensed order', () => {
+  it('match the case rule over all pairs of a random cloud, in the condensed order of the Rips engine', () => {
     const r = new Random(21);
     const n = 30;
     const c = Float64Array.from({ length: 2 * n }, () => r.normal());
     const f = dtmValues(c, n, 2, 4);
     const condensed: number[] = [];
-    for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) condensed.push(Math.hypot(c[2 * i] - c[2 * j], c[2 * i + 1] - c[2 * j + 1]));
+    for (let j = 1; j < n; j++) for (let i = 0; i < j; i++) condensed.push(Math.hypot(c[2 * i] - c[2 * j], c[2 * i + 1] - c[2 * j + 1]));
     const edges = dtmEdgeValues(condensed, f);
     let e = 0;
-    for (let i = 0; i < n; i++) {
-      for (let j = i + 1; j < n; j++, e++) {
+    for (let j = 1; j < n; j++) {
+      for (let i = 0; i < j; i++, e++) {
         const d = condensed[e];
         const expected = d <= Math.abs(f[i] - f[j]) ? Math.max(f[i], f[j]) : (f[i] + f[j] + d) / 2;
         expect(edges[e]).toBeCloseTo(expected, 14);
