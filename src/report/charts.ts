@@ -74,6 +74,9 @@ function round(v: number, digits = 5): number {
   return Number.isFinite(v) ? Number(v.toPrecision(digits)) : v;
 }
 
+/** Colours of H0, H1, H2 in the diagram charts (also used for the key in the page text). */
+export const DEGREE_COLOURS: readonly string[] = [CATEGORY_COLOURS[6], CATEGORY_COLOURS[0], CATEGORY_COLOURS[1]];
+
 export interface AccuracyRow {
   features: string;
   model: string;
@@ -168,9 +171,19 @@ export function confusionChart(classes: readonly string[], matrix: readonly (rea
   } as ChartSpec;
 }
 
+/** The degree's name in words, for titles. */
+export function degreeName(degree: number): string {
+  return degree === 0 ? 'H0 · connected pieces' : degree === 1 ? 'H1 · loops' : degree === 2 ? 'H2 · voids' : `H${degree}`;
+}
+
+/** A colour scale that gives each class the same colour in every chart of the page. */
+function classColour(classes: readonly string[]): Record<string, unknown> {
+  return { domain: [...classes], range: classes.map((_, i) => CATEGORY_COLOURS[i % CATEGORY_COLOURS.length]) };
+}
+
 /**
  * Per degree: the mean landscape of every class with its simultaneous band, one panel per layer (the first
- * `layers` layers), classes told apart by colour.
+ * `layers` layers, side by side), classes told apart by colour (the same colour for a class on the whole page).
  */
 export function meanBandChart(
   degree: number,
@@ -179,20 +192,15 @@ export function meanBandChart(
   maxPoints = 120,
 ): ChartSpec {
   const values: Array<Record<string, unknown>> = [];
-  let shownLayers = 1;
   for (const { label, band } of classes) {
     const count = band.grid.count;
     const step = count > 1 ? (band.grid.stop - band.grid.start) / (count - 1) : 0;
     const keep = thinned(count, maxPoints);
     for (let k = 0; k < Math.min(layers, band.depth); k++) {
-      let any = false;
-      for (let j = 0; j < count; j++) if (band.upper[k * count + j] > 0) any = true;
-      if (!any && k > 0) continue;
-      shownLayers = Math.max(shownLayers, k + 1);
       for (const j of keep) {
         values.push({
           class: label,
-          layer: `layer ${k + 1}  (λ${k + 1})`,
+          layer: `λ${k + 1}  (layer ${k + 1})`,
           t: round(band.grid.start + j * step),
           mean: round(band.mean[k * count + j]),
           lower: round(band.lower[k * count + j]),
@@ -201,22 +209,25 @@ export function meanBandChart(
       }
     }
   }
-  const level = classes[0]?.band.level ?? 0.95;
+  const shown = Math.min(layers, Math.max(1, ...classes.map((c) => c.band.depth)));
+  const labels = classes.map((c) => c.label);
   return {
+    title: { text: degreeName(degree) },
     data: { values },
-    facet: { row: { field: 'layer', type: 'nominal', title: null, header: { labelAngle: 0, labelAlign: 'left', labelAnchor: 'start', labelOrient: 'top' } } },
+    facet: { column: { field: 'layer', type: 'nominal', title: null, header: { labelAnchor: 'start', labelFontWeight: 600 } } },
     resolve: { scale: { y: 'independent' } },
+    spacing: 18,
     spec: {
-      width: 520,
-      height: shownLayers > 2 ? 110 : 140,
+      width: shown >= 3 ? 268 : shown === 2 ? 400 : 620,
+      height: 180,
       layer: [
         {
-          mark: { type: 'area', opacity: 0.22, interpolate: 'linear' },
+          mark: { type: 'area', opacity: 0.2, interpolate: 'linear' },
           encoding: {
-            x: { field: 't', type: 'quantitative', title: `filtration scale t (data units) — H${degree}` },
+            x: { field: 't', type: 'quantitative', title: 'filtration scale t (data units)' },
             y: { field: 'lower', type: 'quantitative', title: 'λ(t)' },
             y2: { field: 'upper' },
-            color: { field: 'class', type: 'nominal', title: `class (band: ${Math.round(level * 100)}% simultaneous)` },
+            color: { field: 'class', type: 'nominal', title: 'class', scale: classColour(labels) },
           },
         },
         {
@@ -224,7 +235,7 @@ export function meanBandChart(
           encoding: {
             x: { field: 't', type: 'quantitative' },
             y: { field: 'mean', type: 'quantitative' },
-            color: { field: 'class', type: 'nominal' },
+            color: { field: 'class', type: 'nominal', scale: classColour(labels) },
           },
         },
       ],
@@ -335,7 +346,7 @@ export function diagramChart(diagrams: readonly Diagram[], title: string): Chart
         encoding: {
           x: { field: 'birth', type: 'quantitative', scale: { domain, nice: false }, title: 'birth' },
           y: { field: 'death', type: 'quantitative', scale: { domain, nice: false }, title: 'death' },
-          color: { field: 'degree', type: 'nominal', title: 'degree', scale: { domain: ['H0', 'H1', 'H2'], range: [CATEGORY_COLOURS[6], CATEGORY_COLOURS[0], CATEGORY_COLOURS[1]] } },
+          color: { field: 'degree', type: 'nominal', legend: null, scale: { domain: ['H0', 'H1', 'H2'], range: [...DEGREE_COLOURS] } },
           shape: { field: 'kind', type: 'nominal', title: null, scale: { domain: ['finite', 'essential (∞)'], range: ['circle', 'triangle-up'] }, legend: null },
         },
       },

@@ -1,0 +1,338 @@
+import type { Diagram } from '../homology/diagram.js';
+import type { SampledBand } from './bands.js';
+import {
+  type AccuracyRow,
+  DEGREE_COLOURS,
+  accuracyChart,
+  confusionChart,
+  diagramChart,
+  type ImportanceRow,
+  importanceChart,
+  meanBandChart,
+  renderSvg,
+  type WeightCurve,
+  weightMapChart,
+} from './charts.js';
+import { FONT_STACK, INK, MONO_STACK, MUTED_INK, RULE } from './palette.js';
+import type { ContrastTest } from './permutation.js';
+
+/**
+ * The self-contained HTML report: one page, inline CSS, inline SVG charts, no scripts, no fonts or images
+ * fetched. Every string that comes from the user's data (dataset names, class labels, sample ids, option
+ * values) goes through `escapeHtml`.
+ */
+
+/** What one dataset's part of the report shows; every field is plain data. */
+export interface DatasetReport {
+  name: string;
+  /** One or two sentences saying what the data is. */
+  description?: string;
+  summary: {
+    kind: string;
+    samples: number;
+    classes: ReadonlyArray<{ label: string; count: number }>;
+    /** Further facts as label → value (e.g. points per sample, image size). */
+    facts?: ReadonlyArray<[string, string]>;
+  };
+  /** The options of the analysis, as shown to the reader. */
+  options: Record<string, unknown>;
+  accuracy: ReadonlyArray<AccuracyRow & { balancedAccuracy?: number; macroF1?: number }>;
+  confusions: ReadonlyArray<{ features: string; model: string; classes: readonly string[]; matrix: readonly (readonly number[])[] }>;
+  /** Per degree: each class's mean landscape with its band (all on one grid). */
+  means: ReadonlyArray<{ degree: number; classes: ReadonlyArray<{ label: string; band: SampledBand }> }>;
+  contrasts: readonly ContrastTest[];
+  /** Contrast settings for the caption. */
+  contrastNote?: string;
+  maps?: {
+    /** Linear weights on the landscape axis (degree, layer, t), when a linear model was fitted. */
+    weights?: { curves: readonly WeightCurve[]; note: string };
+    importance?: { rows: readonly ImportanceRow[]; note: string };
+  };
+  examples: ReadonlyArray<{ label: string; sample: string; diagrams: readonly Diagram[] }>;
+  /** Honest remarks about this dataset's results (e.g. where the raw baseline wins). */
+  findings?: readonly string[];
+}
+
+export interface ReportInput {
+  title: string;
+  /** A sentence under the title. */
+  lead?: string;
+  version: string;
+  command: string;
+  seed?: number;
+  datasets: readonly DatasetReport[];
+}
+
+export const CAUTION_TEXT =
+  'Cross-validated accuracy is an estimate from the samples at hand, not a guarantee: it can be optimistic when samples are not independent ' +
+  '(repeated measurements of one part, one patient, one run). Before these results feed a clinical, safety or quality decision, validate on ' +
+  'independent data collected for that purpose and defer to the standards of your field.';
+
+const ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' };
+
+/** Escapes text for HTML element content and quoted attribute values. */
+export function escapeHtml(text: unknown): string {
+  return String(text).replace(/[&<>"']/g, (c) => ESCAPES[c]);
+}
+
+/** A safe fragment id from any text. */
+export function slug(text: string): string {
+  const base = text.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '');
+  return base === '' ? 'x' : base;
+}
+
+function fixed(v: number | undefined, digits = 3): string {
+  return v === undefined || !Number.isFinite(v) ? '—' : v.toFixed(digits);
+}
+
+function pValue(p: number): string {
+  if (p < 0.001) return p.toExponential(1);
+  return p.toFixed(3);
+}
+
+function optionValue(value: unknown): string {
+  if (Array.isArray(value)) return value.map(optionValue).join(', ');
+  if (value !== null && typeof value === 'object') return JSON.stringify(value);
+  return String(value);
+}
+
+function figure(svg: string, caption: string, kind: string): string {
+  return `<figure class="chart" data-chart="${escapeHtml(kind)}">${svg}<figcaption>${caption}</figcaption></figure>`;
+}
+
+function part(id: string, name: string, title: string, intro: string, body: string): string {
+  return `<section class="part" id="${id}" data-part="${name}"><h3>${title}</h3><p class="how">${intro}</p>${body}</section>`;
+}
+
+async function datasetSection(ds: DatasetReport, index: number): Promise<string> {
+  const id = `d${index + 1}-${slug(ds.name)}`;
+  const pieces: string[] = [];
+
+  // Summary and options.
+  const classRows = ds.summary.classes.map((c) => `<tr><td>${escapeHtml(c.label)}</td><td class="num">${c.count}</td></tr>`).join('');
+  const facts = [
+    ['sample kind', ds.summary.kind],
+    ['samples', String(ds.summary.samples)],
+    ['classes', String(ds.summary.classes.length)],
+    ...(ds.summary.facts ?? []),
+  ]
+    .map(([k, v]) => `<tr><th>${escapeHtml(k)}</th><td>${escapeHtml(v)}</td></tr>`)
+    .join('');
+  const options = Object.entries(ds.options)
+    .map(([k, v]) => `<tr><th>${escapeHtml(k)}</th><td><code>${escapeHtml(optionValue(v))}</code></td></tr>`)
+    .join('');
+  const findings = (ds.findings ?? []).map((f) => `<li>${escapeHtml(f)}</li>`).join('');
+  pieces.push(
+    part(
+      `${id}-summary`,
+      'summary',
+      'Data and options',
+      'What was analysed and how. Every number below can be reproduced from these options and the seed.',
+      `<div class="cols"><table class="facts"><caption>Data</caption>${facts}</table>` +
+        `<table class="facts"><caption>Samples per class</caption><tr><th>class</th><th class="num">samples</th></tr>${classRows}</table>` +
+        `<table class="facts opts"><caption>Options</caption>${options}</table></div>` +
+        (findings ? `<div class="findings"><h4>What this run shows</h4><ul>${findings}</ul></div>` : ''),
+    ),
+  );
+
+  // Accuracy.
+  if (ds.accuracy.length > 0) {
+    const chance = 1 / Math.max(1, ds.summary.classes.length);
+    const best = Math.max(...ds.accuracy.map((r) => r.mean));
+    const rows = ds.accuracy
+      .map(
+        (r) =>
+          `<tr${r.mean === best ? ' class="best"' : ''}><td>${escapeHtml(r.features)}</td><td>${escapeHtml(r.model)}</td>` +
+          `<td class="num">${fixed(r.mean)} ± ${fixed(r.std)}</td><td class="num">${fixed(r.balancedAccuracy)}</td><td class="num">${fixed(r.macroF1)}</td></tr>`,
+      )
+      .join('');
+    const svg = await renderSvg(accuracyChart(ds.accuracy, chance));
+    pieces.push(
+      part(
+        `${id}-accuracy`,
+        'accuracy',
+        'Accuracy of every feature set and model',
+        `Outer cross-validation folds: the dot is the mean accuracy, the bar ± one standard deviation over folds; the dashed line is chance (${fixed(chance, 2)}). Raw-feature baselines sit beside the landscape features so the gain (or its absence) is visible.`,
+        figure(svg, 'Cross-validated accuracy by feature set and model.', 'accuracy') +
+          `<table class="grid"><tr><th>features</th><th>model</th><th class="num">accuracy (mean ± sd)</th><th class="num">balanced accuracy</th><th class="num">macro F1</th></tr>${rows}</table>`,
+      ),
+    );
+  }
+
+  // Confusion matrices.
+  if (ds.confusions.length > 0) {
+    const charts: string[] = [];
+    for (const c of ds.confusions) {
+      const svg = await renderSvg(confusionChart(c.classes, c.matrix, `${c.features} · ${c.model}`));
+      charts.push(figure(svg, `Counts pooled over the outer folds; colour is the share of the true class.`, 'confusion'));
+    }
+    pieces.push(
+      part(
+        `${id}-confusion`,
+        'confusion',
+        'Confusion matrices',
+        'Rows are the true classes, columns the predicted ones; the diagonal holds the correct calls.',
+        `<div class="tiles">${charts.join('')}</div>`,
+      ),
+    );
+  }
+
+  // Class means with bands.
+  if (ds.means.length > 0) {
+    const charts: string[] = [];
+    for (const m of ds.means) {
+      const svg = await renderSvg(meanBandChart(m.degree, m.classes));
+      const first = m.classes[0]?.band;
+      const caption = first
+        ? `H${m.degree}: mean landscape per class with a ${Math.round(first.level * 100)}% simultaneous band (multiplier bootstrap, ${first.draws} draws, ${first.scope === 'layer' ? 'one band per layer' : 'one band over all layers'}).`
+        : `H${m.degree}`;
+      charts.push(figure(svg, caption, 'mean'));
+    }
+    pieces.push(
+      part(
+        `${id}-means`,
+        'means',
+        'Mean landscape per class',
+        'Where the coloured bands separate along the scale axis, the classes differ in that degree at that scale; where they overlap, the data cannot tell them apart there. Bands follow Chazal, Fasy, Lecci, Rinaldo and Wasserman (2015).',
+        charts.join(''),
+      ),
+    );
+  }
+
+  // Contrasts.
+  if (ds.contrasts.length > 0) {
+    const rows = ds.contrasts
+      .map(
+        (t) =>
+          `<tr${t.pAdjusted <= 0.05 ? ' class="sig"' : ''}><td>H${t.degree}</td><td>${escapeHtml(t.a)}</td><td>${escapeHtml(t.b)}</td>` +
+          `<td class="num">${t.sizes[0]} / ${t.sizes[1]}</td><td class="num">${fixed(t.statistic, 4)}</td><td class="num">${pValue(t.p)}</td><td class="num">${pValue(t.pAdjusted)}</td>` +
+          `<td>${t.pAdjusted <= 0.05 ? 'differ' : 'no evidence'}</td></tr>`,
+      )
+      .join('');
+    pieces.push(
+      part(
+        `${id}-contrasts`,
+        'contrasts',
+        'Do the class means differ?',
+        `Permutation tests of equal mean landscapes for every pair of classes and degree (Robinson and Turner, 2017), with Holm's correction over the whole table (Holm, 1979). ${escapeHtml(ds.contrastNote ?? '')}`,
+        `<table class="grid"><tr><th>degree</th><th>class a</th><th>class b</th><th class="num">samples</th><th class="num">distance of means</th><th class="num">p</th><th class="num">p (Holm)</th><th>at 5%</th></tr>${rows}</table>`,
+      ),
+    );
+  }
+
+  // Discriminative maps.
+  const maps: string[] = [];
+  if (ds.maps?.weights && ds.maps.weights.curves.length > 0) {
+    const degrees = [...new Set(ds.maps.weights.curves.map((c) => c.degree))].sort((a, b) => a - b);
+    for (const degree of degrees) {
+      const svg = await renderSvg(weightMapChart(degree, ds.maps.weights.curves, 'weight'));
+      maps.push(figure(svg, escapeHtml(ds.maps.weights.note), 'map'));
+    }
+  }
+  if (ds.maps?.importance && ds.maps.importance.rows.length > 0) {
+    const svg = await renderSvg(importanceChart(ds.maps.importance.rows));
+    maps.push(figure(svg, escapeHtml(ds.maps.importance.note), 'importance'));
+  }
+  if (maps.length > 0) {
+    pieces.push(
+      part(
+        `${id}-maps`,
+        'maps',
+        'Discriminative maps',
+        'Which parts of the landscape the model leans on: linear weights carried back to the landscape axis, and the drop in held-out accuracy when one degree and layer is shuffled across samples.',
+        maps.join(''),
+      ),
+    );
+  }
+
+  // Example diagrams.
+  if (ds.examples.length > 0) {
+    const charts: string[] = [];
+    for (const e of ds.examples) {
+      const svg = await renderSvg(diagramChart(e.diagrams, `${e.label}`));
+      charts.push(figure(svg, `sample ${escapeHtml(e.sample)}`, 'diagram'));
+    }
+    pieces.push(
+      part(
+        `${id}-examples`,
+        'examples',
+        'Example diagrams per class',
+        `One sample per class: each point is a feature born at one scale and dying at another; far from the dashed diagonal means long-lived. Colours: ${DEGREE_COLOURS.map((c, d) => `<span class="key" style="background:${c}"></span>H${d}`).join(' ')}; triangles on top are classes that never die.`,
+        `<div class="tiles">${charts.join('')}</div>`,
+      ),
+    );
+  }
+
+  const description = ds.description ? `<p class="lead">${escapeHtml(ds.description)}</p>` : '';
+  return `<section class="dataset" id="${id}" data-dataset="${escapeHtml(ds.name)}"><h2>${escapeHtml(ds.name)}</h2>${description}${pieces.join('')}</section>`;
+}
+
+const STYLE = `
+:root{--ink:${INK};--muted:${MUTED_INK};--rule:${RULE};--paper:#ffffff;--ground:#f3f4f7;--accent:#1f5fa8;--warn:#9a5b00}
+*{box-sizing:border-box}
+html{background:var(--ground)}
+body{margin:0;font:15px/1.55 ${FONT_STACK};color:var(--ink)}
+header.top{background:#17233a;color:#eef2f8;padding:28px 0 22px}
+header.top .wrap,main,footer{max-width:1180px;margin:0 auto;padding:0 28px}
+header.top .kicker{font-size:12px;letter-spacing:.14em;text-transform:uppercase;color:#9fb4d4;margin:0 0 6px}
+header.top h1{font-size:28px;line-height:1.2;margin:0 0 8px;font-weight:650}
+header.top p{margin:0;color:#cfd9e8;max-width:880px}
+header.top .meta{margin-top:12px;font:12.5px/1.5 ${MONO_STACK};color:#9fb4d4}
+.caution{margin:22px 0 8px;background:#fff8ec;border:1px solid #f0d7a8;border-left:5px solid #d08a17;border-radius:6px;padding:12px 16px;color:#4a3510}
+.caution strong{color:var(--warn)}
+nav.toc{margin:14px 0 0;font-size:13.5px;color:var(--muted)}
+nav.toc a{color:var(--accent);text-decoration:none;margin-right:14px}
+nav.toc a:hover{text-decoration:underline}
+section.dataset{background:var(--paper);border:1px solid var(--rule);border-radius:8px;margin:26px 0;padding:6px 28px 22px}
+section.dataset>h2{font-size:22px;margin:18px 0 4px;font-weight:650}
+p.lead{color:var(--muted);margin:0 0 6px;max-width:900px}
+section.part{border-top:1px solid var(--rule);margin-top:18px;padding-top:6px}
+section.part h3{font-size:17px;margin:12px 0 2px;font-weight:620}
+p.how{color:var(--muted);font-size:13.5px;margin:0 0 12px;max-width:920px}
+.cols{display:flex;flex-wrap:wrap;gap:22px;align-items:flex-start}
+table{border-collapse:collapse;font-size:13.5px}
+table caption{text-align:left;font-weight:600;font-size:12.5px;text-transform:uppercase;letter-spacing:.06em;color:var(--muted);padding-bottom:4px}
+table.facts th{text-align:left;font-weight:500;color:var(--muted);padding:2px 14px 2px 0;vertical-align:top}
+table.facts td{padding:2px 0}
+table.opts code{font:12.5px ${MONO_STACK};word-break:break-word}
+table.grid{margin:10px 0 4px;min-width:60%}
+table.grid th{text-align:left;font-weight:600;border-bottom:2px solid var(--ink);padding:5px 14px 5px 0}
+table.grid .num{text-align:right}
+table.grid td{border-bottom:1px solid var(--rule);padding:4px 14px 4px 0}
+.num{text-align:right;font-variant-numeric:tabular-nums}
+tr.best td{background:#eef4fb;font-weight:600}
+tr.sig td{background:#eef4fb}
+.findings{margin-top:14px;background:#f6f8fb;border-left:4px solid var(--accent);padding:8px 16px;border-radius:4px}
+.findings h4{margin:4px 0;font-size:14px}
+.findings ul{margin:4px 0 6px;padding-left:20px}
+figure.chart{margin:8px 0 14px;display:inline-block;vertical-align:top}
+figure.chart svg{display:block;max-width:100%;height:auto}
+figure.chart figcaption{font-size:12.5px;color:var(--muted);max-width:560px;margin-top:4px}
+.tiles{display:flex;flex-wrap:wrap;gap:6px 26px}
+span.key{display:inline-block;width:10px;height:10px;border-radius:50%;margin:0 4px 0 6px;vertical-align:0}
+footer{color:var(--muted);font-size:12.5px;padding:8px 28px 40px}
+footer h2{font-size:15px;color:var(--ink)}
+@media print{html{background:#fff}section.dataset{border:none;padding:0}header.top{background:#fff;color:#000}}
+`;
+
+/** Renders the whole report page. */
+export async function renderReport(input: ReportInput): Promise<string> {
+  const sections: string[] = [];
+  for (let i = 0; i < input.datasets.length; i++) sections.push(await datasetSection(input.datasets[i], i));
+  const toc = input.datasets.map((d, i) => `<a href="#d${i + 1}-${slug(d.name)}">${escapeHtml(d.name)}</a>`).join('');
+  const meta = `landform ${escapeHtml(input.version)} · ${escapeHtml(input.command)}${input.seed === undefined ? '' : ` · seed ${input.seed}`}`;
+  return `<!DOCTYPE html>
+<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
+<meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; img-src data:">
+<title>${escapeHtml(input.title)}</title><style>${STYLE}</style></head>
+<body><header class="top"><div class="wrap"><p class="kicker">landform · shape report</p><h1>${escapeHtml(input.title)}</h1>${
+    input.lead ? `<p>${escapeHtml(input.lead)}</p>` : ''
+  }<div class="meta">${meta}</div></div></header>
+<main><div class="caution" role="note" data-part="caution"><strong>Caution.</strong> ${escapeHtml(CAUTION_TEXT)}</div>
+${input.datasets.length > 1 ? `<nav class="toc">Datasets: ${toc}</nav>` : ''}
+${sections.join('\n')}
+</main>
+<footer><h2>How these numbers were made</h2><p>Persistent homology per sample; persistence landscapes (Bubenik, 2015) vectorised on a grid learned inside each training fold; models chosen by inner cross-validation and scored on outer folds. Class means use every sample; their bands are simultaneous multiplier-bootstrap bands (Chazal et al., 2015); contrasts are permutation tests (Robinson and Turner, 2017) with Holm's correction (Holm, 1979).</p></footer>
+</body></html>
+`;
+}

@@ -1,0 +1,173 @@
+import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { Random } from '../../src/core/random.js';
+import { makeDiagram } from '../../src/homology/diagram.js';
+import { multiplierBand } from '../../src/report/bands.js';
+import { CAUTION_TEXT, type DatasetReport, escapeHtml, renderReport, slug } from '../../src/report/html.js';
+import { contrastAll } from '../../src/report/permutation.js';
+import { type GridSpec, stackLandscapes } from '../../src/report/stack.js';
+import { tempDir, testOutput } from '../helpers/cli.js';
+
+const HOSTILE = '<script>alert(1)</script>';
+
+describe('escapeHtml', () => {
+  it('escapes the five HTML special characters and nothing else', () => {
+    // WHATWG HTML Living Standard, "Escaping a string": &, <, > (and " ' inside attributes).
+    expect(escapeHtml(`a<b>&"c'd`)).toBe('a&lt;b&gt;&amp;&quot;c&#39;d');
+    expect(escapeHtml('λ₁ · H1')).toBe('λ₁ · H1');
+    expect(escapeHtml(HOSTILE)).not.toContain('<');
+  });
+  it('makes fragment ids from any text', () => {
+    expect(slug('Pump (raw)')).toBe('pump-raw');
+    expect(slug('<>')).toBe('x');
+  });
+});
+
+/** A report built from data made here: three classes of random diagrams, one class with a hostile name. */
+async function buildReport(): Promise<{ html: string; dataset: DatasetReport }> {
+  const random = new Random(17);
+  const grid: GridSpec = { start: 0, stop: 2.5, count: 60 };
+  const depth = 3;
+  const labels = ['ring', 'disc', HOSTILE];
+  const means: DatasetReport['means'][number][] = [];
+  const stacksByDegree: Array<{ degree: number; classes: Array<{ label: string; stack: ReturnType<typeof stackLandscapes> }> }> = [];
+  const examples: DatasetReport['examples'][number][] = [];
+  for (const degree of [0, 1]) {
+    const classes = labels.map((label, c) => {
+      const rows: Float64Array[] = [];
+      for (let i = 0; i < 20; i++) {
+        const pairs: Array<[number, number]> = [];
+        for (let p = 0; p < 4; p++) {
+          const b = random.uniform(0, 0.8);
+          pairs.push([b, b + random.uniform(0.2, 0.6) * (1 + c * 0.5)]);
+        }
+        if (degree === 1 && i === 0) examples.push({ label, sample: `${label}-${i}`, diagrams: [makeDiagram(0, [...pairs, [0, Infinity]]), makeDiagram(1, pairs.slice(0, 2))] });
+        const out = new Float64Array(depth * grid.count);
+        for (let j = 0; j < grid.count; j++) {
+          const t = grid.start + (j * (grid.stop - grid.start)) / (grid.count - 1);
+          const tents = pairs.map(([b, d]) => Math.max(0, Math.min(t - b, d - t))).sort((x, y) => y - x);
+          for (let k = 0; k < depth; k++) out[k * grid.count + j] = tents[k] ?? 0;
+        }
+        rows.push(out);
+      }
+      return { label, stack: stackLandscapes(rows, grid, depth) };
+    });
+    stacksByDegree.push({ degree, classes });
+    means.push({ degree, classes: classes.map((c) => ({ label: c.label, band: multiplierBand(c.stack, { draws: 200 }) })) });
+  }
+  const contrasts = contrastAll(stacksByDegree, { permutations: 99 });
+  const t = Array.from({ length: 40 }, (_, j) => (j * 2.5) / 39);
+  const dataset: DatasetReport = {
+    name: `rings & ${HOSTILE}`,
+    description: 'Built inside the test from random diagrams.',
+    summary: { kind: 'diagrams', samples: 60, classes: labels.map((label) => ({ label, count: 20 })) },
+    options: { degrees: [0, 1], folds: 5, note: HOSTILE },
+    accuracy: [
+      { features: 'landscape', model: 'pca-svm', mean: 0.9, std: 0.05, balancedAccuracy: 0.9, macroF1: 0.89 },
+      { features: 'raw', model: 'pca-svm', mean: 0.6, std: 0.1 },
+      { features: 'landscape', model: 'dense', mean: 0.85, std: 0.07 },
+      { features: 'raw', model: 'dense', mean: 0.55, std: 0.12 },
+    ],
+    confusions: [
+      { features: 'landscape', model: 'pca-svm', classes: labels, matrix: [[18, 2, 0], [1, 19, 0], [0, 3, 17]] },
+      { features: 'raw', model: 'pca-svm', classes: labels, matrix: [[12, 6, 2], [5, 11, 4], [3, 4, 13]] },
+    ],
+    means,
+    contrasts,
+    contrastNote: '99 permutations, L2 distance.',
+    maps: {
+      weights: {
+        curves: [0, 1].flatMap((degree) => [1, 2].map((layer) => ({ degree, layer, t, value: t.map((x) => Math.sin(x * layer + degree)) }))),
+        note: 'Linear weights.',
+      },
+      importance: { rows: [{ group: 'H0 λ1', mean: 0.1, std: 0.02 }, { group: 'H1 λ1', mean: 0.3, std: 0.05 }], note: 'Permutation importance.' },
+    },
+    examples,
+    findings: [`The class ${HOSTILE} is the most spread out.`],
+  };
+  const html = await renderReport({ title: 'Report test', lead: 'Charts from data made in the test.', version: '0.0.0', command: 'test', seed: 1, datasets: [dataset] });
+  return { html, dataset };
+}
+
+describe('renderReport', () => {
+  let html = '';
+  let dir = '';
+  let file = '';
+  beforeAll(async () => {
+    html = (await buildReport()).html;
+    dir = tempDir();
+    file = join(dir, 'report.html');
+    writeFileSync(file, html);
+  }, 60_000);
+  afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+  it('is one self-contained page with the caution and no active content', () => {
+    expect(html.startsWith('<!DOCTYPE html>')).toBe(true);
+    expect(html).toContain(escapeHtml(CAUTION_TEXT));
+    expect(html).not.toMatch(/<script/i);
+    expect(html).not.toMatch(/\b(src|href)="(https?:)?\/\//i);
+    expect(html).not.toMatch(/@import|@font-face|url\(\s*['"]?https?:/i);
+    expect(html).toContain('&lt;script&gt;alert(1)&lt;/script&gt;');
+  });
+
+  it('renders in a real browser with no console errors, no network requests and every chart in place', async () => {
+    const { chromium } = await import('playwright-core');
+    const profile = tempDir('landform-chromium-');
+    const context = await chromium.launchPersistentContext(profile, {
+      executablePath: '/usr/bin/chromium',
+      headless: true,
+      viewport: { width: 1280, height: 800 },
+      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    });
+    const foreign: string[] = [];
+    const errors: string[] = [];
+    const dialogs: string[] = [];
+    try {
+      await context.route('**/*', (route) => {
+        const url = route.request().url();
+        if (url.startsWith('file:')) return route.continue();
+        foreign.push(url);
+        return route.abort();
+      });
+      context.on('request', (request) => {
+        if (!request.url().startsWith('file:')) foreign.push(request.url());
+      });
+      const page = context.pages()[0] ?? (await context.newPage());
+      page.on('console', (message) => {
+        if (message.type() === 'error') errors.push(message.text());
+      });
+      page.on('pageerror', (error) => errors.push(error.message));
+      page.on('dialog', (dialog) => {
+        dialogs.push(dialog.message());
+        void dialog.dismiss();
+      });
+      await page.goto(pathToFileURL(file).href, { waitUntil: 'load' });
+
+      const count = (part: string) => page.locator(`section[data-part="${part}"] figure.chart svg`).count();
+      expect(await count('accuracy')).toBe(1);
+      expect(await count('confusion')).toBe(2);
+      expect(await count('means')).toBe(2); // one chart per degree
+      expect(await count('maps')).toBe(3); // weights for H0 and H1, plus importance
+      expect(await count('examples')).toBe(3); // one per class
+      expect(await page.locator('section[data-part="contrasts"] table tr').count()).toBe(1 + 2 * 3); // header + pairs × degrees
+
+      // The hostile class name is shown as text, never run.
+      expect(await page.getByText(HOSTILE, { exact: true }).count()).toBeGreaterThan(0);
+      expect(await page.locator('script').count()).toBe(0);
+      expect(dialogs).toEqual([]);
+      expect(await page.locator('[data-part="caution"]').isVisible()).toBe(true);
+
+      mkdirSync(testOutput, { recursive: true });
+      writeFileSync(join(testOutput, 'report-test.html'), html);
+      await page.screenshot({ path: join(testOutput, 'report-test.png') });
+      await page.screenshot({ path: join(testOutput, 'report-test-full.png'), fullPage: true });
+    } finally {
+      await context.close();
+      rmSync(profile, { recursive: true, force: true });
+    }
+    expect(foreign).toEqual([]);
+    expect(errors).toEqual([]);
+  }, 90_000);
+});
