@@ -14,3 +14,40 @@ export {
   type FeatureTable,
   type FeatureFormat,
 } from './feature-table.js';
+export {
+  parseShard,
+  formatShard,
+  resolveShard,
+  shardOf,
+  shardOrdinals,
+  shardFileName,
+  planShard,
+  fnv1a32,
+  SHARD_COUNT_VARIABLE,
+  type Shard,
+  type ResolvedShard,
+  type ShardRecord,
+  type ShardPlan,
+  type ShardedProvenance,
+} from './shard.js';
+export {
+  mergeShards,
+  chooseFormat,
+  formatFromPath,
+  writeDiagramsOutput,
+  writeFeaturesOutput,
+  readDiagramsOutput,
+  readFeaturesOutput,
+  type OutputFormat,
+  type MergeSummary,
+} from './merge.js';
+export {
+  formatDiagramArrow,
+  formatFeatureArrow,
+  readArrow,
+  readDiagramArrow,
+  readFeatureArrow,
+  writeDiagramArrow,
+  writeFeatureArrow,
+  type ArrowContent,
+} from './arrow.js';
