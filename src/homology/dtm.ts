@@ -15,7 +15,46 @@
  * diagram is on half the scale of a plain Rips diagram on distances. Outliers get large f and enter late:
  * their H0 bars start late and are short instead of long.
  */
+import type { Diagram } from './diagram.js';
+import { type Metric, condenseMatrix, pairwiseDistances } from './metric.js';
 import { nearestNeighbours, nearestNeighboursFromMatrix } from './nearest.js';
+import { type RipsOptions, ripsPersistence } from './rips.js';
+
+export interface DtmOptions {
+  /** Highest homology degree, 0–2. */
+  maxDegree: 0 | 1 | 2;
+  /** Largest filtration value kept (default: the engine's enclosing radius). */
+  maxScale?: number;
+  /** Metric of the cloud. Default 'euclidean' (neighbours through the k-d tree); others scan all pairs. */
+  metric?: Metric;
+  /** Passed to the Rips engine. */
+  memoryLimit?: number;
+}
+
+/**
+ * Diagrams of the DTM filtration of a point cloud with K neighbours: DTM values as vertex values, the p = 1
+ * edge rule, and the Rips engine for everything above edges.
+ */
+export function dtmPersistence(coords: Float64Array, count: number, dim: number, k: number, options: DtmOptions): Diagram[] {
+  const metric = options.metric ?? 'euclidean';
+  const condensed = pairwiseDistances(coords, count, dim, metric);
+  const f = metric === 'euclidean' ? dtmValues(coords, count, dim, k) : dtmValuesFromCondensed(condensed, count, k);
+  return weightedRips(count, condensed, f, options);
+}
+
+/** Diagrams of the DTM filtration from a full `size × size` distance matrix. */
+export function dtmPersistenceFromMatrix(matrix: Float64Array, size: number, k: number, options: DtmOptions): Diagram[] {
+  const f = dtmValuesFromMatrix(matrix, size, k);
+  return weightedRips(size, condenseMatrix(matrix, size), f, options);
+}
+
+function weightedRips(n: number, condensed: Float64Array, f: Float64Array, options: DtmOptions): Diagram[] {
+  const edges = dtmEdgeValues(condensed, f);
+  const rips: RipsOptions = { maxDegree: options.maxDegree, vertexValues: f };
+  if (options.maxScale !== undefined) rips.maxScale = options.maxScale;
+  if (options.memoryLimit !== undefined) rips.memoryLimit = options.memoryLimit;
+  return ripsPersistence(n, edges, rips);
+}
 
 /** DTM values of the points of a cloud (row-major `coords`), with K nearest neighbours, self included. */
 export function dtmValues(coords: ArrayLike<number>, count: number, dim: number, k: number): Float64Array {

@@ -1,6 +1,23 @@
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
-import { dtmEdgeValue, dtmEdgeValues, dtmProblem, dtmValues, dtmValuesFromMatrix } from '../../src/homology/dtm.js';
+import type { Diagram } from '../../src/homology/diagram.js';
+import {
+  dtmEdgeValue,
+  dtmEdgeValues,
+  dtmPersistence,
+  dtmPersistenceFromMatrix,
+  dtmProblem,
+  dtmValues,
+  dtmValuesFromCondensed,
+  dtmValuesFromMatrix,
+} from '../../src/homology/dtm.js';
+import { complexPersistence } from '../../src/homology/filtered-complex.js';
+
+function rows(d: Diagram): Array<[number, number]> {
+  const out: Array<[number, number]> = [];
+  for (let i = 0; i < d.births.length; i++) if (d.deaths[i] > d.births[i] + 1e-12) out.push([d.births[i], d.deaths[i]]);
+  return out.sort((a, b) => a[0] - b[0] || a[1] - b[1]);
+}
 
 /** The empirical DTM by its definition (Anai et al., "DTM-based filtrations", 2019, §2): m = k/n, self included. */
 function dtmByDefinition(c: ArrayLike<number>, n: number, dim: number, k: number): number[] {
@@ -101,5 +118,105 @@ describe('DTM edge values (p = 1)', () => {
     expect(dtmProblem(0, 10)).toMatch(/K ≥ 1/);
     expect(dtmProblem(20, 10)).toMatch(/only 10 points.*K ≤ 10/);
     expect(dtmProblem(5, 10)).toBeUndefined();
+  });
+});
+
+describe('DTM filtration through the Rips engine', () => {
+  it('gives the hand-worked diagram of four points on a line, with non-zero H0 births', () => {
+    // Points 0, 1, 3, 7, K = 2: f = (√½, √½, √2, √8). Edges (p = 1): 01 → (2√½ + 1)/2, 12 → (√½ + √2 + 2)/2,
+    // 23 → (√2 + √8 + 4)/2. Elder rule: the younger component dies at each merge (Anai et al. 2019, §3).
+    const h = Math.SQRT1_2;
+    const [h0] = dtmPersistence(Float64Array.from([0, 1, 3, 7]), 4, 1, 2, { maxDegree: 0 });
+    const expected: Array<[number, number]> = [
+      [h, (2 * h + 1) / 2],
+      [h, Infinity],
+      [Math.SQRT2, (h + Math.SQRT2 + 2) / 2],
+      [Math.sqrt(8), (Math.SQRT2 + Math.sqrt(8) + 4) / 2],
+    ];
+    const got = rows(h0);
+    expect(got.length).toBe(4);
+    for (let i = 0; i < 4; i++) {
+      expect(got[i][0]).toBeCloseTo(expected[i][0], 12);
+      if (expected[i][1] === Infinity) expect(got[i][1]).toBe(Infinity);
+      else expect(got[i][1]).toBeCloseTo(expected[i][1], 12);
+    }
+  });
+
+  it('equals the standard reduction of the explicit weighted Rips complex (the definition built directly)', () => {
+    // Reference: every vertex, edge and triangle listed with its DTM value and reduced by the column algorithm
+    // (Edelsbrunner, Letscher & Zomorodian, "Topological persistence and simplification", 2002).
+    for (let seed = 1; seed <= 6; seed++) {
+      const r = new Random(seed);
+      const n = 9 + seed;
+      const c = Float64Array.from({ length: 2 * n }, () => r.normal());
+      const f = dtmValues(c, n, 2, 3);
+      const vertices: number[] = [];
+      const edges: number[] = [];
+      const edgeValues: number[] = [];
+      const triangles: number[] = [];
+      const triangleValues: number[] = [];
+      const edge = (i: number, j: number) => dtmEdgeValue(f[i], f[j], Math.hypot(c[2 * i] - c[2 * j], c[2 * i + 1] - c[2 * j + 1]));
+      for (let i = 0; i < n; i++) {
+        vertices.push(i);
+        for (let j = i + 1; j < n; j++) {
+          edges.push(i, j);
+          edgeValues.push(edge(i, j));
+          for (let k = j + 1; k < n; k++) {
+            triangles.push(i, j, k);
+            triangleValues.push(Math.max(edge(i, j), edge(i, k), edge(j, k)));
+          }
+        }
+      }
+      const expected = complexPersistence(
+        { simplices: [Int32Array.from(vertices), Int32Array.from(edges), Int32Array.from(triangles)], values: [f, Float64Array.from(edgeValues), Float64Array.from(triangleValues)] },
+        1,
+      );
+      const got = dtmPersistence(c, n, 2, 3, { maxDegree: 1 });
+      for (const degree of [0, 1]) {
+        const a = rows(got[degree]);
+        const e = rows(expected[degree]).filter((p) => degree === 0 || p[1] !== Infinity);
+        expect(a.length, `seed ${seed} H${degree}`).toBe(e.length);
+        for (let i = 0; i < a.length; i++) {
+          expect(a[i][0]).toBeCloseTo(e[i][0], 10);
+          if (e[i][1] === Infinity) expect(a[i][1]).toBe(Infinity);
+          else expect(a[i][1]).toBeCloseTo(e[i][1], 10);
+        }
+      }
+    }
+  });
+
+  it('gives the same diagrams from a distance matrix and from condensed distances', () => {
+    const r = new Random(4);
+    const n = 25;
+    const c = Float64Array.from({ length: 3 * n }, () => r.normal());
+    const m = new Float64Array(n * n);
+    const condensed: number[] = [];
+    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) m[i * n + j] = Math.hypot(c[3 * i] - c[3 * j], c[3 * i + 1] - c[3 * j + 1], c[3 * i + 2] - c[3 * j + 2]);
+    for (let j = 1; j < n; j++) for (let i = 0; i < j; i++) condensed.push(m[i * n + j]);
+    const a = dtmPersistence(c, n, 3, 5, { maxDegree: 1 });
+    const b = dtmPersistenceFromMatrix(m, n, 5, { maxDegree: 1 });
+    for (const d of [0, 1]) {
+      expect(rows(b[d]).length).toBe(rows(a[d]).length);
+      rows(b[d]).forEach((p, i) => expect(p[1]).toBeCloseTo(rows(a[d])[i][1], 10));
+    }
+    const f = dtmValuesFromCondensed(condensed, n, 5);
+    const g = dtmValues(c, n, 3, 5);
+    for (let i = 0; i < n; i++) expect(f[i]).toBeCloseTo(g[i], 12);
+  });
+
+  it('turns an outlier from a long H0 bar into a short late one', () => {
+    // Common practice, no source: the reason DTM is used on noisy clouds.
+    const r = new Random(12);
+    const pts: number[] = [];
+    for (let i = 0; i < 60; i++) {
+      const a = r.uniform(0, 2 * Math.PI);
+      pts.push(Math.cos(a) + r.normal(0, 0.03), Math.sin(a) + r.normal(0, 0.03));
+    }
+    pts.push(3, 0);
+    const [h0] = dtmPersistence(Float64Array.from(pts), 61, 2, 8, { maxDegree: 0 });
+    const finite = rows(h0).filter((p) => p[1] !== Infinity);
+    const longest = Math.max(...finite.map((p) => p[1] - p[0]));
+    // Under plain Rips on radii the outlier's bar would be about (3 − 1)/2 = 1 long.
+    expect(longest).toBeLessThan(0.5);
   });
 });
