@@ -1,13 +1,53 @@
 import type { Command } from 'commander';
+import { UserError } from '../../core/errors.js';
+import { startProgress } from '../progress.js';
 
-/** `landform merge`: placeholder until its issue lands; refuses to run. */
+interface MergeOptions {
+  out?: string;
+  format?: string;
+  quiet?: boolean;
+}
+
+/**
+ * `landform merge <shard outputs…> --out FILE`: joins the outputs of `diagrams … --shard I/N` or
+ * `vectorize … --shard I/N` into the file an unsharded run would have written, after checking that the
+ * shards are complete, given once, disjoint and made with the same settings from the same data.
+ */
 export function defineMerge(program: Command): Command {
   return program
     .command('merge')
-    .description('(not yet available)')
-    .allowUnknownOption()
-    .allowExcessArguments()
-    .action(() => {
-      throw new Error("'landform merge' is not built yet");
+    .description('join the shard outputs of a sharded diagrams or vectorize run into one file')
+    .argument('<files...>', 'the shard outputs (e.g. out/diagrams.shard-*.csv), each with its .provenance.json beside it')
+    .option('--out <file>', 'the merged file (.csv, .arrow, or .npy for features); format from its extension')
+    .option('--format <format>', 'csv, npy or arrow, when the extension should not decide')
+    .addHelpText(
+      'after',
+      `
+Samples are written in the order of the original dataset, so the merged file equals the output of the same
+command run without --shard, byte for byte. A missing or repeated shard, shards of different runs, options
+or data are refused and nothing is written.
+
+Example:
+  landform diagrams lattice.csv --degrees 0,1 --shard 2/7 --out out/diagrams.csv   # one of seven jobs
+  landform merge out/diagrams.shard-*-of-7.csv --out diagrams.csv`,
+    )
+    .action(async (files: string[], options: MergeOptions) => {
+      if (options.out === undefined) throw new UserError('--out FILE is required: where to write the merged file');
+      const { mergeShards } = await import('../../io/merge.js');
+      const progress = await startProgress('merge', files.length, options.quiet === true);
+      try {
+        const summary = await mergeShards(files, options.out, {
+          format: options.format,
+          onProgress: (done, total) => progress.update(done, total),
+        });
+        progress.stop();
+        if (!options.quiet) {
+          process.stderr.write(
+            `landform: merged ${summary.shards} shard${summary.shards === 1 ? '' : 's'} (${summary.samples} samples, ${summary.output}) → ${summary.out}\n`,
+          );
+        }
+      } finally {
+        progress.stop();
+      }
     });
 }
