@@ -10,6 +10,27 @@ import {
   subsampleSample,
 } from '../../src/homology/subsample.js';
 import type { PointSample } from '../../src/io/dataset.js';
+import { alphaPersistence } from '../../src/homology/alpha.js';
+import { bottleneckDistance } from '../../src/homology/distance.js';
+import { pairwiseDistances } from '../../src/homology/metric.js';
+import { ripsPersistence } from '../../src/homology/rips.js';
+
+function noisyCircle(seed: number, n: number): Float64Array {
+  const r = new Random(seed);
+  const c = new Float64Array(2 * n);
+  for (let i = 0; i < n; i++) {
+    const a = r.uniform(0, 2 * Math.PI);
+    c[2 * i] = Math.cos(a) + r.normal(0, 0.05);
+    c[2 * i + 1] = Math.sin(a) + r.normal(0, 0.05);
+  }
+  return c;
+}
+
+function cut(c: Float64Array, dim: number, idx: Int32Array): Float64Array {
+  const out = new Float64Array(idx.length * dim);
+  for (let l = 0; l < idx.length; l++) for (let a = 0; a < dim; a++) out[l * dim + a] = c[idx[l] * dim + a];
+  return out;
+}
 
 function cloud(seed: number, count: number, dim: number): Float64Array {
   const r = new Random(seed);
@@ -110,5 +131,38 @@ describe('subsampling a sample', () => {
     expect(parseSubsample('maxmin:0')).toBeUndefined();
     expect(parseSubsample('grid:5')).toBeUndefined();
     expect(parseSubsample('maxmin:abc')).toBeUndefined();
+  });
+});
+
+describe('stability of landmark diagrams', () => {
+  it('keep the Rips diagrams within 2ε in bottleneck distance', () => {
+    // Landmarks L ⊂ X with covering radius ε are within Gromov–Hausdorff distance ε, so the Rips diagrams
+    // (on distances) are within 2ε in bottleneck distance (Chazal, de Silva & Oudot, "Persistence stability
+    // for geometric complexes", 2014, Thm 5.2).
+    for (const method of ['maxmin', 'random'] as const) {
+      const n = 180;
+      const c = noisyCircle(method === 'maxmin' ? 2 : 3, n);
+      const l = selectLandmarks(c, n, 2, { method, count: 40, seed: 5 });
+      const sub = cut(c, 2, l.indices);
+      const full = ripsPersistence(n, pairwiseDistances(c, n, 2), { maxDegree: 1 });
+      const small = ripsPersistence(40, pairwiseDistances(sub, 40, 2), { maxDegree: 1 });
+      for (const d of [0, 1]) {
+        const b = bottleneckDistance(full[d], small[d]);
+        expect(b).toBeLessThanOrEqual(2 * l.coveringRadius + 1e-12);
+      }
+      // The circle's loop survives subsampling.
+      expect(Math.max(...Array.from(small[1].deaths).map((x, i) => x - small[1].births[i]))).toBeGreaterThan(1);
+    }
+  });
+
+  it('keep the alpha (Čech) diagrams within ε in bottleneck distance', () => {
+    // On radii the Čech filtrations of X and L are ε-interleaved (union of balls; Cohen-Steiner, Edelsbrunner
+    // & Harer, "Stability of persistence diagrams", 2007; nerve theorem for alpha = Čech).
+    const n = 800;
+    const c = noisyCircle(4, n);
+    const l = maxminLandmarks(c, n, 2, 80, 2);
+    const full = alphaPersistence(c, n);
+    const small = alphaPersistence(cut(c, 2, l.indices), 80);
+    for (const d of [0, 1]) expect(bottleneckDistance(full[d], small[d])).toBeLessThanOrEqual(l.coveringRadius + 1e-12);
   });
 });
