@@ -32,7 +32,7 @@ export interface ExactLandscapeOptions {
  * crossing tents, cut at the crossing — is passed on, still sorted, as the pieces of the next layer.
  * Cost O(n log n) for the sort plus, per layer, the pieces left for that layer; each crossing adds one
  * piece and one breakpoint, so the work follows the size of the output (deeply nested pairs are walked
- * once per layer above them). Zero-length pairs contribute nothing.
+ * once per layer above them). Zero-length pairs contribute nothing (see `resolvable`).
  *
  * Finite pairs only: apply `finitePairs` first. Throws on an infinite or NaN value.
  */
@@ -50,14 +50,14 @@ export function exactLandscape(diagram: Diagram, options: ExactLandscapeOptions 
         `pair ${i} of the degree-${diagram.degree} diagram is (${b}, ${d}); landscapes need finite pairs — apply finitePairs first`,
       );
     }
-    if (d > b) n++;
+    if (resolvable(b, d)) n++;
   }
   // Current pieces, sorted by birth ascending then death descending.
   let curB = new Float64Array(n);
   let curD = new Float64Array(n);
   {
     const order = new Uint32Array(n);
-    for (let i = 0, j = 0; i < n0; i++) if (deaths[i] > births[i]) order[j++] = i;
+    for (let i = 0, j = 0; i < n0; i++) if (resolvable(births[i], deaths[i])) order[j++] = i;
     order.sort((x, y) => births[x] - births[y] || deaths[y] - deaths[x]);
     for (let j = 0; j < n; j++) {
       curB[j] = births[order[j]];
@@ -124,6 +124,15 @@ export function exactLandscape(diagram: Diagram, options: ExactLandscapeOptions 
     size = nextSize;
   }
   return { degree: diagram.degree, layers };
+}
+
+/**
+ * Whether a pair has a tent of positive width in floating point: its midpoint lies strictly between birth
+ * and death. Zero-length pairs (and pairs narrower than rounding, e.g. (0, 5e-324)) contribute nothing.
+ */
+export function resolvable(b: number, d: number): boolean {
+  const m = (b + d) / 2;
+  return m > b && m < d;
 }
 
 /** Appends (b, d) to the sorted pieces, moving it back past pieces that should follow it. Returns the new size. */
