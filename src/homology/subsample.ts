@@ -44,26 +44,76 @@ export function maxminLandmarks(coords: ArrayLike<number>, count: number, dim: n
   // Invariant: nearest[p] is the squared distance from p to the closest of indices[0, l).
   for (let l = 0; l < take; l++) {
     indices[l] = next;
-    const base = next * dim;
-    let far = -1;
-    let farthest = -1;
-    for (let p = 0; p < count; p++) {
-      let d = 0;
-      const pb = p * dim;
-      for (let a = 0; a < dim; a++) {
-        const t = coords[pb + a] - coords[base + a];
-        d += t * t;
-      }
-      if (d < nearest[p]) nearest[p] = d;
-      if (nearest[p] > farthest) {
-        farthest = nearest[p];
-        far = p;
-      }
-    }
-    radiusSquared = farthest;
+    const far = dim === 2 ? relax2(coords, count, next, nearest) : dim === 3 ? relax3(coords, count, next, nearest) : relax(coords, count, dim, next, nearest);
+    radiusSquared = nearest[far];
     next = far;
   }
   return { indices, coveringRadius: take === count ? 0 : Math.sqrt(radiusSquared) };
+}
+
+/** Lowers `nearest` by the distances to landmark `q`; returns the point now farthest from all landmarks. */
+function relax(coords: ArrayLike<number>, count: number, dim: number, q: number, nearest: Float64Array): number {
+  const base = q * dim;
+  let far = 0;
+  let farthest = -1;
+  // Invariant: far is the first point of largest nearest[] among 0..p−1, already lowered by q.
+  for (let p = 0; p < count; p++) {
+    let d = 0;
+    const pb = p * dim;
+    for (let a = 0; a < dim; a++) {
+      const t = coords[pb + a] - coords[base + a];
+      d += t * t;
+    }
+    const m = d < nearest[p] ? d : nearest[p];
+    nearest[p] = m;
+    if (m > farthest) {
+      farthest = m;
+      far = p;
+    }
+  }
+  return far;
+}
+
+function relax2(coords: ArrayLike<number>, count: number, q: number, nearest: Float64Array): number {
+  const qx = coords[2 * q];
+  const qy = coords[2 * q + 1];
+  let far = 0;
+  let farthest = -1;
+  // Invariant: as in relax, for two coordinates.
+  for (let p = 0; p < count; p++) {
+    const dx = coords[2 * p] - qx;
+    const dy = coords[2 * p + 1] - qy;
+    const d = dx * dx + dy * dy;
+    const m = d < nearest[p] ? d : nearest[p];
+    nearest[p] = m;
+    if (m > farthest) {
+      farthest = m;
+      far = p;
+    }
+  }
+  return far;
+}
+
+function relax3(coords: ArrayLike<number>, count: number, q: number, nearest: Float64Array): number {
+  const qx = coords[3 * q];
+  const qy = coords[3 * q + 1];
+  const qz = coords[3 * q + 2];
+  let far = 0;
+  let farthest = -1;
+  // Invariant: as in relax, for three coordinates.
+  for (let p = 0, o = 0; p < count; p++, o += 3) {
+    const dx = coords[o] - qx;
+    const dy = coords[o + 1] - qy;
+    const dz = coords[o + 2] - qz;
+    const d = dx * dx + dy * dy + dz * dz;
+    const m = d < nearest[p] ? d : nearest[p];
+    nearest[p] = m;
+    if (m > farthest) {
+      farthest = m;
+      far = p;
+    }
+  }
+  return far;
 }
 
 /** Greedy farthest-point selection from a full `size × size` distance matrix. */
