@@ -51,3 +51,8 @@ export {
   writeFeatureArrow,
   type ArrowContent,
 } from './arrow.js';
+export { formatPointsCsv, formatSignalCsv, formatTableCsv, formatLabelsCsv, defaultCoordinateNames } from './sample-writers.js';
+export { parsePgm, formatPgm, parsePng, formatPng, type GrayImage } from './image-file.js';
+export { loadFolder, distanceFault, DISTANCE_TOLERANCE } from './folder.js';
+export { readLabelsFile, checkInsidePath, LABELS_FILE, type LabelledFile } from './labels-file.js';
+export { SCENARIOS, scenarioNamed, datasetFiles, datasetsReadme, type Scenario } from './scenarios/index.js';

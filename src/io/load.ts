@@ -53,8 +53,8 @@ export async function loadDataset(path: string, options: LoadOptions = {}): Prom
     throw new UserError('file not found; check the path', { file: path });
   }
   if (isFolder) {
-    // Folders of per-sample files arrive in the next step of this module.
-    throw new UserError('folders cannot be read yet; give a CSV or .npy file', { file: path });
+    const { loadFolder } = await import('./folder.js');
+    return loadFolder(path, options);
   }
   if (extname(path).toLowerCase() === '.npy') return loadArrayFile(path, options);
   return loadCsvFile(path, options);

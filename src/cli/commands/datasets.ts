@@ -1,13 +1,39 @@
 import type { Command } from 'commander';
 
-/** `landform datasets`: placeholder until its issue lands; refuses to run. */
+interface DatasetsOptions {
+  out: string;
+  only?: string;
+  quiet?: boolean;
+}
+
+/**
+ * `landform datasets [--out datasets] [--only NAME]`: writes the shipped demo datasets from their seeded
+ * generators, byte for byte the same on every run, all files in one atomic step.
+ */
 export function defineDatasets(program: Command): Command {
   return program
     .command('datasets')
-    .description('(not yet available)')
-    .allowUnknownOption()
-    .allowExcessArguments()
-    .action(() => {
-      throw new Error("'landform datasets' is not built yet");
+    .description('write the synthetic demo datasets (lattice, pump, field) from their seeded generators')
+    .option('--out <folder>', 'folder to write them into', 'datasets')
+    .option('--only <names>', 'comma-separated dataset names to write (default: all)')
+    .action(async (options: DatasetsOptions) => {
+      const { join } = await import('node:path');
+      const { parseListOption } = await import('../options.js');
+      const { SCENARIOS, datasetsReadme } = await import('../../io/scenarios/index.js');
+      const { writeFilesAtomic } = await import('../../io/atomic.js');
+      const names = SCENARIOS.map((s) => s.name);
+      const chosen = options.only === undefined ? names : parseListOption(options.only, '--only', names);
+      const files: Array<{ path: string; data: string | Uint8Array }> = [];
+      const lines: string[] = [];
+      for (const scenario of SCENARIOS) {
+        if (!chosen.includes(scenario.name)) continue;
+        const own = scenario.files();
+        for (const f of own) files.push({ path: join(options.out, f.path), data: f.data });
+        const samples = scenario.samples();
+        lines.push(`${scenario.name.padEnd(8)} ${scenario.kind.padEnd(7)} ${String(samples.length).padStart(4)} samples  ${join(options.out, scenario.path)}`);
+      }
+      if (chosen.length === names.length) files.push({ path: join(options.out, 'README.md'), data: datasetsReadme() });
+      writeFilesAtomic(files);
+      process.stdout.write(`${lines.join('\n')}\n`);
     });
 }
