@@ -12,6 +12,15 @@ import {
   dtmValuesFromMatrix,
 } from '../../src/homology/dtm.js';
 import { complexPersistence } from '../../src/homology/filtered-complex.js';
+import { LandscapeVectorizer } from '../../src/features/landscape-vectorizer.js';
+import { RawFeatures } from '../../src/features/raw-features.js';
+import type { DiagramSet } from '../../src/homology/diagram.js';
+import { pairwiseDistances } from '../../src/homology/metric.js';
+import { ripsPersistence } from '../../src/homology/rips.js';
+import { classesOf } from '../../src/io/dataset.js';
+import { generateRings } from '../../src/io/scenarios/rings.js';
+import { encodeLabels, stratifiedFolds } from '../../src/learn/folds.js';
+import type { Matrix } from '../../src/learn/matrix.js';
 
 function rows(d: Diagram): Array<[number, number]> {
   const out: Array<[number, number]> = [];
@@ -218,5 +227,77 @@ describe('DTM filtration through the Rips engine', () => {
     const longest = Math.max(...finite.map((p) => p[1] - p[0]));
     // Under plain Rips on radii the outlier's bar would be about (3 − 1)/2 = 1 long.
     expect(longest).toBeLessThan(0.5);
+  });
+});
+
+/** Nearest class centroid after standardising with the training rows' means and deviations. */
+function nearestCentroid(train: Matrix, trainY: ArrayLike<number>, test: Matrix, classCount: number): Int32Array {
+  const cols = train.cols;
+  const mean = new Float64Array(cols);
+  const sd = new Float64Array(cols);
+  for (let r = 0; r < train.rows; r++) for (let j = 0; j < cols; j++) mean[j] += train.data[r * cols + j] / train.rows;
+  for (let r = 0; r < train.rows; r++) for (let j = 0; j < cols; j++) sd[j] += (train.data[r * cols + j] - mean[j]) ** 2 / train.rows;
+  for (let j = 0; j < cols; j++) sd[j] = Math.sqrt(sd[j]) || 1;
+  const centroid = new Float64Array(classCount * cols);
+  const size = new Float64Array(classCount);
+  for (let r = 0; r < train.rows; r++) {
+    size[trainY[r]]++;
+    for (let j = 0; j < cols; j++) centroid[trainY[r] * cols + j] += (train.data[r * cols + j] - mean[j]) / sd[j];
+  }
+  for (let c = 0; c < classCount; c++) for (let j = 0; j < cols; j++) centroid[c * cols + j] /= size[c];
+  const out = new Int32Array(test.rows);
+  for (let r = 0; r < test.rows; r++) {
+    let best = Infinity;
+    for (let c = 0; c < classCount; c++) {
+      let d = 0;
+      for (let j = 0; j < cols; j++) d += ((test.data[r * cols + j] - mean[j]) / sd[j] - centroid[c * cols + j]) ** 2;
+      if (d < best) {
+        best = d;
+        out[r] = c;
+      }
+    }
+  }
+  return out;
+}
+
+describe('DTM against outliers on the gasket-press scenario', () => {
+  it('lifts cross-validated landscape accuracy clearly above plain Rips', () => {
+    // Invented data (src/io/scenarios/rings.ts, seed 8): five classes of noisy planar outlines, 4% stray points,
+    // 12 clouds of 150 points per class. Same pipeline for both filtrations: H0 + H1 landscapes (3 layers,
+    // 30 grid points, grid learned per training fold), nearest standardised centroid, 5 stratified folds.
+    // Measured when written: Rips 0.72, DTM (K = 10) 0.93, and the pairwise-distance histogram baseline 0.98.
+    const samples = generateRings(8);
+    const classes = classesOf(samples);
+    const y = encodeLabels(samples.map((s) => s.label), classes);
+    const rips: DiagramSet[] = samples.map((s) => ({ sample: s.id, label: s.label, diagrams: ripsPersistence(s.count, pairwiseDistances(s.coords, s.count, 2), { maxDegree: 1 }) }));
+    const dtm: DiagramSet[] = samples.map((s) => ({ sample: s.id, label: s.label, diagrams: dtmPersistence(s.coords, s.count, 2, 10, { maxDegree: 1 }) }));
+    const folds = stratifiedFolds(y, classes.length, { folds: 5, seed: 1 });
+    const accuracy = (features: (train: Int32Array, test: Int32Array) => [Matrix, Matrix]): number => {
+      let correct = 0;
+      for (const fold of folds) {
+        const [train, test] = features(fold.train, fold.test);
+        const predicted = nearestCentroid(train, Array.from(fold.train, (i) => y[i]), test, classes.length);
+        predicted.forEach((p, r) => {
+          if (p === y[fold.test[r]]) correct++;
+        });
+      }
+      return correct / samples.length;
+    };
+    const landscapes = (sets: DiagramSet[]) => (train: Int32Array, test: Int32Array): [Matrix, Matrix] => {
+      const v = new LandscapeVectorizer({ depth: 3, gridSize: 30 }).fit(sets, train);
+      return [v.transform(sets, train), v.transform(sets, test)];
+    };
+    const ripsAccuracy = accuracy(landscapes(rips));
+    const dtmAccuracy = accuracy(landscapes(dtm));
+    const histogramAccuracy = accuracy((train, test) => {
+      const raw = new RawFeatures().fit(samples, train);
+      return [raw.transform(samples, train), raw.transform(samples, test)];
+    });
+    expect(dtmAccuracy - ripsAccuracy).toBeGreaterThanOrEqual(0.1);
+    expect(dtmAccuracy).toBeGreaterThanOrEqual(0.85);
+    // The strong baseline, reported rather than hidden: a histogram of pairwise distances (Osada et al.,
+    // "Shape distributions", 2002) is barely troubled by 4% outliers and beats plain Rips here.
+    expect(histogramAccuracy).toBeGreaterThan(ripsAccuracy);
+    console.log(`gasket press, 5-fold accuracy: rips ${ripsAccuracy.toFixed(3)}, dtm:10 ${dtmAccuracy.toFixed(3)}, distance histogram ${histogramAccuracy.toFixed(3)}`);
   });
 });
