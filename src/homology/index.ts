@@ -1,3 +1,10 @@
 export * from './diagram.js';
 export { bottleneckDistance, wassersteinDistance } from './distance.js';
 export { type Assignment, solveAssignment } from './assignment.js';
+export { type RipsOptions, enclosingRadius, ripsPersistence } from './rips.js';
+export { condensedIndex, condensedLength, edgeEndpoints } from './simplex-index.js';
+export { condenseMatrix, METRICS, type Metric, pairwiseDistances } from './metric.js';
+export { type CubicalOptions, cubicalPersistence } from './cubical.js';
+export { type DelayEmbedding, delayEmbedding, signalPersistence } from './signal.js';
+export { computeDiagrams, type DiagramOptions } from './compute.js';
+export { computeDiagramsParallel, type ParallelRun } from './parallel.js';

@@ -90,3 +90,53 @@ export function naiveRips(
   for (const list of finite) list.sort((a, b) => a[0] - b[0] || a[1] - b[1]);
   return { finite, essential };
 }
+
+/** A cell of an explicit filtered complex: its value, dimension and the numbers of its facets. */
+export interface NaiveCell {
+  value: number;
+  dim: number;
+  faces: number[];
+}
+
+/**
+ * The standard column reduction over Z/2 of an explicit filtered complex, cells ordered by (value,
+ * dimension, number) (Edelsbrunner & Harer, "Computational Topology", 2010, section VII.1).
+ */
+export function naiveReduce(cells: NaiveCell[], maxDegree: number): NaivePairs {
+  const order = cells.map((_, i) => i);
+  order.sort((a, b) => cells[a].value - cells[b].value || cells[a].dim - cells[b].dim || a - b);
+  const position = new Int32Array(cells.length);
+  order.forEach((c, p) => {
+    position[c] = p;
+  });
+  const columns = order.map((c) => new Set(cells[c].faces.map((f) => position[f])));
+  const low = (col: Set<number>): number => (col.size === 0 ? -1 : Math.max(...col));
+  const ownerOfLow = new Map<number, number>();
+  const paired = new Set<number>();
+  const finite: Array<Array<[number, number]>> = [];
+  for (let d = 0; d <= maxDegree; d++) finite.push([]);
+  for (let j = 0; j < columns.length; j++) {
+    let l = low(columns[j]);
+    while (l >= 0 && ownerOfLow.has(l)) {
+      for (const x of columns[ownerOfLow.get(l) as number]) {
+        if (columns[j].has(x)) columns[j].delete(x);
+        else columns[j].add(x);
+      }
+      l = low(columns[j]);
+    }
+    if (l >= 0) {
+      ownerOfLow.set(l, j);
+      paired.add(l);
+      const lc = cells[order[l]];
+      const jc = cells[order[j]];
+      if (lc.dim <= maxDegree && jc.value > lc.value) finite[lc.dim].push([lc.value, jc.value]);
+    }
+  }
+  const essential = new Array<number>(maxDegree + 1).fill(0);
+  for (let j = 0; j < columns.length; j++) {
+    const c = cells[order[j]];
+    if (c.dim <= maxDegree && !paired.has(j) && columns[j].size === 0) essential[c.dim]++;
+  }
+  for (const list of finite) list.sort((a, b) => a[0] - b[0] || a[1] - b[1]);
+  return { finite, essential };
+}

@@ -1,0 +1,69 @@
+import { describe, expect, it } from 'vitest';
+import { computeDiagrams } from '../../src/homology/compute.js';
+import { pairwiseDistances } from '../../src/homology/metric.js';
+import type { DistanceSample, PointSample } from '../../src/io/dataset.js';
+
+function square(): PointSample {
+  // The unit square's corners: H1 born at the side 1, dies at the diagonal √2 (worked by hand).
+  return { kind: 'points', id: 's', label: 'a', dim: 2, count: 4, coords: Float64Array.from([0, 0, 1, 0, 1, 1, 0, 1]) };
+}
+
+describe('computeDiagrams', () => {
+  it('computes the requested degrees of a point cloud in order', () => {
+    const set = computeDiagrams(square(), { degrees: [1, 0] });
+    expect(set.sample).toBe('s');
+    expect(set.label).toBe('a');
+    expect(set.diagrams.map((d) => d.degree)).toEqual([0, 1]);
+    expect(Array.from(set.diagrams[1].births)).toEqual([1]);
+    expect(set.diagrams[1].deaths[0]).toBeCloseTo(Math.SQRT2, 12);
+    expect(Array.from(set.diagrams[0].deaths)).toEqual([1, 1, 1, Infinity]);
+  });
+
+  it('gives a distance matrix the same diagrams as its cloud', () => {
+    const s = square();
+    const condensed = pairwiseDistances(s.coords, 4, 2);
+    const matrix = new Float64Array(16);
+    for (let j = 1, e = 0; j < 4; j++)
+      for (let i = 0; i < j; i++, e++) {
+        matrix[i * 4 + j] = condensed[e];
+        matrix[j * 4 + i] = condensed[e];
+      }
+    const sample: DistanceSample = { kind: 'distances', id: 'm', label: 'a', size: 4, matrix };
+    const a = computeDiagrams(sample, { degrees: [0, 1] });
+    const b = computeDiagrams(s, { degrees: [0, 1] });
+    expect(a.diagrams).toEqual(b.diagrams);
+  });
+
+  it('uses the chosen metric: Chebyshev makes the square a clique at 1', () => {
+    const set = computeDiagrams(square(), { degrees: [1], metric: 'chebyshev' });
+    expect(set.diagrams[0].births.length).toBe(0);
+  });
+
+  it('refuses an asymmetric distance matrix and a non-zero diagonal', () => {
+    const bad: DistanceSample = { kind: 'distances', id: 'm', label: '', size: 2, matrix: Float64Array.from([0, 1, 2, 0]) };
+    expect(() => computeDiagrams(bad, { degrees: [0] })).toThrow(/equal both ways/);
+    bad.matrix = Float64Array.from([1, 1, 1, 0]);
+    expect(() => computeDiagrams(bad, { degrees: [0] })).toThrow(/diagonal/);
+  });
+
+  it('asks for an embedding when a signal is asked for loops', () => {
+    const s = { kind: 'signal' as const, id: 'x', label: '', values: Float64Array.from([1, 2, 1]) };
+    expect(() => computeDiagrams(s, { degrees: [0, 1] })).toThrow(/--embed/);
+    expect(computeDiagrams(s, { degrees: [0] }).diagrams[0].births.length).toBe(2);
+    const e = computeDiagrams(s, { degrees: [0, 1], embed: { dimension: 2, delay: 1 } });
+    expect(e.diagrams.length).toBe(2);
+  });
+
+  it('computes images by cubical persistence and refuses degrees beyond their axes', () => {
+    const img = { kind: 'image' as const, id: 'i', label: '', shape: [3, 3], values: Float64Array.from([1, 1, 1, 1, 0, 1, 1, 1, 1]) };
+    const set = computeDiagrams(img, { degrees: [0, 1], superlevel: true });
+    expect(Array.from(set.diagrams[1].births)).toEqual([-1]);
+    expect(Array.from(set.diagrams[1].deaths)).toEqual([0]);
+    expect(() => computeDiagrams(img, { degrees: [2] })).toThrow(/degrees 0 to 1/);
+  });
+
+  it('refuses degrees outside 0–2 and an empty list', () => {
+    expect(() => computeDiagrams(square(), { degrees: [] })).toThrow(/--degrees/);
+    expect(() => computeDiagrams(square(), { degrees: [3] })).toThrow(/0, 1, 2/);
+  });
+});
