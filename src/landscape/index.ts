@@ -20,4 +20,12 @@ export {
   type LandscapeLayer,
 } from './exact-landscape.js';
 export { checkGrid, coveringGrid, type Grid, gridPoints, gridStep, sameGrid } from './grid.js';
+export {
+  type ExactLandscapeJson,
+  exactToJson,
+  LANDSCAPE_CSV_HEADER,
+  landscapeCsvRows,
+  type SampledLandscapeJson,
+  sampledToJson,
+} from './output.js';
 export { type SampledLandscape, sampleLandscape, sampleLandscapeInto } from './sampled-landscape.js';

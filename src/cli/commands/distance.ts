@@ -1,13 +1,132 @@
 import type { Command } from 'commander';
+import { UserError } from '../../core/errors.js';
+import { provenance } from '../../core/version.js';
+import { type Diagram, diagramOfDegree, finitePairs, parseInfinitePolicy } from '../../homology/diagram.js';
+import { bottleneckDistance, wassersteinDistance } from '../../homology/distance.js';
+import { csvField, csvNumber } from '../../io/csv.js';
+import { readDiagramCsv } from '../../io/diagram-csv.js';
+import { writeWithProvenance } from '../../io/provenance-file.js';
+import { startProgress } from '../progress.js';
+import { chooseDegree } from './landscape.js';
 
-/** `landform distance`: placeholder until its issue lands; refuses to run. */
+interface DistanceOptions {
+  degree?: string;
+  metric: string;
+  infinite: string;
+  out?: string;
+  quiet?: boolean;
+}
+
+/** A diagram metric as chosen on the command line. */
+export type DiagramMetric = { kind: 'bottleneck' } | { kind: 'wasserstein'; p: number };
+
+/** `bottleneck`, `wasserstein` (p = 2) or `wasserstein:P` with P ≥ 1. */
+export function parseMetric(text: string): DiagramMetric {
+  if (text === 'bottleneck') return { kind: 'bottleneck' };
+  if (text === 'wasserstein') return { kind: 'wasserstein', p: 2 };
+  const m = /^wasserstein:(.+)$/.exec(text);
+  if (m) {
+    const p = m[1] === 'inf' ? Infinity : Number(m[1]);
+    if (p >= 1) return { kind: 'wasserstein', p };
+  }
+  throw new UserError(
+    `--metric '${text}' must be 'bottleneck', 'wasserstein' or 'wasserstein:P' with P ≥ 1 (e.g. wasserstein:1)`,
+  );
+}
+
+export function describeMetric(metric: DiagramMetric): string {
+  return metric.kind === 'bottleneck' ? 'bottleneck' : `wasserstein:${metric.p}`;
+}
+
+/**
+ * `landform distance <a.csv> [<b.csv>]`: the matrix of diagram distances between the samples of one file
+ * (symmetric, zero diagonal) or between the samples of two files (rows from a, columns from b), as CSV.
+ */
 export function defineDistance(program: Command): Command {
   return program
     .command('distance')
-    .description('(not yet available)')
-    .allowUnknownOption()
-    .allowExcessArguments()
-    .action(() => {
-      throw new Error("'landform distance' is not built yet");
+    .description('matrix of bottleneck or Wasserstein distances between the diagrams of samples (CSV)')
+    .argument('<a.csv>', 'diagram CSV with the header sample,label,degree,birth,death')
+    .argument('[b.csv]', 'a second diagram CSV: rows are the samples of a, columns those of b')
+    .option('--degree <n>', 'homology degree (default: 1 if the file has it, else the lowest)')
+    .option('--metric <metric>', "'bottleneck', 'wasserstein' (order 2) or 'wasserstein:P'", 'bottleneck')
+    .option(
+      '--infinite <policy>',
+      "essential classes: 'keep' (matched among themselves), 'drop' or 'clip:VALUE'",
+      'keep',
+    )
+    .option(
+      '--out <file>',
+      'write the CSV here (with a .provenance.json beside it) instead of standard output',
+    )
+    .addHelpText(
+      'after',
+      `
+Output: a header 'sample,<id>,<id>,…' then one row per sample. Points are compared in the L∞ metric;
+unmatched points go to the diagonal. With 'keep', two diagrams with different numbers of essential
+classes are 'inf' apart.
+
+Example:
+  landform distance pump-week1.csv pump-week2.csv --degree 1 --metric wasserstein:1`,
+    )
+    .action(async (fileA: string, fileB: string | undefined, options: DistanceOptions) => {
+      const metric = parseMetric(options.metric);
+      const keep = options.infinite === 'keep';
+      const policy = keep ? undefined : parseInfinitePolicy(options.infinite);
+      if (!keep && policy === undefined) {
+        throw new UserError(
+          `--infinite '${options.infinite}' must be 'keep', 'drop' or 'clip:VALUE' with a finite VALUE`,
+        );
+      }
+      const setsA = readDiagramCsv(fileA);
+      const setsB = fileB === undefined ? setsA : readDiagramCsv(fileB);
+      const degree = chooseDegree(setsA, options.degree, fileA);
+      if (fileB !== undefined) chooseDegree(setsB, String(degree), fileB);
+      const prepare = (d: Diagram): Diagram => (policy === undefined ? d : finitePairs(d, policy));
+      const rowsA = setsA.map((s) => prepare(diagramOfDegree(s, degree)));
+      const rowsB = fileB === undefined ? rowsA : setsB.map((s) => prepare(diagramOfDegree(s, degree)));
+      const distance = (a: Diagram, b: Diagram): number =>
+        metric.kind === 'bottleneck' ? bottleneckDistance(a, b) : wassersteinDistance(a, b, metric.p);
+      const n = rowsA.length;
+      const m = rowsB.length;
+      const values = new Float64Array(n * m);
+      const symmetric = fileB === undefined;
+      const total = symmetric ? (n * (n - 1)) / 2 : n * m;
+      const progress = await startProgress('distance', total, options.quiet === true);
+      try {
+        let done = 0;
+        for (let i = 0; i < n; i++) {
+          for (let j = symmetric ? i + 1 : 0; j < m; j++) {
+            const value = distance(rowsA[i], rowsB[j]);
+            values[i * m + j] = value;
+            if (symmetric) values[j * m + i] = value;
+            done++;
+          }
+          progress.update(done, total);
+        }
+      } finally {
+        progress.stop();
+      }
+      const lines = [['sample', ...setsB.map((s) => csvField(s.sample))].join(',')];
+      for (let i = 0; i < n; i++) {
+        const row = [csvField(setsA[i].sample)];
+        for (let j = 0; j < m; j++) row.push(csvNumber(values[i * m + j]));
+        lines.push(row.join(','));
+      }
+      const text = `${lines.join('\n')}\n`;
+      if (options.out === undefined) process.stdout.write(text);
+      else {
+        writeWithProvenance(
+          options.out,
+          text,
+          provenance('distance', {
+            a: fileA,
+            b: fileB ?? null,
+            degree,
+            metric: describeMetric(metric),
+            infinite: options.infinite,
+          }),
+        );
+      }
     });
 }

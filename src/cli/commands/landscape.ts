@@ -1,13 +1,191 @@
 import type { Command } from 'commander';
+import { UserError } from '../../core/errors.js';
+import { provenance } from '../../core/version.js';
+import {
+  type Diagram,
+  type DiagramSet,
+  describeInfinitePolicy,
+  diagramOfDegree,
+  finitePairs,
+  type InfinitePolicy,
+} from '../../homology/diagram.js';
+import { writeFileAtomic } from '../../io/atomic.js';
+import { MAX_DIAGRAM_DEGREE, readDiagramCsv } from '../../io/diagram-csv.js';
+import { writeWithProvenance } from '../../io/provenance-file.js';
+import { exactLandscape } from '../../landscape/exact-landscape.js';
+import { coveringGrid, type Grid } from '../../landscape/grid.js';
+import {
+  exactToJson,
+  LANDSCAPE_CSV_HEADER,
+  landscapeCsvRows,
+  sampledToJson,
+} from '../../landscape/output.js';
+import { sampleLandscape } from '../../landscape/sampled-landscape.js';
+import { parseChoiceOption, parseGridOption, parseInfiniteOption, parseIntegerOption } from '../options.js';
 
-/** `landform landscape`: placeholder until its issue lands; refuses to run. */
+interface LandscapeOptions {
+  sample?: string;
+  degree?: string;
+  depth: string;
+  grid?: string;
+  exact?: boolean;
+  format: string;
+  infinite: string;
+  out?: string;
+  quiet?: boolean;
+}
+
+/** Grid points when `--grid` is not given. */
+export const DEFAULT_GRID_COUNT = 100;
+/** Layers when `--depth` is not given. */
+export const DEFAULT_DEPTH = 5;
+
+/**
+ * `landform landscape <diagrams.csv>`: the persistence landscape of each sample's diagram of one degree,
+ * sampled on a grid (the default) or exact (`--exact`), as JSON (one object per sample, one per line) or CSV.
+ */
 export function defineLandscape(program: Command): Command {
   return program
     .command('landscape')
-    .description('(not yet available)')
-    .allowUnknownOption()
-    .allowExcessArguments()
-    .action(() => {
-      throw new Error("'landform landscape' is not built yet");
+    .description("persistence landscapes of the samples' diagrams: sampled on a grid, or exact breakpoints")
+    .argument('<diagrams.csv>', 'diagram CSV with the header sample,label,degree,birth,death')
+    .option('--sample <id>', 'only this sample (default: every sample, one JSON object per line)')
+    .option('--degree <n>', 'homology degree (default: 1 if the file has it, else the lowest)')
+    .option('--depth <k>', 'number of layers λ1..λK', String(DEFAULT_DEPTH))
+    .option(
+      '--grid <start:stop:count>',
+      `sampling grid (default: ${DEFAULT_GRID_COUNT} points covering the finite pairs)`,
+    )
+    .option('--exact', 'print the breakpoints of the exact layers instead of sampled values')
+    .option('--format <format>', 'json or csv', 'json')
+    .option('--infinite <policy>', "essential classes: 'drop' or 'clip:VALUE' (death set to VALUE)", 'drop')
+    .option('--out <file>', 'write to this file instead of standard output')
+    .addHelpText(
+      'after',
+      `
+JSON, sampled: {"degree":1,"t":[t0,…],"layers":[[λ1(t0),…],…],…} with exactly K layers (zeros past the
+pairs) and COUNT grid points START..STOP inclusive. JSON, --exact: {"degree":1,"layers":[[[t,v],…],…],…}
+with the non-zero layers among the first K, breakpoints increasing in t, starting and ending at 0.
+Each object also names its "sample", "label", the "infinite" policy applied and its "provenance".
+With several samples and no --sample, one object per line (JSON lines) on one shared grid.
+CSV: sample,degree,layer,t,value — one row per grid point (or breakpoint) per layer.
+
+Example:
+  landform landscape lattice-diagrams.csv --sample strut-017 --degree 1 --grid 0:0.8:50`,
+    )
+    .action((file: string, options: LandscapeOptions) => {
+      const format = parseChoiceOption(options.format, '--format', ['json', 'csv'] as const);
+      const depth = parseIntegerOption(options.depth, '--depth', 1, 10_000);
+      const policy = parseInfiniteOption(options.infinite);
+      if (options.exact && options.grid !== undefined) {
+        throw new UserError(
+          '--grid is for sampled landscapes; drop it with --exact (exact layers need no grid)',
+        );
+      }
+      let grid: Grid | undefined = options.grid === undefined ? undefined : parseGridOption(options.grid);
+      const sets = selectSamples(readDiagramCsv(file), options.sample, file);
+      const degree = chooseDegree(sets, options.degree, file);
+      const diagrams = sets.map((set) => diagramOfDegree(set, degree));
+      const finite = diagrams.map((d) => finitePairs(d, policy));
+      if (!options.exact && grid === undefined) {
+        grid = coveringGrid(finite, DEFAULT_GRID_COUNT);
+        if (grid === undefined) {
+          throw new UserError(
+            `degree ${degree} has no finite pairs of positive length${sets.length === 1 ? ` in sample '${sets[0].sample}'` : ''}, so no grid range can be chosen; give --grid START:STOP:COUNT`,
+            { file },
+          );
+        }
+      }
+      const recorded = {
+        input: file,
+        sample: options.sample ?? null,
+        degree,
+        depth,
+        grid: grid ?? null,
+        exact: options.exact === true,
+        format,
+        infinite: describeInfinitePolicy(policy),
+      };
+      const prov = provenance('landscape', recorded);
+      const pieces: string[] = [];
+      if (format === 'csv') pieces.push(LANDSCAPE_CSV_HEADER.join(','));
+      for (let s = 0; s < sets.length; s++) {
+        const landscape = options.exact
+          ? exactLandscape(finite[s], { maxDepth: depth })
+          : sampleLandscape(finite[s], grid as Grid, depth);
+        if (format === 'csv') {
+          pieces.push(...landscapeCsvRows(sets[s].sample, landscape));
+        } else {
+          const body = 'values' in landscape ? sampledToJson(landscape) : exactToJson(landscape);
+          pieces.push(
+            JSON.stringify({
+              ...body,
+              sample: sets[s].sample,
+              label: sets[s].label,
+              infinite: describeInfinitePolicy(policy),
+              provenance: prov,
+            }),
+          );
+        }
+      }
+      const text = `${pieces.join('\n')}\n`;
+      noteEssentialClasses(diagrams, policy, degree, options.quiet === true);
+      if (options.out === undefined) process.stdout.write(text);
+      else if (format === 'csv') writeWithProvenance(options.out, text, prov);
+      else writeFileAtomic(options.out, text);
     });
+}
+
+/** Every sample, or only the one named by `--sample`. */
+export function selectSamples(sets: DiagramSet[], sample: string | undefined, file: string): DiagramSet[] {
+  if (sample === undefined) return sets;
+  const found = sets.find((s) => s.sample === sample);
+  if (found === undefined) {
+    const some = sets
+      .slice(0, 5)
+      .map((s) => `'${s.sample}'`)
+      .join(', ');
+    throw new UserError(
+      `no sample '${sample}' in the file; its samples include ${some}${sets.length > 5 ? ', …' : ''}`,
+      { file },
+    );
+  }
+  return [found];
+}
+
+/** `--degree N` checked against the file's degrees, or 1 when the file has it, else the lowest degree present. */
+export function chooseDegree(sets: readonly DiagramSet[], text: string | undefined, file: string): number {
+  const present = sets.length > 0 ? sets[0].diagrams.map((d) => d.degree) : [];
+  if (text === undefined) {
+    if (present.includes(1)) return 1;
+    if (present.length === 0) throw new UserError('no diagrams in the file', { file });
+    return Math.min(...present);
+  }
+  const degree = parseIntegerOption(text, '--degree', 0, MAX_DIAGRAM_DEGREE);
+  if (!present.includes(degree)) {
+    throw new UserError(
+      `degree ${degree} is not in the file; it has degree${present.length === 1 ? '' : 's'} ${present.join(', ')}`,
+      { file },
+    );
+  }
+  return degree;
+}
+
+/** One line on stderr saying what the essential-class policy did, when there were any. */
+function noteEssentialClasses(
+  diagrams: readonly Diagram[],
+  policy: InfinitePolicy,
+  degree: number,
+  quiet: boolean,
+): void {
+  if (quiet) return;
+  let essential = 0;
+  for (const d of diagrams)
+    for (let i = 0; i < d.deaths.length; i++) if (d.deaths[i] === Infinity) essential++;
+  if (essential === 0) return;
+  const what = policy.mode === 'drop' ? 'dropped' : `clipped to death ${policy.value}`;
+  const hint = policy.mode === 'drop' ? '; --infinite clip:VALUE keeps them' : '';
+  process.stderr.write(
+    `landform: note: ${essential} essential class${essential === 1 ? '' : 'es'} (death inf) of degree ${degree} ${what}${hint}\n`,
+  );
 }
