@@ -5,6 +5,8 @@ import { type Diagram, type DiagramSet, emptyDiagram } from './diagram.js';
 import { condenseMatrix, type Metric, pairwiseDistances } from './metric.js';
 import { ripsPersistence } from './rips.js';
 import { type DelayEmbedding, delayEmbedding, signalPersistence } from './signal.js';
+import { checkFiltrationApplies, cloudFiltrationDiagrams, type Filtration, matrixFiltrationDiagrams, subsampleForFiltration } from './filtration.js';
+import type { SubsampleSpec } from './subsample.js';
 
 /** What to compute for each sample. Defaults are written beside each field. */
 export interface DiagramOptions {
@@ -18,29 +20,44 @@ export interface DiagramOptions {
   embed?: DelayEmbedding;
   /** Superlevel instead of sublevel sets for images and signals (default false); reported on the negated scale. */
   superlevel?: boolean;
+  /** Filtration of clouds and distance matrices (default 'rips'); dtm:K and alpha values are radii (filtration.ts). */
+  filtration?: Filtration;
+  /** Landmarks kept per cloud or matrix before the filtration (default: every point). */
+  subsample?: SubsampleSpec;
 }
 
 /** The diagrams of one sample, one per requested degree in increasing order. */
-export function computeDiagrams(sample: Sample, options: DiagramOptions): DiagramSet {
+export function computeDiagrams(sample: Sample, options: DiagramOptions): DiagramSet & { coveringRadius?: number } {
   const degrees = checkDegrees(options.degrees);
   const maxDegree = degrees[degrees.length - 1];
   let diagrams: Diagram[];
+  let coveringRadius: number | undefined;
+  if (sample.kind === 'image' || (sample.kind === 'signal' && !options.embed)) checkFiltrationApplies(sample.kind, options.filtration, sample.id, options.subsample);
   switch (sample.kind) {
-    case 'points':
-      diagrams = cloudDiagrams(sample.coords, sample.count, sample.dim, maxDegree, options);
+    case 'points': {
+      const cut = subsampleForFiltration(sample, options.subsample);
+      coveringRadius = cut.coveringRadius;
+      diagrams = cloudDiagrams(cut.sample.coords, cut.sample.count, cut.sample.dim, maxDegree, options, sample.id);
       break;
+    }
     case 'distances': {
       checkDistanceMatrix(sample.matrix, sample.size, sample.id);
-      diagrams = ripsPersistence(sample.size, condenseMatrix(sample.matrix, sample.size), {
-        maxDegree: maxDegree as 0 | 1 | 2,
-        maxScale: options.maxScale,
-      });
+      const cut = subsampleForFiltration(sample, options.subsample);
+      coveringRadius = cut.coveringRadius;
+      const { matrix, size } = cut.sample;
+      const filtration = options.filtration ?? 'rips';
+      diagrams =
+        filtration === 'rips'
+          ? ripsPersistence(size, condenseMatrix(matrix, size), { maxDegree: maxDegree as 0 | 1 | 2, maxScale: options.maxScale })
+          : matrixFiltrationDiagrams(matrix, size, { filtration, maxDegree, maxScale: options.maxScale, id: sample.id });
       break;
     }
     case 'signal':
       if (options.embed) {
         const cloud = delayEmbedding(sample.values, options.embed);
-        diagrams = cloudDiagrams(cloud.coords, cloud.count, cloud.dim, maxDegree, options);
+        const cut = subsampleForFiltration({ ...sample, kind: 'points', ...cloud }, options.subsample);
+        coveringRadius = cut.coveringRadius;
+        diagrams = cloudDiagrams(cut.sample.coords, cut.sample.count, cut.sample.dim, maxDegree, options, sample.id);
       } else {
         if (maxDegree > 0) {
           throw new UserError(
@@ -70,16 +87,19 @@ export function computeDiagrams(sample: Sample, options: DiagramOptions): Diagra
     sample: sample.id,
     label: sample.label,
     diagrams: degrees.map((d) => diagrams.find((x) => x.degree === d) ?? emptyDiagram(d)),
+    ...(coveringRadius !== undefined ? { coveringRadius } : {}),
   };
 }
 
 /** Point clouds (and embedded signals): the filtration branch lives here. */
-function cloudDiagrams(coords: Float64Array, count: number, dim: number, maxDegree: number, options: DiagramOptions): Diagram[] {
+function cloudDiagrams(coords: Float64Array, count: number, dim: number, maxDegree: number, options: DiagramOptions, id = ''): Diagram[] {
   for (let i = 0; i < coords.length; i++) {
     if (!Number.isFinite(coords[i])) {
       throw new UserError(`point ${Math.floor(i / dim) + 1} has coordinate ${coords[i]}; coordinates must be finite numbers`);
     }
   }
+  const filtration = options.filtration ?? 'rips';
+  if (filtration !== 'rips') return cloudFiltrationDiagrams(coords, count, dim, { filtration, maxDegree, maxScale: options.maxScale, metric: options.metric, id });
   const edges = pairwiseDistances(coords, count, dim, options.metric ?? 'euclidean');
   return ripsPersistence(count, edges, { maxDegree: maxDegree as 0 | 1 | 2, maxScale: options.maxScale });
 }

@@ -75,8 +75,11 @@ export function matrixFiltrationDiagrams(matrix: Float64Array, size: number, run
   });
 }
 
-/** Refuses a non-Rips filtration for samples that are not clouds or matrices (images, bare signals). */
-export function checkFiltrationApplies(kind: string, filtration: Filtration | undefined, id: string): void {
+/** Refuses a non-Rips filtration or landmarks for samples that are not clouds or matrices (images, bare signals). */
+export function checkFiltrationApplies(kind: string, filtration: Filtration | undefined, id: string, subsample?: SubsampleSpec): void {
+  if (subsample !== undefined) {
+    throw new UserError(`sample '${id}' is a ${kind}; --subsample applies to point clouds (and signals with --embed) and distance matrices only; drop it for this dataset`);
+  }
   if (filtration === undefined || filtration === 'rips') return;
   throw new UserError(
     `sample '${id}' is a ${kind}; --filtration ${describeFiltration(filtration)} applies to point clouds (and signals with --embed) and distance matrices only; drop it for this dataset`,
@@ -86,6 +89,15 @@ export function checkFiltrationApplies(kind: string, filtration: Filtration | un
 /** A cloud or matrix cut down to its landmarks, with their covering radius. */
 export function subsampleForFiltration<S extends PointSample | DistanceSample>(sample: S, spec: SubsampleSpec | undefined): { sample: S; coveringRadius?: number } {
   if (spec === undefined) return { sample };
+  if (sample.kind === 'points') {
+    const coords = (sample as PointSample).coords;
+    const dim = (sample as PointSample).dim;
+    for (let i = 0; i < coords.length; i++) {
+      if (!Number.isFinite(coords[i])) {
+        throw new UserError(`sample '${sample.id}': point ${Math.floor(i / dim) + 1} has coordinate ${coords[i]}; coordinates must be finite numbers`);
+      }
+    }
+  }
   const { sample: cut, landmarks } = subsampleSample(sample, spec);
   return { sample: cut, coveringRadius: landmarks.coveringRadius };
 }

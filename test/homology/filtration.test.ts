@@ -54,3 +54,24 @@ describe('filtration choice', () => {
     expect(subsampleForFiltration({ kind: 'points', id: 'a', label: 'x', dim: 2, count: 200, coords: c }, undefined).coveringRadius).toBeUndefined();
   });
 });
+
+describe('computeDiagrams with a filtration and landmarks', () => {
+  it('computes DTM and alpha diagrams and records the covering radius of the landmarks', async () => {
+    const { computeDiagrams } = await import('../../src/homology/compute.js');
+    const c = cloud(5, 120, 2);
+    const sample = { kind: 'points' as const, id: 'p1', label: 'a', dim: 2, count: 120, coords: c };
+    const alpha = computeDiagrams(sample, { degrees: [0, 1], filtration: 'alpha' });
+    expect(Array.from(alpha.diagrams[1].deaths)).toEqual(Array.from(alphaPersistence(c, 120)[1].deaths));
+    expect(alpha.coveringRadius).toBeUndefined();
+    const dtm = computeDiagrams(sample, { degrees: [0], filtration: { kind: 'dtm', k: 5 }, subsample: { method: 'maxmin', count: 40, seed: 2 } });
+    expect(dtm.coveringRadius).toBeGreaterThan(0);
+    expect(dtm.diagrams[0].births.length).toBeLessThanOrEqual(40);
+    expect(Math.min(...Array.from(dtm.diagrams[0].births))).toBeGreaterThan(0); // DTM births are not 0
+    const m = new Float64Array(120 * 120);
+    for (let i = 0; i < 120; i++) for (let j = 0; j < 120; j++) m[i * 120 + j] = Math.hypot(c[2 * i] - c[2 * j], c[2 * i + 1] - c[2 * j + 1]);
+    const fromMatrix = computeDiagrams({ kind: 'distances', id: 'd', label: 'a', size: 120, matrix: m }, { degrees: [0, 1], filtration: { kind: 'dtm', k: 5 } });
+    const fromCloud = computeDiagrams(sample, { degrees: [0, 1], filtration: { kind: 'dtm', k: 5 } });
+    expect(fromMatrix.diagrams[1].births.length).toBe(fromCloud.diagrams[1].births.length);
+    expect(() => computeDiagrams({ kind: 'image', id: 'im', label: 'a', shape: [2, 2], values: new Float64Array(4) }, { degrees: [0], filtration: 'alpha' })).toThrow(/image/);
+  });
+});
