@@ -1,3 +1,4 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
 import { UserError } from '../../src/core/errors.js';
@@ -126,6 +127,18 @@ describe('alpha filtration in the plane', () => {
       const withCentre = [...ring, 0, 0];
       expectSameDiagrams(alphaPersistence(withCentre, n + 1), naiveCechDiagrams(withCentre, n + 1));
     }
+  });
+
+  it('equals the naive Čech filtration on small integer clouds (duplicates, collinear runs, cocircular sets)', () => {
+    // Integer coordinates in 0..4 make every degeneracy common at once; the Čech reference is exact about them.
+    fc.assert(
+      fc.property(fc.array(fc.tuple(fc.integer({ min: 0, max: 4 }), fc.integer({ min: 0, max: 4 })), { minLength: 1, maxLength: 10 }), (pts) => {
+        const flat = pts.flat();
+        const distinct = [...new Set(pts.map((p) => p.join(',')))].map((k) => k.split(',').map(Number)).flat();
+        expectSameDiagrams(alphaPersistence(flat, pts.length), naiveCechDiagrams(distinct, distinct.length / 2));
+      }),
+      { numRuns: 150, seed: 20 },
+    );
   });
 
   it('merges duplicate points at 0 and gives the same diagrams as without them', () => {
