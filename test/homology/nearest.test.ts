@@ -1,3 +1,4 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
 import { KdTree, nearestNeighbours, nearestNeighboursByScan, nearestNeighboursFromMatrix } from '../../src/homology/nearest.js';
@@ -29,6 +30,25 @@ describe('k nearest neighbours', () => {
         expect(Array.from(tree.indices)).toEqual(Array.from(scan.indices));
       }
     }
+  });
+
+  it("gives the scan's distances on integer clouds full of ties, whatever the leaf size", () => {
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: 4 }),
+        fc.array(fc.integer({ min: 0, max: 3 }), { minLength: 8, maxLength: 160 }),
+        fc.integer({ min: 1, max: 6 }),
+        (dim, values, leafSize) => {
+          const count = Math.floor(values.length / dim);
+          const c = Float64Array.from(values.slice(0, count * dim));
+          const k = Math.min(4, count);
+          const tree = nearestNeighbours(c, count, dim, k, { leafSize });
+          const scan = nearestNeighboursByScan(c, count, dim, k);
+          expect(Array.from(tree.squaredDistances)).toEqual(Array.from(scan.squaredDistances));
+        },
+      ),
+      { numRuns: 200, seed: 3 },
+    );
   });
 
   it('copes with many duplicate points (all distances 0 among them)', () => {
