@@ -54,7 +54,10 @@ export async function run(): Promise<void> {
   const reductionMid = await time(
     () =>
       complexPersistence(
-        { simplices: [vertices, complex.edges, complex.triangles], values: [new Float64Array(complex.vertexCount), complex.edgeValues, complex.triangleValues] },
+        {
+          simplices: [vertices, complex.edges, complex.triangles],
+          values: [new Float64Array(complex.vertexCount), complex.edgeValues, complex.triangleValues],
+        },
         1,
       ),
     3,
@@ -62,7 +65,10 @@ export async function run(): Promise<void> {
 
   // DTM (K = 10) against plain Rips on the same 1,000 points in R³, degrees 0 and 1.
   const cloud3 = uniformCloud(3, 1000, 3);
-  const rips = await time(() => ripsPersistence(1000, pairwiseDistances(cloud3, 1000, 3), { maxDegree: 1 }), 3);
+  const rips = await time(
+    () => ripsPersistence(1000, pairwiseDistances(cloud3, 1000, 3), { maxDegree: 1 }),
+    3,
+  );
   const dtm = await time(() => dtmPersistence(cloud3, 1000, 3, 10, { maxDegree: 1 }), 3);
 
   // Maxmin: 1,000 landmarks of 10⁵ points in R³; baseline: the naive recomputation at 60 landmarks.
@@ -77,7 +83,13 @@ export async function run(): Promise<void> {
   const scan = await time(() => nearestNeighboursByScan(knnCloud, 20_000, 3, 10), 1, 0);
 
   report('filtrations', [
-    { name: 'alpha H0+H1, 10^5 planar points', value: alpha.ms, unit: 'ms', goal: '≤ 2000 ms', met: alpha.ms <= 2000 },
+    {
+      name: 'alpha H0+H1, 10^5 planar points',
+      value: alpha.ms,
+      unit: 'ms',
+      goal: '≤ 2000 ms',
+      met: alpha.ms <= 2000,
+    },
     { name: 'Delaunay triangulation alone (baseline), 10^5 points', value: triangulation.ms, unit: 'ms' },
     { name: 'alpha / triangulation', value: alpha.ms / triangulation.ms, unit: '×' },
     { name: 'alpha complex, 3000 points: H1 by duality', value: dualityMid.ms, unit: 'ms' },
@@ -86,7 +98,13 @@ export async function run(): Promise<void> {
     { name: 'plain Rips H0+H1, 1000 points in R^3 (baseline)', value: rips.ms, unit: 'ms' },
     { name: 'DTM K=10 H0+H1, same points', value: dtm.ms, unit: 'ms' },
     { name: 'DTM / Rips', value: dtm.ms / rips.ms, unit: '×', goal: '≤ 1.5', met: dtm.ms / rips.ms <= 1.5 },
-    { name: 'maxmin 1000 landmarks of 10^5 points in R^3', value: maxmin.ms, unit: 'ms', goal: '≤ 1000 ms', met: maxmin.ms <= 1000 },
+    {
+      name: 'maxmin 1000 landmarks of 10^5 points in R^3',
+      value: maxmin.ms,
+      unit: 'ms',
+      goal: '≤ 1000 ms',
+      met: maxmin.ms <= 1000,
+    },
     { name: 'maxmin 60 landmarks, incremental', value: maxminSmall.ms, unit: 'ms' },
     { name: 'maxmin 60 landmarks, naive recomputation (baseline)', value: naiveSmall.ms, unit: 'ms' },
     { name: 'naive / incremental (60 landmarks)', value: naiveSmall.ms / maxminSmall.ms, unit: '×' },

@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { UserError } from '../core/errors.js';
 import { FILTRATION_CHOICES, type Filtration, parseFiltration } from '../homology/filtration.js';
-import { type SubsampleSpec, parseSubsample } from '../homology/subsample.js';
+import { parseSubsample, type SubsampleSpec } from '../homology/subsample.js';
 
 /**
  * The two options shared by every command that computes diagrams: `--filtration rips|dtm:K|alpha` and
@@ -33,7 +33,9 @@ export function parseFiltrationOptions(opts: { filtration?: string; subsample?: 
   if (opts.subsample === undefined) return { filtration };
   const subsample = parseSubsample(opts.subsample);
   if (!subsample) {
-    throw new UserError(`--subsample '${opts.subsample}' must look like maxmin:N or random:N, optionally with :SEED (e.g. maxmin:500:7), N ≥ 1`);
+    throw new UserError(
+      `--subsample '${opts.subsample}' must look like maxmin:N or random:N, optionally with :SEED (e.g. maxmin:500:7), N ≥ 1`,
+    );
   }
   return { filtration, subsample };
 }

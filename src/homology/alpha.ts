@@ -110,7 +110,10 @@ export function alphaComplex(coordsIn: ArrayLike<number>, count: number): AlphaC
     const attachedSecond = t2 >= 0 && obtuseAt(coords, a, b, tri[prevHalfedge(twin)]);
     let value = 0.5 * Math.sqrt(squaredDistance(coords, a, b));
     if (attachedFirst || attachedSecond) {
-      value = Math.min(attachedFirst ? triangleValues[t1] : Infinity, attachedSecond ? triangleValues[t2] : Infinity);
+      value = Math.min(
+        attachedFirst ? triangleValues[t1] : Infinity,
+        attachedSecond ? triangleValues[t2] : Infinity,
+      );
     }
     // A face never enters after its cofaces (guards rounding in nearly degenerate triangles).
     const cap = t2 >= 0 ? Math.min(triangleValues[t1], triangleValues[t2]) : triangleValues[t1];
@@ -121,7 +124,11 @@ export function alphaComplex(coordsIn: ArrayLike<number>, count: number): AlphaC
 }
 
 /** H0 and H1 diagrams of the alpha filtration of `count` planar points, values as radii. */
-export function alphaPersistence(coords: ArrayLike<number>, count: number, options: AlphaOptions = {}): Diagram[] {
+export function alphaPersistence(
+  coords: ArrayLike<number>,
+  count: number,
+  options: AlphaOptions = {},
+): Diagram[] {
   return alphaComplexPersistence(alphaComplex(coords, count), options);
 }
 
@@ -161,7 +168,9 @@ export function alphaComplexPersistence(complex: AlphaComplex, options: AlphaOpt
     h0Births.push(0);
     h0Deaths.push(Infinity);
   }
-  const diagrams: Diagram[] = [{ degree: 0, births: Float64Array.from(h0Births), deaths: Float64Array.from(h0Deaths) }];
+  const diagrams: Diagram[] = [
+    { degree: 0, births: Float64Array.from(h0Births), deaths: Float64Array.from(h0Deaths) },
+  ];
   if (maxDegree < 1) return diagrams;
 
   // H1 by duality: union-find over triangles + the outer face (node triangleCount), edges in decreasing order.
@@ -275,10 +284,15 @@ function sortedOrder(values: Float64Array): Uint32Array {
 }
 
 /** Merges exact duplicates; returns the distinct points and the map from input points to them. */
-function distinctPoints(coordsIn: ArrayLike<number>, count: number): { coords: Float64Array; vertexOf: Int32Array; vertexCount: number } {
+function distinctPoints(
+  coordsIn: ArrayLike<number>,
+  count: number,
+): { coords: Float64Array; vertexOf: Int32Array; vertexCount: number } {
   const order = new Uint32Array(count);
   for (let i = 0; i < count; i++) order[i] = i;
-  order.sort((a, b) => coordsIn[2 * a] - coordsIn[2 * b] || coordsIn[2 * a + 1] - coordsIn[2 * b + 1] || a - b);
+  order.sort(
+    (a, b) => coordsIn[2 * a] - coordsIn[2 * b] || coordsIn[2 * a + 1] - coordsIn[2 * b + 1] || a - b,
+  );
   const vertexOf = new Int32Array(count);
   const firsts: number[] = [];
   // Invariant: points order[0, i) are mapped; equal points are adjacent in this order.
@@ -334,14 +348,20 @@ function lineOrder(coords: Float64Array, n: number): Uint32Array {
   const dx = coords[2 * end] - coords[2 * start];
   const dy = coords[2 * end + 1] - coords[2 * start + 1];
   const t = new Float64Array(n);
-  for (let i = 0; i < n; i++) t[i] = (coords[2 * i] - coords[2 * start]) * dx + (coords[2 * i + 1] - coords[2 * start + 1]) * dy;
+  for (let i = 0; i < n; i++)
+    t[i] = (coords[2 * i] - coords[2 * start]) * dx + (coords[2 * i + 1] - coords[2 * start + 1]) * dy;
   const order = identityOrder(n);
   order.sort((a, b) => t[a] - t[b] || a - b);
   return order;
 }
 
 /** The complex of points on a line (or fewer than three points): consecutive points joined, no triangles. */
-function pathComplex(coords: Float64Array, vertexCount: number, vertexOf: Int32Array, order: Uint32Array): AlphaComplex {
+function pathComplex(
+  coords: Float64Array,
+  vertexCount: number,
+  vertexOf: Int32Array,
+  order: Uint32Array,
+): AlphaComplex {
   const edgeCount = Math.max(0, vertexCount - 1);
   const edges = new Int32Array(edgeCount * 2);
   const edgeValues = new Float64Array(edgeCount);
@@ -353,5 +373,14 @@ function pathComplex(coords: Float64Array, vertexCount: number, vertexOf: Int32A
     edges[2 * i + 1] = Math.max(a, b);
     edgeValues[i] = 0.5 * Math.sqrt(squaredDistance(coords, a, b));
   }
-  return { coords, vertexCount, vertexOf, edges, edgeValues, edgeTriangles, triangles: new Int32Array(0), triangleValues: new Float64Array(0) };
+  return {
+    coords,
+    vertexCount,
+    vertexOf,
+    edges,
+    edgeValues,
+    edgeTriangles,
+    triangles: new Int32Array(0),
+    triangleValues: new Float64Array(0),
+  };
 }

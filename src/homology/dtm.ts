@@ -16,7 +16,7 @@
  * their H0 bars start late and are short instead of long.
  */
 import type { Diagram } from './diagram.js';
-import { type Metric, condenseMatrix, pairwiseDistances } from './metric.js';
+import { condenseMatrix, type Metric, pairwiseDistances } from './metric.js';
 import { nearestNeighbours, nearestNeighboursFromMatrix } from './nearest.js';
 import { type RipsOptions, ripsPersistence } from './rips.js';
 
@@ -35,15 +35,27 @@ export interface DtmOptions {
  * Diagrams of the DTM filtration of a point cloud with K neighbours: DTM values as vertex values, the p = 1
  * edge rule, and the Rips engine for everything above edges.
  */
-export function dtmPersistence(coords: Float64Array, count: number, dim: number, k: number, options: DtmOptions): Diagram[] {
+export function dtmPersistence(
+  coords: Float64Array,
+  count: number,
+  dim: number,
+  k: number,
+  options: DtmOptions,
+): Diagram[] {
   const metric = options.metric ?? 'euclidean';
   const condensed = pairwiseDistances(coords, count, dim, metric);
-  const f = metric === 'euclidean' ? dtmValues(coords, count, dim, k) : dtmValuesFromCondensed(condensed, count, k);
+  const f =
+    metric === 'euclidean' ? dtmValues(coords, count, dim, k) : dtmValuesFromCondensed(condensed, count, k);
   return weightedRips(count, condensed, f, options);
 }
 
 /** Diagrams of the DTM filtration from a full `size × size` distance matrix. */
-export function dtmPersistenceFromMatrix(matrix: Float64Array, size: number, k: number, options: DtmOptions): Diagram[] {
+export function dtmPersistenceFromMatrix(
+  matrix: Float64Array,
+  size: number,
+  k: number,
+  options: DtmOptions,
+): Diagram[] {
   const f = dtmValuesFromMatrix(matrix, size, k);
   return weightedRips(size, condenseMatrix(matrix, size), f, options);
 }
@@ -58,12 +70,20 @@ function weightedRips(n: number, condensed: Float64Array, f: Float64Array, optio
 
 /** DTM values of the points of a cloud (row-major `coords`), with K nearest neighbours, self included. */
 export function dtmValues(coords: ArrayLike<number>, count: number, dim: number, k: number): Float64Array {
-  return valuesFromTable(nearestNeighbours(coords, count, dim, k, { includeSelf: true }).squaredDistances, count, k);
+  return valuesFromTable(
+    nearestNeighbours(coords, count, dim, k, { includeSelf: true }).squaredDistances,
+    count,
+    k,
+  );
 }
 
 /** DTM values from a full `size × size` distance matrix (row-major), K nearest neighbours, self included. */
 export function dtmValuesFromMatrix(matrix: ArrayLike<number>, size: number, k: number): Float64Array {
-  return valuesFromTable(nearestNeighboursFromMatrix(matrix, size, k, { includeSelf: true }).squaredDistances, size, k);
+  return valuesFromTable(
+    nearestNeighboursFromMatrix(matrix, size, k, { includeSelf: true }).squaredDistances,
+    size,
+    k,
+  );
 }
 
 function valuesFromTable(squared: Float64Array, count: number, k: number): Float64Array {
@@ -120,7 +140,9 @@ export function dtmValuesFromCondensed(condensed: ArrayLike<number>, n: number, 
 
 /** Checks a DTM neighbour count K against the size of a sample; returns a message for the user or undefined. */
 export function dtmProblem(k: number, count: number): string | undefined {
-  if (!Number.isInteger(k) || k < 1) return `dtm:${k} needs a whole number of neighbours K ≥ 1 (for example dtm:10)`;
-  if (k > count) return `dtm:${k} asks for ${k} neighbours but the sample has only ${count} points; use K ≤ ${count}`;
+  if (!Number.isInteger(k) || k < 1)
+    return `dtm:${k} needs a whole number of neighbours K ≥ 1 (for example dtm:10)`;
+  if (k > count)
+    return `dtm:${k} asks for ${k} neighbours but the sample has only ${count} points; use K ≤ ${count}`;
   return undefined;
 }

@@ -26,21 +26,22 @@ export function complexPersistence(complex: FilteredComplex, maxDegree: number):
   // Global order of all simplices.
   const dimOf: number[] = [];
   const idxOf: number[] = [];
-  const valueOf: number[] = [];
+  const simplexValue: number[] = [];
   for (let d = 0; d <= top; d++) {
     const n = complex.values[d].length;
     for (let s = 0; s < n; s++) {
       dimOf.push(d);
       idxOf.push(s);
-      valueOf.push(complex.values[d][s]);
+      simplexValue.push(complex.values[d][s]);
     }
   }
   const total = dimOf.length;
   const order = Array.from({ length: total }, (_, i) => i);
-  order.sort((a, b) => valueOf[a] - valueOf[b] || dimOf[a] - dimOf[b] || a - b);
+  order.sort((a, b) => simplexValue[a] - simplexValue[b] || dimOf[a] - dimOf[b] || a - b);
   const position = new Int32Array(total);
   for (let p = 0; p < total; p++) position[order[p]] = p;
-  const key = (d: number, s: number): string => Array.from(complex.simplices[d].subarray(s * (d + 1), (s + 1) * (d + 1))).join(',');
+  const key = (d: number, s: number): string =>
+    Array.from(complex.simplices[d].subarray(s * (d + 1), (s + 1) * (d + 1))).join(',');
   const positionByKey = new Map<string, number>();
   for (let g = 0; g < total; g++) positionByKey.set(key(dimOf[g], idxOf[g]), position[g]);
 
@@ -52,14 +53,15 @@ export function complexPersistence(complex: FilteredComplex, maxDegree: number):
     const p = position[g];
     const d = dimOf[g];
     dimAt[p] = d;
-    valueAt[p] = valueOf[g];
+    valueAt[p] = simplexValue[g];
     const col: number[] = [];
     if (d > 0) {
       const verts = Array.from(complex.simplices[d].subarray(idxOf[g] * (d + 1), (idxOf[g] + 1) * (d + 1)));
       for (let drop = 0; drop <= d; drop++) {
         const face = verts.filter((_, i) => i !== drop).join(',');
         const fp = positionByKey.get(face);
-        if (fp === undefined) throw new Error(`face ${face} of simplex ${verts.join(',')} is missing from the complex`);
+        if (fp === undefined)
+          throw new Error(`face ${face} of simplex ${verts.join(',')} is missing from the complex`);
         col.push(fp);
       }
       col.sort((a, b) => a - b);

@@ -40,14 +40,24 @@ export interface FiltrationRun {
 }
 
 /** Diagrams of a cloud under a DTM or alpha filtration (plain Rips stays in compute.ts). */
-export function cloudFiltrationDiagrams(coords: Float64Array, count: number, dim: number, run: FiltrationRun): Diagram[] {
+export function cloudFiltrationDiagrams(
+  coords: Float64Array,
+  count: number,
+  dim: number,
+  run: FiltrationRun,
+): Diagram[] {
   const { filtration } = run;
   if (filtration === 'alpha') {
     if (dim !== 2) throw withSample(alphaDimensionError(dim), run.id);
     if ((run.metric ?? 'euclidean') !== 'euclidean') {
-      throw new UserError(`sample '${run.id}': the alpha filtration is Euclidean; drop --metric ${run.metric} or use --filtration rips`);
+      throw new UserError(
+        `sample '${run.id}': the alpha filtration is Euclidean; drop --metric ${run.metric} or use --filtration rips`,
+      );
     }
-    const diagrams = alphaPersistence(coords, count, { maxDegree: Math.min(run.maxDegree, 1), maxScale: run.maxScale });
+    const diagrams = alphaPersistence(coords, count, {
+      maxDegree: Math.min(run.maxDegree, 1),
+      maxScale: run.maxScale,
+    });
     // A planar complex has no voids: H2 is empty.
     if (run.maxDegree >= 2) diagrams.push(emptyDiagram(2));
     return diagrams;
@@ -65,7 +75,9 @@ export function cloudFiltrationDiagrams(coords: Float64Array, count: number, dim
 export function matrixFiltrationDiagrams(matrix: Float64Array, size: number, run: FiltrationRun): Diagram[] {
   const { filtration } = run;
   if (filtration === 'alpha') {
-    throw new UserError(`sample '${run.id}' is a distance matrix; the alpha filtration needs 2-D coordinates — use --filtration rips or --filtration dtm:K`);
+    throw new UserError(
+      `sample '${run.id}' is a distance matrix; the alpha filtration needs 2-D coordinates — use --filtration rips or --filtration dtm:K`,
+    );
   }
   if (filtration === 'rips') throw new Error('plain Rips is computed in compute.ts');
   checkK(filtration.k, size, run.id);
@@ -76,9 +88,16 @@ export function matrixFiltrationDiagrams(matrix: Float64Array, size: number, run
 }
 
 /** Refuses a non-Rips filtration or landmarks for samples that are not clouds or matrices (images, bare signals). */
-export function checkFiltrationApplies(kind: string, filtration: Filtration | undefined, id: string, subsample?: SubsampleSpec): void {
+export function checkFiltrationApplies(
+  kind: string,
+  filtration: Filtration | undefined,
+  id: string,
+  subsample?: SubsampleSpec,
+): void {
   if (subsample !== undefined) {
-    throw new UserError(`sample '${id}' is a ${kind}; --subsample applies to point clouds (and signals with --embed) and distance matrices only; drop it for this dataset`);
+    throw new UserError(
+      `sample '${id}' is a ${kind}; --subsample applies to point clouds (and signals with --embed) and distance matrices only; drop it for this dataset`,
+    );
   }
   if (filtration === undefined || filtration === 'rips') return;
   throw new UserError(
@@ -87,14 +106,19 @@ export function checkFiltrationApplies(kind: string, filtration: Filtration | un
 }
 
 /** A cloud or matrix cut down to its landmarks, with their covering radius. */
-export function subsampleForFiltration<S extends PointSample | DistanceSample>(sample: S, spec: SubsampleSpec | undefined): { sample: S; coveringRadius?: number } {
+export function subsampleForFiltration<S extends PointSample | DistanceSample>(
+  sample: S,
+  spec: SubsampleSpec | undefined,
+): { sample: S; coveringRadius?: number } {
   if (spec === undefined) return { sample };
   if (sample.kind === 'points') {
     const coords = (sample as PointSample).coords;
     const dim = (sample as PointSample).dim;
     for (let i = 0; i < coords.length; i++) {
       if (!Number.isFinite(coords[i])) {
-        throw new UserError(`sample '${sample.id}': point ${Math.floor(i / dim) + 1} has coordinate ${coords[i]}; coordinates must be finite numbers`);
+        throw new UserError(
+          `sample '${sample.id}': point ${Math.floor(i / dim) + 1} has coordinate ${coords[i]}; coordinates must be finite numbers`,
+        );
       }
     }
   }

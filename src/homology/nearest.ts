@@ -245,7 +245,9 @@ export function nearestNeighboursFromMatrix(
 function checkK(k: number, count: number, includeSelf: boolean): void {
   const most = includeSelf ? count : count - 1;
   if (!Number.isInteger(k) || k < 1 || k > most) {
-    throw new RangeError(`k = ${k} neighbours asked of ${count} points (${includeSelf ? 'self included' : 'self excluded'}); need 1 ≤ k ≤ ${most}`);
+    throw new RangeError(
+      `k = ${k} neighbours asked of ${count} points (${includeSelf ? 'self included' : 'self excluded'}); need 1 ≤ k ≤ ${most}`,
+    );
   }
 }
 
@@ -265,11 +267,26 @@ function heapPush(idx: Int32Array, dist: Float64Array, at: number, size: number,
   idx[at + i] = p;
 }
 
-function heapReplaceTop(idx: Int32Array, dist: Float64Array, at: number, size: number, p: number, d: number): void {
+function heapReplaceTop(
+  idx: Int32Array,
+  dist: Float64Array,
+  at: number,
+  size: number,
+  p: number,
+  d: number,
+): void {
   siftDown(idx, dist, at, size, 0, p, d);
 }
 
-function siftDown(idx: Int32Array, dist: Float64Array, at: number, size: number, start: number, p: number, d: number): void {
+function siftDown(
+  idx: Int32Array,
+  dist: Float64Array,
+  at: number,
+  size: number,
+  start: number,
+  p: number,
+  d: number,
+): void {
   let i = start;
   // Invariant: slot i is free; (p, d) belongs at i or below.
   for (;;) {
@@ -299,7 +316,15 @@ function heapSortAscending(idx: Int32Array, dist: Float64Array, at: number, size
 }
 
 /** Quickselect on `order[lo..hi]` by coordinate `axis`, so that `order[nth]` is in its sorted place. */
-function selectNth(coords: ArrayLike<number>, order: Int32Array, dim: number, axis: number, lo: number, hi: number, nth: number): void {
+function selectNth(
+  coords: ArrayLike<number>,
+  order: Int32Array,
+  dim: number,
+  axis: number,
+  lo: number,
+  hi: number,
+  nth: number,
+): void {
   // Invariant: the element of rank nth lies in order[lo..hi].
   while (hi > lo) {
     const pivot = coords[order[(lo + hi) >> 1] * dim + axis];

@@ -34,7 +34,13 @@ export interface Landmarks {
  * Greedy farthest-point selection of `n` landmarks from a cloud: the first is drawn with `seed`, each next one
  * is the point farthest from those already chosen (ties: lowest index).
  */
-export function maxminLandmarks(coords: ArrayLike<number>, count: number, dim: number, n: number, seed = DEFAULT_SUBSAMPLE_SEED): Landmarks {
+export function maxminLandmarks(
+  coords: ArrayLike<number>,
+  count: number,
+  dim: number,
+  n: number,
+  seed = DEFAULT_SUBSAMPLE_SEED,
+): Landmarks {
   const take = Math.min(n, count);
   const indices = new Int32Array(take);
   if (take === 0) return { indices, coveringRadius: 0 };
@@ -44,7 +50,12 @@ export function maxminLandmarks(coords: ArrayLike<number>, count: number, dim: n
   // Invariant: nearest[p] is the squared distance from p to the closest of indices[0, l).
   for (let l = 0; l < take; l++) {
     indices[l] = next;
-    const far = dim === 2 ? relax2(coords, count, next, nearest) : dim === 3 ? relax3(coords, count, next, nearest) : relax(coords, count, dim, next, nearest);
+    const far =
+      dim === 2
+        ? relax2(coords, count, next, nearest)
+        : dim === 3
+          ? relax3(coords, count, next, nearest)
+          : relax(coords, count, dim, next, nearest);
     radiusSquared = nearest[far];
     next = far;
   }
@@ -52,7 +63,13 @@ export function maxminLandmarks(coords: ArrayLike<number>, count: number, dim: n
 }
 
 /** Lowers `nearest` by the distances to landmark `q`; returns the point now farthest from all landmarks. */
-function relax(coords: ArrayLike<number>, count: number, dim: number, q: number, nearest: Float64Array): number {
+function relax(
+  coords: ArrayLike<number>,
+  count: number,
+  dim: number,
+  q: number,
+  nearest: Float64Array,
+): number {
   const base = q * dim;
   let far = 0;
   let farthest = -1;
@@ -117,7 +134,12 @@ function relax3(coords: ArrayLike<number>, count: number, q: number, nearest: Fl
 }
 
 /** Greedy farthest-point selection from a full `size × size` distance matrix. */
-export function maxminLandmarksFromMatrix(matrix: ArrayLike<number>, size: number, n: number, seed = DEFAULT_SUBSAMPLE_SEED): Landmarks {
+export function maxminLandmarksFromMatrix(
+  matrix: ArrayLike<number>,
+  size: number,
+  n: number,
+  seed = DEFAULT_SUBSAMPLE_SEED,
+): Landmarks {
   const take = Math.min(n, size);
   const indices = new Int32Array(take);
   if (take === 0) return { indices, coveringRadius: 0 };
@@ -160,7 +182,12 @@ export function randomIndices(count: number, n: number, seed = DEFAULT_SUBSAMPLE
 }
 
 /** The covering radius of a set of landmarks in a cloud: max over points of the distance to the nearest one. */
-export function coveringRadius(coords: ArrayLike<number>, count: number, dim: number, landmarks: ArrayLike<number>): number {
+export function coveringRadius(
+  coords: ArrayLike<number>,
+  count: number,
+  dim: number,
+  landmarks: ArrayLike<number>,
+): number {
   let worst = 0;
   // Invariant: worst is the largest nearest-landmark squared distance over points 0..p−1.
   for (let p = 0; p < count; p++) {
@@ -180,7 +207,11 @@ export function coveringRadius(coords: ArrayLike<number>, count: number, dim: nu
 }
 
 /** The covering radius of landmarks given as rows of a full distance matrix. */
-export function coveringRadiusFromMatrix(matrix: ArrayLike<number>, size: number, landmarks: ArrayLike<number>): number {
+export function coveringRadiusFromMatrix(
+  matrix: ArrayLike<number>,
+  size: number,
+  landmarks: ArrayLike<number>,
+): number {
   let worst = 0;
   for (let p = 0; p < size; p++) {
     let best = Infinity;
@@ -195,27 +226,48 @@ export function coveringRadiusFromMatrix(matrix: ArrayLike<number>, size: number
 }
 
 /** The landmarks of a cloud by the given method. */
-export function selectLandmarks(coords: ArrayLike<number>, count: number, dim: number, spec: SubsampleSpec): Landmarks {
+export function selectLandmarks(
+  coords: ArrayLike<number>,
+  count: number,
+  dim: number,
+  spec: SubsampleSpec,
+): Landmarks {
   if (spec.method === 'maxmin') return maxminLandmarks(coords, count, dim, spec.count, spec.seed);
   const indices = randomIndices(count, spec.count, spec.seed);
-  return { indices, coveringRadius: indices.length === count ? 0 : coveringRadius(coords, count, dim, indices) };
+  return {
+    indices,
+    coveringRadius: indices.length === count ? 0 : coveringRadius(coords, count, dim, indices),
+  };
 }
 
 /** The landmarks of a distance matrix by the given method. */
-export function selectLandmarksFromMatrix(matrix: ArrayLike<number>, size: number, spec: SubsampleSpec): Landmarks {
+export function selectLandmarksFromMatrix(
+  matrix: ArrayLike<number>,
+  size: number,
+  spec: SubsampleSpec,
+): Landmarks {
   if (spec.method === 'maxmin') return maxminLandmarksFromMatrix(matrix, size, spec.count, spec.seed);
   const indices = randomIndices(size, spec.count, spec.seed);
-  return { indices, coveringRadius: indices.length === size ? 0 : coveringRadiusFromMatrix(matrix, size, indices) };
+  return {
+    indices,
+    coveringRadius: indices.length === size ? 0 : coveringRadiusFromMatrix(matrix, size, indices),
+  };
 }
 
 /** A point or distance sample cut down to its landmarks, with the landmarks' covering radius. */
-export function subsampleSample<S extends PointSample | DistanceSample>(sample: S, spec: SubsampleSpec): { sample: S; landmarks: Landmarks } {
+export function subsampleSample<S extends PointSample | DistanceSample>(
+  sample: S,
+  spec: SubsampleSpec,
+): { sample: S; landmarks: Landmarks } {
   if (sample.kind === 'points') {
     const s = sample as PointSample;
     const landmarks = selectLandmarks(s.coords, s.count, s.dim, spec);
     const coords = new Float64Array(landmarks.indices.length * s.dim);
     for (let l = 0; l < landmarks.indices.length; l++) {
-      coords.set(s.coords.subarray(landmarks.indices[l] * s.dim, (landmarks.indices[l] + 1) * s.dim), l * s.dim);
+      coords.set(
+        s.coords.subarray(landmarks.indices[l] * s.dim, (landmarks.indices[l] + 1) * s.dim),
+        l * s.dim,
+      );
     }
     return { sample: { ...s, count: landmarks.indices.length, coords } as S, landmarks };
   }
@@ -224,7 +276,8 @@ export function subsampleSample<S extends PointSample | DistanceSample>(sample: 
   const m = landmarks.indices.length;
   const matrix = new Float64Array(m * m);
   for (let a = 0; a < m; a++) {
-    for (let b = 0; b < m; b++) matrix[a * m + b] = s.matrix[landmarks.indices[a] * s.size + landmarks.indices[b]];
+    for (let b = 0; b < m; b++)
+      matrix[a * m + b] = s.matrix[landmarks.indices[a] * s.size + landmarks.indices[b]];
   }
   return { sample: { ...s, size: m, matrix } as S, landmarks };
 }
@@ -235,7 +288,11 @@ export function parseSubsample(text: string): SubsampleSpec | undefined {
   if (!m) return undefined;
   const count = Number(m[2]);
   if (count < 1) return undefined;
-  return { method: m[1] as SubsampleMethod, count, seed: m[3] === undefined ? DEFAULT_SUBSAMPLE_SEED : Number(m[3]) };
+  return {
+    method: m[1] as SubsampleMethod,
+    count,
+    seed: m[3] === undefined ? DEFAULT_SUBSAMPLE_SEED : Number(m[3]),
+  };
 }
 
 export function describeSubsample(spec: SubsampleSpec): string {

@@ -13,7 +13,10 @@ describe('--filtration and --subsample', () => {
   it('read dtm:K and a landmark spec', () => {
     const cmd = addFiltrationOptions(new Command('x')).exitOverride();
     cmd.parse(['--filtration', 'dtm:8', '--subsample', 'random:300:4'], { from: 'user' });
-    expect(parseFiltrationOptions(cmd.opts())).toEqual({ filtration: { kind: 'dtm', k: 8 }, subsample: { method: 'random', count: 300, seed: 4 } });
+    expect(parseFiltrationOptions(cmd.opts())).toEqual({
+      filtration: { kind: 'dtm', k: 8 },
+      subsample: { method: 'random', count: 300, seed: 4 },
+    });
   });
 
   it('explain bad values and what to write instead', () => {

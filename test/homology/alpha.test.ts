@@ -1,16 +1,22 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { Random } from '../../src/core/random.js';
 import { UserError } from '../../src/core/errors.js';
+import { Random } from '../../src/core/random.js';
+import {
+  alphaComplex,
+  alphaComplexPersistence,
+  alphaDimensionError,
+  alphaPersistence,
+} from '../../src/homology/alpha.js';
 import type { Diagram } from '../../src/homology/diagram.js';
-import { alphaComplex, alphaComplexPersistence, alphaDimensionError, alphaPersistence } from '../../src/homology/alpha.js';
 import { complexPersistence } from '../../src/homology/filtered-complex.js';
 import { enclosingRadius3, naiveCechDiagrams } from './naive-cech.js';
 
 /** Pairs of a diagram as sorted [birth, death] rows, zero-persistence pairs removed. */
 function rows(d: Diagram): Array<[number, number]> {
   const out: Array<[number, number]> = [];
-  for (let i = 0; i < d.births.length; i++) if (d.deaths[i] > d.births[i] + 1e-12) out.push([d.births[i], d.deaths[i]]);
+  for (let i = 0; i < d.births.length; i++)
+    if (d.deaths[i] > d.births[i] + 1e-12) out.push([d.births[i], d.deaths[i]]);
   return out.sort((a, b) => a[0] - b[0] || a[1] - b[1]);
 }
 
@@ -50,8 +56,19 @@ describe('reduction of an explicit filtered complex', () => {
     const edgeValues = Float64Array.from([1, 1, 1, 1, s2, s2]);
     const triangles = Int32Array.from([0, 1, 2, 0, 1, 3, 0, 2, 3, 1, 2, 3]);
     const triangleValues = Float64Array.from([s2, s2, s2, s2]);
-    const [h0, h1] = complexPersistence({ simplices: [Int32Array.from([0, 1, 2, 3]), edges, triangles], values: [new Float64Array(4), edgeValues, triangleValues] }, 1);
-    expect(rows(h0)).toEqual([[0, 1], [0, 1], [0, 1], [0, Infinity]]);
+    const [h0, h1] = complexPersistence(
+      {
+        simplices: [Int32Array.from([0, 1, 2, 3]), edges, triangles],
+        values: [new Float64Array(4), edgeValues, triangleValues],
+      },
+      1,
+    );
+    expect(rows(h0)).toEqual([
+      [0, 1],
+      [0, 1],
+      [0, 1],
+      [0, Infinity],
+    ]);
     expect(rows(h1)).toEqual([[1, s2]]);
   });
 });
@@ -95,7 +112,11 @@ describe('alpha filtration in the plane', () => {
     const complex = alphaComplex(cloud, n);
     const byReduction = complexPersistence(
       {
-        simplices: [Int32Array.from({ length: complex.vertexCount }, (_, i) => i), complex.edges, complex.triangles],
+        simplices: [
+          Int32Array.from({ length: complex.vertexCount }, (_, i) => i),
+          complex.edges,
+          complex.triangles,
+        ],
         values: [new Float64Array(complex.vertexCount), complex.edgeValues, complex.triangleValues],
       },
       1,
@@ -132,11 +153,20 @@ describe('alpha filtration in the plane', () => {
   it('equals the naive Čech filtration on small integer clouds (duplicates, collinear runs, cocircular sets)', () => {
     // Integer coordinates in 0..4 make every degeneracy common at once; the Čech reference is exact about them.
     fc.assert(
-      fc.property(fc.array(fc.tuple(fc.integer({ min: 0, max: 4 }), fc.integer({ min: 0, max: 4 })), { minLength: 1, maxLength: 10 }), (pts) => {
-        const flat = pts.flat();
-        const distinct = [...new Set(pts.map((p) => p.join(',')))].map((k) => k.split(',').map(Number)).flat();
-        expectSameDiagrams(alphaPersistence(flat, pts.length), naiveCechDiagrams(distinct, distinct.length / 2));
-      }),
+      fc.property(
+        fc.array(fc.tuple(fc.integer({ min: 0, max: 4 }), fc.integer({ min: 0, max: 4 })), {
+          minLength: 1,
+          maxLength: 10,
+        }),
+        (pts) => {
+          const flat = pts.flat();
+          const distinct = [...new Set(pts.map((p) => p.join(',')))].flatMap((k) => k.split(',').map(Number));
+          expectSameDiagrams(
+            alphaPersistence(flat, pts.length),
+            naiveCechDiagrams(distinct, distinct.length / 2),
+          );
+        },
+      ),
       { numRuns: 150, seed: 20 },
     );
   });
@@ -163,7 +193,10 @@ describe('alpha filtration in the plane', () => {
 
   it('handles one and two points', () => {
     expect(rows(alphaPersistence([1, 2], 1)[0])).toEqual([[0, Infinity]]);
-    expect(rows(alphaPersistence([0, 0, 0, 2], 2)[0])).toEqual([[0, 1], [0, Infinity]]);
+    expect(rows(alphaPersistence([0, 0, 0, 2], 2)[0])).toEqual([
+      [0, 1],
+      [0, Infinity],
+    ]);
   });
 
   it('truncates at maxScale: later deaths become essential, later births vanish', () => {

@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
-import type { Diagram } from '../../src/homology/diagram.js';
+import { LandscapeVectorizer } from '../../src/features/landscape-vectorizer.js';
+import { RawFeatures } from '../../src/features/raw-features.js';
+import type { Diagram, DiagramSet } from '../../src/homology/diagram.js';
 import {
   dtmEdgeValue,
   dtmEdgeValues,
@@ -12,9 +14,6 @@ import {
   dtmValuesFromMatrix,
 } from '../../src/homology/dtm.js';
 import { complexPersistence } from '../../src/homology/filtered-complex.js';
-import { LandscapeVectorizer } from '../../src/features/landscape-vectorizer.js';
-import { RawFeatures } from '../../src/features/raw-features.js';
-import type { DiagramSet } from '../../src/homology/diagram.js';
 import { pairwiseDistances } from '../../src/homology/metric.js';
 import { ripsPersistence } from '../../src/homology/rips.js';
 import { classesOf } from '../../src/io/dataset.js';
@@ -24,7 +23,8 @@ import type { Matrix } from '../../src/learn/matrix.js';
 
 function rows(d: Diagram): Array<[number, number]> {
   const out: Array<[number, number]> = [];
-  for (let i = 0; i < d.births.length; i++) if (d.deaths[i] > d.births[i] + 1e-12) out.push([d.births[i], d.deaths[i]]);
+  for (let i = 0; i < d.births.length; i++)
+    if (d.deaths[i] > d.births[i] + 1e-12) out.push([d.births[i], d.deaths[i]]);
   return out.sort((a, b) => a[0] - b[0] || a[1] - b[1]);
 }
 
@@ -77,7 +77,8 @@ describe('DTM values', () => {
     const n = 40;
     const c = Float64Array.from({ length: 2 * n }, () => r.normal());
     const m = new Float64Array(n * n);
-    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) m[i * n + j] = Math.hypot(c[2 * i] - c[2 * j], c[2 * i + 1] - c[2 * j + 1]);
+    for (let i = 0; i < n; i++)
+      for (let j = 0; j < n; j++) m[i * n + j] = Math.hypot(c[2 * i] - c[2 * j], c[2 * i + 1] - c[2 * j + 1]);
     const a = dtmValues(c, n, 2, 6);
     const b = dtmValuesFromMatrix(m, n, 6);
     for (let i = 0; i < n; i++) expect(b[i]).toBeCloseTo(a[i], 12);
@@ -110,7 +111,9 @@ describe('DTM edge values (p = 1)', () => {
     const c = Float64Array.from({ length: 2 * n }, () => r.normal());
     const f = dtmValues(c, n, 2, 4);
     const condensed: number[] = [];
-    for (let j = 1; j < n; j++) for (let i = 0; i < j; i++) condensed.push(Math.hypot(c[2 * i] - c[2 * j], c[2 * i + 1] - c[2 * j + 1]));
+    for (let j = 1; j < n; j++)
+      for (let i = 0; i < j; i++)
+        condensed.push(Math.hypot(c[2 * i] - c[2 * j], c[2 * i + 1] - c[2 * j + 1]));
     const edges = dtmEdgeValues(condensed, f);
     let e = 0;
     for (let j = 1; j < n; j++) {
@@ -164,7 +167,8 @@ describe('DTM filtration through the Rips engine', () => {
       const edgeValues: number[] = [];
       const triangles: number[] = [];
       const triangleValues: number[] = [];
-      const edge = (i: number, j: number) => dtmEdgeValue(f[i], f[j], Math.hypot(c[2 * i] - c[2 * j], c[2 * i + 1] - c[2 * j + 1]));
+      const edge = (i: number, j: number) =>
+        dtmEdgeValue(f[i], f[j], Math.hypot(c[2 * i] - c[2 * j], c[2 * i + 1] - c[2 * j + 1]));
       for (let i = 0; i < n; i++) {
         vertices.push(i);
         for (let j = i + 1; j < n; j++) {
@@ -177,7 +181,10 @@ describe('DTM filtration through the Rips engine', () => {
         }
       }
       const expected = complexPersistence(
-        { simplices: [Int32Array.from(vertices), Int32Array.from(edges), Int32Array.from(triangles)], values: [f, Float64Array.from(edgeValues), Float64Array.from(triangleValues)] },
+        {
+          simplices: [Int32Array.from(vertices), Int32Array.from(edges), Int32Array.from(triangles)],
+          values: [f, Float64Array.from(edgeValues), Float64Array.from(triangleValues)],
+        },
         1,
       );
       const got = dtmPersistence(c, n, 2, 3, { maxDegree: 1 });
@@ -200,13 +207,22 @@ describe('DTM filtration through the Rips engine', () => {
     const c = Float64Array.from({ length: 3 * n }, () => r.normal());
     const m = new Float64Array(n * n);
     const condensed: number[] = [];
-    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) m[i * n + j] = Math.hypot(c[3 * i] - c[3 * j], c[3 * i + 1] - c[3 * j + 1], c[3 * i + 2] - c[3 * j + 2]);
+    for (let i = 0; i < n; i++)
+      for (let j = 0; j < n; j++)
+        m[i * n + j] = Math.hypot(
+          c[3 * i] - c[3 * j],
+          c[3 * i + 1] - c[3 * j + 1],
+          c[3 * i + 2] - c[3 * j + 2],
+        );
     for (let j = 1; j < n; j++) for (let i = 0; i < j; i++) condensed.push(m[i * n + j]);
     const a = dtmPersistence(c, n, 3, 5, { maxDegree: 1 });
     const b = dtmPersistenceFromMatrix(m, n, 5, { maxDegree: 1 });
     for (const d of [0, 1]) {
       expect(rows(b[d]).length).toBe(rows(a[d]).length);
-      rows(b[d]).forEach((p, i) => expect(p[1]).toBeCloseTo(rows(a[d])[i][1], 10));
+      const expected = rows(a[d]);
+      rows(b[d]).forEach((p, i) => {
+        expect(p[1]).toBeCloseTo(expected[i][1], 10);
+      });
     }
     const f = dtmValuesFromCondensed(condensed, n, 5);
     const g = dtmValues(c, n, 3, 5);
@@ -231,18 +247,26 @@ describe('DTM filtration through the Rips engine', () => {
 });
 
 /** Nearest class centroid after standardising with the training rows' means and deviations. */
-function nearestCentroid(train: Matrix, trainY: ArrayLike<number>, test: Matrix, classCount: number): Int32Array {
+function nearestCentroid(
+  train: Matrix,
+  trainY: ArrayLike<number>,
+  test: Matrix,
+  classCount: number,
+): Int32Array {
   const cols = train.cols;
   const mean = new Float64Array(cols);
   const sd = new Float64Array(cols);
-  for (let r = 0; r < train.rows; r++) for (let j = 0; j < cols; j++) mean[j] += train.data[r * cols + j] / train.rows;
-  for (let r = 0; r < train.rows; r++) for (let j = 0; j < cols; j++) sd[j] += (train.data[r * cols + j] - mean[j]) ** 2 / train.rows;
+  for (let r = 0; r < train.rows; r++)
+    for (let j = 0; j < cols; j++) mean[j] += train.data[r * cols + j] / train.rows;
+  for (let r = 0; r < train.rows; r++)
+    for (let j = 0; j < cols; j++) sd[j] += (train.data[r * cols + j] - mean[j]) ** 2 / train.rows;
   for (let j = 0; j < cols; j++) sd[j] = Math.sqrt(sd[j]) || 1;
   const centroid = new Float64Array(classCount * cols);
   const size = new Float64Array(classCount);
   for (let r = 0; r < train.rows; r++) {
     size[trainY[r]]++;
-    for (let j = 0; j < cols; j++) centroid[trainY[r] * cols + j] += (train.data[r * cols + j] - mean[j]) / sd[j];
+    for (let j = 0; j < cols; j++)
+      centroid[trainY[r] * cols + j] += (train.data[r * cols + j] - mean[j]) / sd[j];
   }
   for (let c = 0; c < classCount; c++) for (let j = 0; j < cols; j++) centroid[c * cols + j] /= size[c];
   const out = new Int32Array(test.rows);
@@ -250,7 +274,8 @@ function nearestCentroid(train: Matrix, trainY: ArrayLike<number>, test: Matrix,
     let best = Infinity;
     for (let c = 0; c < classCount; c++) {
       let d = 0;
-      for (let j = 0; j < cols; j++) d += ((test.data[r * cols + j] - mean[j]) / sd[j] - centroid[c * cols + j]) ** 2;
+      for (let j = 0; j < cols; j++)
+        d += ((test.data[r * cols + j] - mean[j]) / sd[j] - centroid[c * cols + j]) ** 2;
       if (d < best) {
         best = d;
         out[r] = c;
@@ -268,25 +293,43 @@ describe('DTM against outliers on the gasket-press scenario', () => {
     // Measured when written: Rips 0.72, DTM (K = 10) 0.93, and the pairwise-distance histogram baseline 0.98.
     const samples = generateRings(8);
     const classes = classesOf(samples);
-    const y = encodeLabels(samples.map((s) => s.label), classes);
-    const rips: DiagramSet[] = samples.map((s) => ({ sample: s.id, label: s.label, diagrams: ripsPersistence(s.count, pairwiseDistances(s.coords, s.count, 2), { maxDegree: 1 }) }));
-    const dtm: DiagramSet[] = samples.map((s) => ({ sample: s.id, label: s.label, diagrams: dtmPersistence(s.coords, s.count, 2, 10, { maxDegree: 1 }) }));
+    const y = encodeLabels(
+      samples.map((s) => s.label),
+      classes,
+    );
+    const rips: DiagramSet[] = samples.map((s) => ({
+      sample: s.id,
+      label: s.label,
+      diagrams: ripsPersistence(s.count, pairwiseDistances(s.coords, s.count, 2), { maxDegree: 1 }),
+    }));
+    const dtm: DiagramSet[] = samples.map((s) => ({
+      sample: s.id,
+      label: s.label,
+      diagrams: dtmPersistence(s.coords, s.count, 2, 10, { maxDegree: 1 }),
+    }));
     const folds = stratifiedFolds(y, classes.length, { folds: 5, seed: 1 });
     const accuracy = (features: (train: Int32Array, test: Int32Array) => [Matrix, Matrix]): number => {
       let correct = 0;
       for (const fold of folds) {
         const [train, test] = features(fold.train, fold.test);
-        const predicted = nearestCentroid(train, Array.from(fold.train, (i) => y[i]), test, classes.length);
+        const predicted = nearestCentroid(
+          train,
+          Array.from(fold.train, (i) => y[i]),
+          test,
+          classes.length,
+        );
         predicted.forEach((p, r) => {
           if (p === y[fold.test[r]]) correct++;
         });
       }
       return correct / samples.length;
     };
-    const landscapes = (sets: DiagramSet[]) => (train: Int32Array, test: Int32Array): [Matrix, Matrix] => {
-      const v = new LandscapeVectorizer({ depth: 3, gridSize: 30 }).fit(sets, train);
-      return [v.transform(sets, train), v.transform(sets, test)];
-    };
+    const landscapes =
+      (sets: DiagramSet[]) =>
+      (train: Int32Array, test: Int32Array): [Matrix, Matrix] => {
+        const v = new LandscapeVectorizer({ depth: 3, gridSize: 30 }).fit(sets, train);
+        return [v.transform(sets, train), v.transform(sets, test)];
+      };
     const ripsAccuracy = accuracy(landscapes(rips));
     const dtmAccuracy = accuracy(landscapes(dtm));
     const histogramAccuracy = accuracy((train, test) => {
@@ -298,6 +341,8 @@ describe('DTM against outliers on the gasket-press scenario', () => {
     // The strong baseline, reported rather than hidden: a histogram of pairwise distances (Osada et al.,
     // "Shape distributions", 2002) is barely troubled by 4% outliers and beats plain Rips here.
     expect(histogramAccuracy).toBeGreaterThan(ripsAccuracy);
-    console.log(`gasket press, 5-fold accuracy: rips ${ripsAccuracy.toFixed(3)}, dtm:10 ${dtmAccuracy.toFixed(3)}, distance histogram ${histogramAccuracy.toFixed(3)}`);
+    console.log(
+      `gasket press, 5-fold accuracy: rips ${ripsAccuracy.toFixed(3)}, dtm:10 ${dtmAccuracy.toFixed(3)}, distance histogram ${histogramAccuracy.toFixed(3)}`,
+    );
   });
 });

@@ -17,7 +17,11 @@ export function enclosingRadius3(c: ArrayLike<number>, a: number, b: number, v: 
   const longest = Math.max(ab, bc, ca);
   if (longest >= ab + bc + ca - longest) return Math.sqrt(longest) / 2;
   // Acute: the circumcircle, R = abc / (4 · area).
-  const area = Math.abs((c[2 * b] - c[2 * a]) * (c[2 * v + 1] - c[2 * a + 1]) - (c[2 * v] - c[2 * a]) * (c[2 * b + 1] - c[2 * a + 1])) / 2;
+  const area =
+    Math.abs(
+      (c[2 * b] - c[2 * a]) * (c[2 * v + 1] - c[2 * a + 1]) -
+        (c[2 * v] - c[2 * a]) * (c[2 * b + 1] - c[2 * a + 1]),
+    ) / 2;
   return Math.sqrt(ab * bc * ca) / (4 * area);
 }
 

@@ -1,7 +1,12 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
-import { KdTree, nearestNeighbours, nearestNeighboursByScan, nearestNeighboursFromMatrix } from '../../src/homology/nearest.js';
+import {
+  KdTree,
+  nearestNeighbours,
+  nearestNeighboursByScan,
+  nearestNeighboursFromMatrix,
+} from '../../src/homology/nearest.js';
 
 function cloud(seed: number, count: number, dim: number): Float64Array {
   const r = new Random(seed);
@@ -66,7 +71,10 @@ describe('k nearest neighbours', () => {
     const dist = new Float64Array(5);
     const q = [0.3, -0.2, 0.1];
     expect(tree.nearest(q, 0, 5, idx, dist, 0)).toBe(5);
-    const all = Array.from({ length: 300 }, (_, i) => (c[3 * i] - q[0]) ** 2 + (c[3 * i + 1] - q[1]) ** 2 + (c[3 * i + 2] - q[2]) ** 2).sort((a, b) => a - b);
+    const all = Array.from(
+      { length: 300 },
+      (_, i) => (c[3 * i] - q[0]) ** 2 + (c[3 * i + 1] - q[1]) ** 2 + (c[3 * i + 2] - q[2]) ** 2,
+    ).sort((a, b) => a - b);
     expect(Array.from(dist)).toEqual(all.slice(0, 5));
   });
 

@@ -1,5 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
+import { alphaPersistence } from '../../src/homology/alpha.js';
+import { bottleneckDistance } from '../../src/homology/distance.js';
+import { pairwiseDistances } from '../../src/homology/metric.js';
+import { ripsPersistence } from '../../src/homology/rips.js';
 import {
   coveringRadius,
   maxminLandmarks,
@@ -10,10 +14,6 @@ import {
   subsampleSample,
 } from '../../src/homology/subsample.js';
 import type { PointSample } from '../../src/io/dataset.js';
-import { alphaPersistence } from '../../src/homology/alpha.js';
-import { bottleneckDistance } from '../../src/homology/distance.js';
-import { pairwiseDistances } from '../../src/homology/metric.js';
-import { ripsPersistence } from '../../src/homology/rips.js';
 
 function noisyCircle(seed: number, n: number): Float64Array {
   const r = new Random(seed);
@@ -87,7 +87,8 @@ describe('maxmin landmarks', () => {
     const n = 80;
     const c = cloud(3, n, 2);
     const m = new Float64Array(n * n);
-    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) m[i * n + j] = Math.hypot(c[2 * i] - c[2 * j], c[2 * i + 1] - c[2 * j + 1]);
+    for (let i = 0; i < n; i++)
+      for (let j = 0; j < n; j++) m[i * n + j] = Math.hypot(c[2 * i] - c[2 * j], c[2 * i + 1] - c[2 * j + 1]);
     const a = maxminLandmarks(c, n, 2, 12, 5);
     const b = maxminLandmarksFromMatrix(m, n, 12, 5);
     expect(Array.from(b.indices)).toEqual(Array.from(a.indices));
@@ -117,10 +118,15 @@ describe('subsampling a sample', () => {
     const sample: PointSample = { kind: 'points', id: 's', label: 'a', dim: 3, count: 100, coords: c };
     const { sample: cut, landmarks } = subsampleSample(sample, { method: 'maxmin', count: 10, seed: 1 });
     expect(cut.count).toBe(10);
-    expect(Array.from(cut.coords.subarray(3, 6))).toEqual(Array.from(c.subarray(landmarks.indices[1] * 3, landmarks.indices[1] * 3 + 3)));
+    expect(Array.from(cut.coords.subarray(3, 6))).toEqual(
+      Array.from(c.subarray(landmarks.indices[1] * 3, landmarks.indices[1] * 3 + 3)),
+    );
     const m = new Float64Array(100 * 100);
     for (let i = 0; i < 100; i++) for (let j = 0; j < 100; j++) m[i * 100 + j] = Math.abs(i - j);
-    const { sample: cutM } = subsampleSample({ kind: 'distances', id: 'd', label: 'a', size: 100, matrix: m }, { method: 'random', count: 4, seed: 3 });
+    const { sample: cutM } = subsampleSample(
+      { kind: 'distances', id: 'd', label: 'a', size: 100, matrix: m },
+      { method: 'random', count: 4, seed: 3 },
+    );
     expect(cutM.size).toBe(4);
     expect(cutM.matrix[1]).toBeGreaterThan(0);
   });
@@ -151,7 +157,9 @@ describe('stability of landmark diagrams', () => {
         expect(b).toBeLessThanOrEqual(2 * l.coveringRadius + 1e-12);
       }
       // The circle's loop survives subsampling.
-      expect(Math.max(...Array.from(small[1].deaths).map((x, i) => x - small[1].births[i]))).toBeGreaterThan(1);
+      expect(Math.max(...Array.from(small[1].deaths).map((x, i) => x - small[1].births[i]))).toBeGreaterThan(
+        1,
+      );
     }
   });
 
@@ -163,6 +171,7 @@ describe('stability of landmark diagrams', () => {
     const l = maxminLandmarks(c, n, 2, 80, 2);
     const full = alphaPersistence(c, n);
     const small = alphaPersistence(cut(c, 2, l.indices), 80);
-    for (const d of [0, 1]) expect(bottleneckDistance(full[d], small[d])).toBeLessThanOrEqual(l.coveringRadius + 1e-12);
+    for (const d of [0, 1])
+      expect(bottleneckDistance(full[d], small[d])).toBeLessThanOrEqual(l.coveringRadius + 1e-12);
   });
 });

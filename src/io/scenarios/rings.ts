@@ -79,7 +79,14 @@ export function generateRings(seed: number, options: RingsOptions = {}): PointSa
       coords[2 * i] = r.uniform(-2, 2);
       coords[2 * i + 1] = r.uniform(-2, 2);
     }
-    samples.push({ kind: 'points', id: `${label}-${String(Math.floor(s / RINGS_CLASSES.length) + 1).padStart(2, '0')}`, label, dim: 2, count: points, coords });
+    samples.push({
+      kind: 'points',
+      id: `${label}-${String(Math.floor(s / RINGS_CLASSES.length) + 1).padStart(2, '0')}`,
+      label,
+      dim: 2,
+      count: points,
+      coords,
+    });
   }
   return samples;
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { RINGS_CLASSES, generateRings } from '../../../src/io/scenarios/rings.js';
+import { generateRings, RINGS_CLASSES } from '../../../src/io/scenarios/rings.js';
 
 describe('gasket-press scenario (invented demo data)', () => {
   it('is reproducible from its seed and balanced over five classes', () => {
@@ -22,6 +22,9 @@ describe('gasket-press scenario (invented demo data)', () => {
       expect(r).toBeGreaterThan(0.89);
       expect(r).toBeLessThan(1.11);
     }
-    for (let i = 95; i < 100; i++) expect(Math.max(Math.abs(single.coords[2 * i]), Math.abs(single.coords[2 * i + 1]))).toBeLessThanOrEqual(2);
+    for (let i = 95; i < 100; i++)
+      expect(
+        Math.max(Math.abs(single.coords[2 * i]), Math.abs(single.coords[2 * i + 1])),
+      ).toBeLessThanOrEqual(2);
   });
 });
