@@ -1,4 +1,5 @@
 import type { Diagram } from '../homology/diagram.js';
+import { sortPairs } from './pair-order.js';
 
 /**
  * One layer λ_k of a persistence landscape, given by its breakpoints: `t` strictly increasing, the layer
@@ -56,9 +57,9 @@ export function exactLandscape(diagram: Diagram, options: ExactLandscapeOptions 
   let curB = new Float64Array(n);
   let curD = new Float64Array(n);
   {
-    const order = new Uint32Array(n);
-    for (let i = 0, j = 0; i < n0; i++) if (resolvable(births[i], deaths[i])) order[j++] = i;
-    order.sort((x, y) => births[x] - births[y] || deaths[y] - deaths[x]);
+    const selected = new Uint32Array(n);
+    for (let i = 0, j = 0; i < n0; i++) if (resolvable(births[i], deaths[i])) selected[j++] = i;
+    const order = sortPairs(births, deaths, selected);
     for (let j = 0; j < n; j++) {
       curB[j] = births[order[j]];
       curD[j] = deaths[order[j]];
