@@ -2,6 +2,7 @@ import { readFileSync } from 'node:fs';
 import { UserError } from '../core/errors.js';
 import type { Provenance } from '../core/version.js';
 import type { Diagram, DiagramSet } from '../homology/diagram.js';
+import type { Dataset, DiagramSample, TableSample } from './dataset.js';
 import type { FeatureTable } from './feature-table.js';
 import { writeWithProvenance } from './provenance-file.js';
 
@@ -252,4 +253,27 @@ export async function readFeatureArrow(file: string): Promise<FeatureTable> {
   const content = await readArrow(file);
   if (content.kind !== 'table') throw new UserError('holds diagrams, not a feature table; give a feature file', { file });
   return content.table;
+}
+
+/**
+ * An Arrow file as a dataset, for the loader: a diagrams file becomes a `diagrams` dataset, a feature table a
+ * `table` dataset (columns = feature names), so `evaluate` and `train` can read Arrow outputs directly.
+ */
+export async function loadArrowDataset(file: string): Promise<Dataset> {
+  const content = await readArrow(file);
+  if (content.kind === 'diagrams') {
+    return {
+      kind: 'diagrams',
+      source: file,
+      samples: content.sets.map((s): DiagramSample => ({ kind: 'diagrams', id: s.sample, label: s.label, diagrams: s.diagrams })),
+    };
+  }
+  const { ids, labels, names, matrix } = content.table;
+  const seen = new Set<string>();
+  const samples = ids.map((id, i): TableSample => {
+    if (seen.has(id)) throw new UserError(`sample '${id}' appears on two rows; a feature table has one row per sample`, { file });
+    seen.add(id);
+    return { kind: 'table', id, label: labels[i], values: matrix.data.slice(i * matrix.cols, (i + 1) * matrix.cols) };
+  });
+  return { kind: 'table', source: file, columns: [...names], samples };
 }

@@ -9,6 +9,7 @@ import {
   ARROW_PROVENANCE_KEY,
   formatDiagramArrow,
   formatFeatureArrow,
+  loadArrowDataset,
   parseArrow,
   readDiagramArrow,
   readFeatureArrow,
@@ -103,6 +104,26 @@ describe('Arrow IPC files', () => {
     expect(back.names).toEqual(table.names);
     expect([...back.matrix.data]).toEqual([...table.matrix.data]);
     await expect(readDiagramArrow(file)).rejects.toThrow(/feature table, not diagrams/);
+  });
+
+  it('loads as a diagrams or table dataset for the learning commands', async () => {
+    const dir = tempDir();
+    await writeDiagramArrow(join(dir, 'd.arrow'), sets, provenance('diagrams', {}));
+    const d = await loadArrowDataset(join(dir, 'd.arrow'));
+    expect(d.kind).toBe('diagrams');
+    expect(d.samples.map((s) => [s.id, s.label])).toEqual([
+      ['cell-1', 'intact'],
+      ['cell, "2"', 'broken strut'],
+    ]);
+    await writeFeatureArrow(join(dir, 'f.arrow'), table, provenance('vectorize', {}));
+    const t = await loadArrowDataset(join(dir, 'f.arrow'));
+    expect(t.kind).toBe('table');
+    expect(t.columns).toEqual(table.names);
+    expect(t.samples.map((s) => (s.kind === 'table' ? [...s.values] : []))).toEqual([
+      [1, 2],
+      [3, 4],
+      [5, 0.1 + 0.2],
+    ]);
   });
 
   it('writes the same bytes for the same content', async () => {
