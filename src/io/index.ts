@@ -49,6 +49,7 @@ export {
   readFeatureArrow,
   writeDiagramArrow,
   writeFeatureArrow,
+  loadArrowDataset,
   type ArrowContent,
 } from './arrow.js';
 export { formatPointsCsv, formatSignalCsv, formatTableCsv, formatLabelsCsv, defaultCoordinateNames } from './sample-writers.js';
