@@ -33,6 +33,7 @@
 import Delaunator from 'delaunator';
 import { UserError } from '../core/errors.js';
 import { type Diagram, makeDiagram } from './diagram.js';
+import { argsortValues } from './order.js';
 
 /** The alpha complex of a planar cloud: Delaunay edges and triangles with their values (radii). */
 export interface AlphaComplex {
@@ -275,12 +276,9 @@ function find(parent: Int32Array, x: number): number {
   return r;
 }
 
-/** Indices 0..n−1 sorted by value (ties by index). */
-function sortedOrder(values: Float64Array): Uint32Array {
-  const order = new Uint32Array(values.length);
-  for (let i = 0; i < order.length; i++) order[i] = i;
-  order.sort((a, b) => values[a] - values[b] || a - b);
-  return order;
+/** Indices 0..n−1 sorted by value, ties by index (no comparison callback: see order.ts). */
+function sortedOrder(values: Float64Array): Int32Array {
+  return argsortValues(values);
 }
 
 /** Merges exact duplicates; returns the distinct points and the map from input points to them. */
@@ -288,11 +286,18 @@ function distinctPoints(
   coordsIn: ArrayLike<number>,
   count: number,
 ): { coords: Float64Array; vertexOf: Int32Array; vertexCount: number } {
-  const order = new Uint32Array(count);
-  for (let i = 0; i < count; i++) order[i] = i;
-  order.sort(
-    (a, b) => coordsIn[2 * a] - coordsIn[2 * b] || coordsIn[2 * a + 1] - coordsIn[2 * b + 1] || a - b,
-  );
+  // Order by x without a callback, then by y inside each run of equal x (runs are short unless the cloud
+  // has many points on one vertical line).
+  const xs = new Float64Array(count);
+  for (let i = 0; i < count; i++) xs[i] = coordsIn[2 * i];
+  const order = argsortValues(xs);
+  for (let start = 0; start < count; ) {
+    let end = start + 1;
+    while (end < count && xs[order[end]] === xs[order[start]]) end++;
+    if (end - start > 1)
+      order.subarray(start, end).sort((a, b) => coordsIn[2 * a + 1] - coordsIn[2 * b + 1] || a - b);
+    start = end;
+  }
   const vertexOf = new Int32Array(count);
   const firsts: number[] = [];
   // Invariant: points order[0, i) are mapped; equal points are adjacent in this order.
