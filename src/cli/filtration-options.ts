@@ -39,3 +39,25 @@ export function parseFiltrationOptions(opts: { filtration?: string; subsample?: 
   }
   return { filtration, subsample };
 }
+
+/**
+ * What to record in an output's provenance (`options`): the filtration, the landmark rule and, when
+ * landmarks were taken, each sample's covering radius (from `computeDiagrams`), plus the largest of them.
+ */
+export function filtrationRecord(
+  choice: FiltrationChoice,
+  sets: ReadonlyArray<{ sample: string; coveringRadius?: number }> = [],
+): Record<string, unknown> {
+  const record: Record<string, unknown> = { filtration: describeFiltration(choice.filtration) };
+  if (choice.subsample === undefined) return record;
+  record.subsample = describeSubsample(choice.subsample);
+  const radii: Record<string, number> = {};
+  let largest = 0;
+  for (const set of sets) {
+    if (set.coveringRadius === undefined) continue;
+    radii[set.sample] = set.coveringRadius;
+    if (set.coveringRadius > largest) largest = set.coveringRadius;
+  }
+  record.coveringRadius = { largest, perSample: radii };
+  return record;
+}
