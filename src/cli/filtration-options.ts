@@ -1,7 +1,12 @@
 import type { Command } from 'commander';
 import { UserError } from '../core/errors.js';
-import { FILTRATION_CHOICES, type Filtration, parseFiltration } from '../homology/filtration.js';
-import { parseSubsample, type SubsampleSpec } from '../homology/subsample.js';
+import {
+  describeFiltration,
+  FILTRATION_CHOICES,
+  type Filtration,
+  parseFiltration,
+} from '../homology/filtration.js';
+import { describeSubsample, parseSubsample, type SubsampleSpec } from '../homology/subsample.js';
 
 /**
  * The two options shared by every command that computes diagrams: `--filtration rips|dtm:K|alpha` and
