@@ -27,13 +27,14 @@ export interface ExactLandscapeOptions {
  * analysis using persistence landscapes", 2015): λ_k(t) is the k-th largest of the tents
  * max(0, min(t − b, d − t)).
  *
- * Layer by layer sweep (after Bubenik and Dłotko, "A persistence landscapes toolbox for topological
- * statistics", 2017): pairs sorted by birth ascending, death descending; the sweep walks the sorted pieces
- * once, tracing the upper envelope; whatever lies under it — pieces it skips and the lower part of two
- * crossing tents, cut at the crossing — is passed on, still sorted, as the pieces of the next layer.
- * Cost O(n log n) for the sort plus, per layer, the pieces left for that layer; each crossing adds one
- * piece and one breakpoint, so the work follows the size of the output (deeply nested pairs are walked
- * once per layer above them). Zero-length pairs contribute nothing (see `resolvable`).
+ * Layer by layer sweep, after Bubenik and Dłotko ("A persistence landscapes toolbox for topological
+ * statistics", 2017). The pairs are sorted once by birth ascending, death descending, into fixed slots.
+ * Tracing λ_k, the sweep jumps from the current tent (b, d) to the first later slot whose death exceeds
+ * d — found in O(log n) by descending a max-tree of the slots' deaths, so pieces nested under the layer
+ * are never visited. Where two tents cross, the lower part (b′, d) stays in the slot of (b′, d′) as a
+ * piece of λ_{k+1}; a piece reached across a gap leaves its slot. Whatever the sweep did not touch is left
+ * in place for λ_{k+1}. Each jump adds breakpoints, so the cost is O(n log n + X log n) for X output
+ * breakpoints. Zero-length pairs contribute nothing (see `resolvable`).
  *
  * Finite pairs only: apply `finitePairs` first. Throws on an infinite or NaN value.
  */
@@ -53,50 +54,44 @@ export function exactLandscape(diagram: Diagram, options: ExactLandscapeOptions 
     }
     if (resolvable(b, d)) n++;
   }
-  // Current pieces, sorted by birth ascending then death descending.
-  let curB = new Float64Array(n);
-  let curD = new Float64Array(n);
+  const layers: LandscapeLayer[] = [];
+  if (n === 0 || maxDepth === 0) return { degree: diagram.degree, layers };
+  // Slots sorted by birth ascending then death descending; births never change, deaths shrink at crossings.
+  const slotB = new Float64Array(n);
+  const tree = new DeathTree(n);
   {
     const selected = new Uint32Array(n);
     for (let i = 0, j = 0; i < n0; i++) if (resolvable(births[i], deaths[i])) selected[j++] = i;
     const order = sortPairs(births, deaths, selected);
-    for (let j = 0; j < n; j++) {
-      curB[j] = births[order[j]];
-      curD[j] = deaths[order[j]];
-    }
+    for (let j = 0; j < n; j++) slotB[j] = births[order[j]];
+    tree.fill(n, (j) => deaths[order[j]]);
   }
-  let nextB = new Float64Array(n);
-  let nextD = new Float64Array(n);
-  let size = n;
-  const layers: LandscapeLayer[] = [];
   const bufT = new Growable();
   const bufV = new Growable();
-  while (size > 0 && layers.length < maxDepth) {
+  while (layers.length < maxDepth) {
+    const first = tree.firstAbove(0, -Infinity);
+    if (first < 0) break;
     bufT.clear();
     bufV.clear();
-    let nextSize = 0;
-    let b = curB[0];
-    let d = curD[0];
+    let b = slotB[first];
+    let d = tree.death(first);
+    tree.set(first, -Infinity);
     bufT.push(b);
     bufV.push(0);
     bufT.push((b + d) / 2);
     bufV.push((d - b) / 2);
-    let p = 1;
-    // Invariant: the layer is traced up to the peak of the current tent (b, d); pieces cur[1..p) are either
-    // on the layer already or passed on to next[0..nextSize), which stays sorted.
+    let p = first + 1;
+    // Invariant: the layer is traced up to the peak of the current tent (b, d); slots before p hold the
+    // pieces of the next layer, slots from p on the remaining pieces of this one.
     for (;;) {
-      while (p < size && !(curD[p] > d)) {
-        nextSize = insertSorted(nextB, nextD, nextSize, curB[p], curD[p]);
-        p++;
-      }
-      if (p === size) {
+      const q = tree.firstAbove(p, d);
+      if (q < 0) {
         bufT.push(d);
         bufV.push(0);
         break;
       }
-      const b2 = curB[p];
-      const d2 = curD[p];
-      p++;
+      const b2 = slotB[q];
+      const d2 = tree.death(q);
       if (b2 > d) {
         bufT.push(d);
         bufV.push(0);
@@ -104,25 +99,21 @@ export function exactLandscape(diagram: Diagram, options: ExactLandscapeOptions 
       if (b2 >= d) {
         bufT.push(b2);
         bufV.push(0);
+        tree.set(q, -Infinity);
       } else {
-        // The tents cross at (b2 + d)/2; below it, the piece (b2, d) goes on to the next layer.
+        // The tents cross at (b2 + d)/2; below it, the piece (b2, d) stays for the next layer (unless it
+        // is narrower than rounding).
         bufT.push((b2 + d) / 2);
         bufV.push((d - b2) / 2);
-        nextSize = insertSorted(nextB, nextD, nextSize, b2, d);
+        tree.set(q, resolvable(b2, d) ? d : -Infinity);
       }
       bufT.push((b2 + d2) / 2);
       bufV.push((d2 - b2) / 2);
       b = b2;
       d = d2;
+      p = q + 1;
     }
     layers.push(cleanLayer(bufT, bufV));
-    const swapB = curB;
-    const swapD = curD;
-    curB = nextB;
-    curD = nextD;
-    nextB = swapB;
-    nextD = swapD;
-    size = nextSize;
   }
   return { degree: diagram.degree, layers };
 }
@@ -136,37 +127,90 @@ export function resolvable(b: number, d: number): boolean {
   return m > b && m < d;
 }
 
-/** Appends (b, d) to the sorted pieces, moving it back past pieces that should follow it. Returns the new size. */
-function insertSorted(pb: Float64Array, pd: Float64Array, size: number, b: number, d: number): number {
-  let j = size;
-  // Invariant: pieces [j+1, size] are after (b, d) in the order (birth ascending, death descending).
-  while (j > 0 && (pb[j - 1] > b || (pb[j - 1] === b && pd[j - 1] < d))) {
-    pb[j] = pb[j - 1];
-    pd[j] = pd[j - 1];
-    j--;
+/**
+ * The deaths of the slots in a complete binary max-tree (−Infinity marks an empty slot): point updates
+ * and "first slot at or after p whose death exceeds x" in O(log n).
+ */
+class DeathTree {
+  private readonly size: number;
+  private readonly max: Float64Array;
+
+  constructor(n: number) {
+    let size = 1;
+    while (size < n) size <<= 1;
+    this.size = size;
+    this.max = new Float64Array(2 * size).fill(-Infinity);
   }
-  pb[j] = b;
-  pd[j] = d;
-  return size + 1;
+
+  /** Sets slots 0..n−1 from `deathOf`; the slots past n stay empty. */
+  fill(n: number, deathOf: (slot: number) => number): void {
+    const { size, max } = this;
+    for (let j = 0; j < size; j++) max[size + j] = j < n ? deathOf(j) : -Infinity;
+    for (let i = size - 1; i >= 1; i--) max[i] = max[2 * i] > max[2 * i + 1] ? max[2 * i] : max[2 * i + 1];
+  }
+
+  death(slot: number): number {
+    return this.max[this.size + slot];
+  }
+
+  set(slot: number, death: number): void {
+    const max = this.max;
+    let i = this.size + slot;
+    max[i] = death;
+    // Invariant: every node below i holds the maximum of its leaves.
+    for (i >>= 1; i >= 1; i >>= 1) {
+      const m = max[2 * i] > max[2 * i + 1] ? max[2 * i] : max[2 * i + 1];
+      if (max[i] === m) break;
+      max[i] = m;
+    }
+  }
+
+  /** The first slot ≥ from whose death is > x, or −1. */
+  firstAbove(from: number, x: number): number {
+    const { size, max } = this;
+    if (from >= size) return -1;
+    let i = size + from;
+    if (!(max[i] > x)) {
+      // Climb until a right sibling subtree holds a death above x.
+      for (;;) {
+        while (i & 1) i >>= 1;
+        if (i === 0) return -1;
+        i++;
+        if (max[i] > x) break;
+      }
+      // Descend to its leftmost such leaf.
+      while (i < size) {
+        i <<= 1;
+        if (!(max[i] > x)) i++;
+      }
+    }
+    return i - size;
+  }
 }
 
-/** Copies the traced breakpoints, dropping repeats of the same t that rounding may produce. */
+/**
+ * Copies the traced breakpoints, dropping repeats of the same t that rounding may produce and interior
+ * points where the layer goes straight on (possible after a crossing between tents of equal birth).
+ */
 function cleanLayer(t: Growable, v: Growable): LandscapeLayer {
   const m = t.length;
   const outT = new Float64Array(m);
   const outV = new Float64Array(m);
   let k = 0;
-  // Invariant: outT[0..k) is strictly increasing.
+  // Invariant: outT[0..k) is strictly increasing and no kept interior point lies inside a straight run.
   for (let i = 0; i < m; i++) {
     const ti = t.data[i];
+    const vi = v.data[i];
     if (k > 0 && !(ti > outT[k - 1])) {
       // Same place again: keep the larger value, except that the last point must stay at zero.
       if (i === m - 1) outV[k - 1] = 0;
-      else if (v.data[i] > outV[k - 1]) outV[k - 1] = v.data[i];
+      else if (vi > outV[k - 1]) outV[k - 1] = vi;
       continue;
     }
+    if (k >= 2 && outV[k - 1] > 0 && Math.sign(outV[k - 1] - outV[k - 2]) === Math.sign(vi - outV[k - 1]))
+      k--;
     outT[k] = ti;
-    outV[k] = v.data[i];
+    outV[k] = vi;
     k++;
   }
   return { t: outT.slice(0, k), v: outV.slice(0, k) };

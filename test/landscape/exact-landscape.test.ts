@@ -100,6 +100,14 @@ describe('exactLandscape', () => {
           if (m < 3 || layer.v[0] !== 0 || layer.v[m - 1] !== 0) return false;
           for (let i = 1; i < m; i++) if (!(layer.t[i] > layer.t[i - 1])) return false;
           for (let i = 0; i < m; i++) if (layer.v[i] < 0) return false;
+          // No redundant breakpoints: at every positive interior point the layer turns.
+          for (let i = 1; i + 1 < m; i++) {
+            if (
+              layer.v[i] > 0 &&
+              Math.sign(layer.v[i] - layer.v[i - 1]) === Math.sign(layer.v[i + 1] - layer.v[i])
+            )
+              return false;
+          }
         }
         return true;
       }),
