@@ -49,12 +49,51 @@ export async function main(argv: string[]): Promise<number> {
       if (debug && error.stack) process.stderr.write(error.stack + '\n');
       return 2;
     }
+    const system = systemErrorLine(error);
+    if (system !== undefined) {
+      process.stderr.write(`landform: ${system}\n`);
+      if (debug && (error as Error).stack) process.stderr.write((error as Error).stack + '\n');
+      return 2;
+    }
     const e = error as Error;
     process.stderr.write(
       `landform: internal error: ${e?.message ?? String(error)}. This is a bug in landform; please report it with the command you ran${debug ? '' : ' (add --debug for details)'}.\n`,
     );
     if (debug && e?.stack) process.stderr.write(e.stack + '\n');
     return 1;
+  }
+}
+
+/**
+ * A file-system refusal (no such file or folder, no permission, disk full, read-only) is about the user's
+ * paths or machine, not a bug: one line naming the path, exit 2.
+ */
+function systemErrorLine(error: unknown): string | undefined {
+  const e = error as { code?: unknown; path?: unknown; syscall?: unknown };
+  if (typeof e?.code !== 'string' || typeof e.path !== 'string') return undefined;
+  const reasons: Record<string, string> = {
+    ENOENT: 'no such file or folder; check the path',
+    EACCES: 'permission denied; choose a path you may write or read',
+    EPERM: 'operation not permitted; choose another path',
+    ENOTDIR: 'a part of the path is a file, not a folder; check the path',
+    EISDIR: 'is a folder where a file was expected; give a file name',
+    ENOSPC: 'no space left on the device; free some space or write elsewhere',
+    EROFS: 'the file system is read-only; write elsewhere',
+    EEXIST: 'already exists and cannot be replaced; remove it or choose another path',
+    ENAMETOOLONG: 'the path is too long; choose a shorter one',
+    EMFILE: 'too many open files; raise the limit (ulimit -n) or load fewer files at once',
+  };
+  const reason = reasons[e.code];
+  return reason === undefined ? undefined : `${e.path}: ${reason}`;
+}
+
+/** Output piped into a program that stops reading (e.g. `| head`) ends the run quietly, not with a trace. */
+function quietOnClosedPipe(): void {
+  for (const stream of [process.stdout, process.stderr]) {
+    stream.on('error', (error: NodeJS.ErrnoException) => {
+      if (error.code === 'EPIPE') process.exit(process.exitCode ?? 0);
+      throw error;
+    });
   }
 }
 
@@ -68,6 +107,7 @@ function isEntryPoint(): boolean {
 }
 
 if (isEntryPoint()) {
+  quietOnClosedPipe();
   main(process.argv.slice(2)).then(
     (code) => {
       process.exitCode = code;
