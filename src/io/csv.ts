@@ -59,7 +59,8 @@ export function parseNumberField(
 ): number {
   const t = text.trim().toLowerCase();
   if (allow.infinite && (t === 'inf' || t === '+inf' || t === 'infinity' || t === '+infinity')) return Infinity;
-  const value = t === '' ? Number.NaN : Number(t);
+  const infinite = /^[+-]?inf(inity)?$/.test(t);
+  const value = t === '' ? Number.NaN : infinite ? (t.startsWith('-') ? -Infinity : Infinity) : Number(t);
   if (Number.isNaN(value)) {
     throw new UserError(`'${text}' is not a number in column ${where.column}`, where);
   }
