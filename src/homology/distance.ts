@@ -193,3 +193,44 @@ export function wassersteinDistance(a: Diagram, b: Diagram, p = 2, internal = In
   }
   return total ** (1 / p);
 }
+
+/** Which diagram distance: bottleneck, or p-Wasserstein with the L∞ ground metric. */
+export type DiagramMetric = { kind: 'bottleneck' } | { kind: 'wasserstein'; p: number };
+
+export interface DistanceMatrixOptions {
+  /** The distance (default bottleneck). */
+  metric?: DiagramMetric;
+  /** Called after each row with (pairs done, pairs in total). */
+  onProgress?: (done: number, total: number) => void;
+}
+
+/**
+ * Distances between every diagram of `rows` and every diagram of `columns`, row-major rows × columns.
+ * Without `columns`, the symmetric matrix of `rows` (zero diagonal; each pair computed once).
+ */
+export function distanceMatrix(
+  rows: readonly Diagram[],
+  columns?: readonly Diagram[],
+  options: DistanceMatrixOptions = {},
+): { rows: number; cols: number; data: Float64Array } {
+  const metric = options.metric ?? { kind: 'bottleneck' };
+  const distance = (a: Diagram, b: Diagram): number =>
+    metric.kind === 'bottleneck' ? bottleneckDistance(a, b) : wassersteinDistance(a, b, metric.p);
+  const symmetric = columns === undefined;
+  const cols = columns ?? rows;
+  const n = rows.length;
+  const m = cols.length;
+  const data = new Float64Array(n * m);
+  const total = symmetric ? (n * (n - 1)) / 2 : n * m;
+  let done = 0;
+  for (let i = 0; i < n; i++) {
+    for (let j = symmetric ? i + 1 : 0; j < m; j++) {
+      const value = distance(rows[i], cols[j]);
+      data[i * m + j] = value;
+      if (symmetric) data[j * m + i] = value;
+      done++;
+    }
+    options.onProgress?.(done, total);
+  }
+  return { rows: n, cols: m, data };
+}

@@ -1,5 +1,11 @@
 export * from './diagram.js';
-export { bottleneckDistance, wassersteinDistance } from './distance.js';
+export {
+  bottleneckDistance,
+  type DiagramMetric,
+  type DistanceMatrixOptions,
+  distanceMatrix,
+  wassersteinDistance,
+} from './distance.js';
 export { type Assignment, solveAssignment } from './assignment.js';
 export { type RipsOptions, enclosingRadius, ripsPersistence } from './rips.js';
 export { condensedIndex, condensedLength, edgeEndpoints } from './simplex-index.js';

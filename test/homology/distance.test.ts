@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { type Diagram, makeDiagram } from '../../src/homology/diagram.js';
-import { bottleneckDistance, wassersteinDistance } from '../../src/homology/distance.js';
+import { bottleneckDistance, distanceMatrix, wassersteinDistance } from '../../src/homology/distance.js';
 
 /**
  * Brute force from the definition (Cohen-Steiner, Edelsbrunner and Harer, "Stability of persistence
@@ -200,5 +200,20 @@ describe('wassersteinDistance', () => {
 
   it('refuses p < 1', () => {
     expect(() => wassersteinDistance(makeDiagram(1, []), makeDiagram(1, []), 0.5)).toThrow(/≥ 1/);
+  });
+});
+
+describe('distanceMatrix', () => {
+  it('fills a symmetric matrix once per pair, or a rectangular one, reporting progress', () => {
+    const ds = [makeDiagram(1, [[0, 2]]), makeDiagram(1, [[0, 3]]), makeDiagram(1, [])];
+    const calls: Array<[number, number]> = [];
+    const sym = distanceMatrix(ds, undefined, { onProgress: (done, total) => calls.push([done, total]) });
+    // Bottleneck values worked by hand: (0,2)–(0,3) 1; to the empty diagram 1 and 1.5.
+    expect([...sym.data]).toEqual([0, 1, 1, 1, 0, 1.5, 1, 1.5, 0]);
+    expect(calls.at(-1)).toEqual([3, 3]);
+    const rect = distanceMatrix(ds.slice(0, 1), ds, { metric: { kind: 'wasserstein', p: 1 } });
+    expect(rect.rows).toBe(1);
+    expect(rect.cols).toBe(3);
+    expect([...rect.data]).toEqual([0, 1, 1]);
   });
 });

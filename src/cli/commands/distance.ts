@@ -2,7 +2,7 @@ import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
 import { provenance } from '../../core/version.js';
 import { type Diagram, diagramOfDegree, finitePairs, parseInfinitePolicy } from '../../homology/diagram.js';
-import { bottleneckDistance, wassersteinDistance } from '../../homology/distance.js';
+import { type DiagramMetric, distanceMatrix } from '../../homology/distance.js';
 import { csvField, csvNumber } from '../../io/csv.js';
 import { readDiagramCsv } from '../../io/diagram-csv.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
@@ -16,9 +16,6 @@ interface DistanceOptions {
   out?: string;
   quiet?: boolean;
 }
-
-/** A diagram metric as chosen on the command line. */
-export type DiagramMetric = { kind: 'bottleneck' } | { kind: 'wasserstein'; p: number };
 
 /** `bottleneck`, `wasserstein` (p = 2) or `wasserstein:P` with P ≥ 1. */
 export function parseMetric(text: string): DiagramMetric {
@@ -85,25 +82,20 @@ Example:
       const prepare = (d: Diagram): Diagram => (policy === undefined ? d : finitePairs(d, policy));
       const rowsA = setsA.map((s) => prepare(diagramOfDegree(s, degree)));
       const rowsB = fileB === undefined ? rowsA : setsB.map((s) => prepare(diagramOfDegree(s, degree)));
-      const distance = (a: Diagram, b: Diagram): number =>
-        metric.kind === 'bottleneck' ? bottleneckDistance(a, b) : wassersteinDistance(a, b, metric.p);
       const n = rowsA.length;
       const m = rowsB.length;
-      const values = new Float64Array(n * m);
       const symmetric = fileB === undefined;
-      const total = symmetric ? (n * (n - 1)) / 2 : n * m;
-      const progress = await startProgress('distance', total, options.quiet === true);
+      const progress = await startProgress(
+        'distance',
+        symmetric ? (n * (n - 1)) / 2 : n * m,
+        options.quiet === true,
+      );
+      let values: Float64Array;
       try {
-        let done = 0;
-        for (let i = 0; i < n; i++) {
-          for (let j = symmetric ? i + 1 : 0; j < m; j++) {
-            const value = distance(rowsA[i], rowsB[j]);
-            values[i * m + j] = value;
-            if (symmetric) values[j * m + i] = value;
-            done++;
-          }
-          progress.update(done, total);
-        }
+        values = distanceMatrix(rowsA, symmetric ? undefined : rowsB, {
+          metric,
+          onProgress: (done, total) => progress.update(done, total),
+        }).data;
       } finally {
         progress.stop();
       }
