@@ -27,7 +27,27 @@ export function solveAssignment(cost: Float64Array, size: number): Assignment {
   const way = new Int32Array(n + 1);
   const minTo = new Float64Array(n + 1);
   const used = new Uint8Array(n + 1);
+  // Warm start (column reduction, as in Jonker and Volgenant): v[j] = min_i cost(i, j), u = 0, then each
+  // column whose minimum row is still free takes it. Reduced costs stay ≥ 0 and matched pairs are tight.
+  const rowTaken = new Uint8Array(n + 1);
+  for (let j = 1; j <= n; j++) {
+    let best = Infinity;
+    let bestRow = 0;
+    for (let i = 1; i <= n; i++) {
+      const c = cost[(i - 1) * n + j - 1];
+      if (c < best) {
+        best = c;
+        bestRow = i;
+      }
+    }
+    v[j] = best;
+    if (!rowTaken[bestRow]) {
+      rowTaken[bestRow] = 1;
+      rowOfColumn[j] = bestRow;
+    }
+  }
   for (let i = 1; i <= n; i++) {
+    if (rowTaken[i]) continue;
     rowOfColumn[0] = i;
     let j0 = 0;
     minTo.fill(Infinity);

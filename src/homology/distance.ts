@@ -1,4 +1,4 @@
-import { hasPerfectMatching, solveAssignment } from './assignment.js';
+import { maximumMatching, solveAssignment } from './assignment.js';
 import type { Diagram } from './diagram.js';
 
 /**
@@ -68,8 +68,8 @@ function diagonalDistance(b: number, d: number, q: number): number {
 /**
  * The bottleneck distance: the least δ such that a matching moves no point more than δ in L∞ (points may
  * go to the diagonal). Exact: the answer is one of the candidate values (point-to-point and
- * point-to-diagonal distances); they are sorted and searched by bisection, each step testing for a
- * perfect matching (Hopcroft–Karp) in the graph of the two diagrams plus one diagonal copy per point.
+ * point-to-diagonal distances); they are sorted and searched by bisection, each step testing whether the
+ * points far from the diagonal can all be matched within δ (`matchable`).
  */
 export function bottleneckDistance(a: Diagram, b: Diagram): number {
   const A = split(a, 'a');
@@ -90,24 +90,27 @@ export function bottleneckDistance(a: Diagram, b: Diagram): number {
       cross[i * m + j] = pointDistance(A.births[i], A.deaths[i], B.births[j], B.deaths[j], Infinity);
   }
   for (let j = 0; j < m; j++) diagB[j] = diagonalDistance(B.births[j], B.deaths[j], Infinity);
-  const candidates = new Float64Array(n * m + n + m);
-  candidates.set(cross, 0);
-  candidates.set(diagA, n * m);
-  candidates.set(diagB, n * m + n);
-  candidates.sort();
-  // Every point may go to the diagonal, so the largest diagonal distance always admits a matching.
+  // Every point may go to the diagonal, so the largest diagonal distance always admits a matching: only
+  // candidates up to it matter.
   let hiValue = 0;
   for (let i = 0; i < n; i++) hiValue = Math.max(hiValue, diagA[i]);
   for (let j = 0; j < m; j++) hiValue = Math.max(hiValue, diagB[j]);
+  let count = 0;
+  const all = n * m + n + m;
+  const candidates = new Float64Array(all);
+  for (let k = 0; k < n * m; k++) if (cross[k] <= hiValue) candidates[count++] = cross[k];
+  for (let i = 0; i < n; i++) candidates[count++] = diagA[i];
+  for (let j = 0; j < m; j++) candidates[count++] = diagB[j];
+  const sorted = candidates.subarray(0, count).sort();
   let lo = 0;
-  let hi = upperIndex(candidates, hiValue);
-  // Invariant: candidates[hi] admits a perfect matching; every candidate below index lo does not.
+  let hi = upperIndex(sorted, hiValue);
+  // Invariant: sorted[hi] admits a matching; every candidate below index lo does not.
   while (lo < hi) {
     const mid = (lo + hi) >>> 1;
-    if (matchable(candidates[mid], n, m, cross, diagA, diagB)) hi = mid;
+    if (matchable(sorted[mid], n, m, cross, diagA, diagB)) hi = mid;
     else lo = mid + 1;
   }
-  return Math.max(essential, candidates[hi]);
+  return Math.max(essential, sorted[hi]);
 }
 
 function upperIndex(sorted: Float64Array, value: number): number {
@@ -122,8 +125,11 @@ function upperIndex(sorted: Float64Array, value: number): number {
 }
 
 /**
- * Left vertices: the n points of A, then m diagonal copies (one per point of B). Right: the m points of B,
- * then n diagonal copies (one per point of A). Diagonal copies match each other at no cost.
+ * Whether a matching moving no point more than δ exists. A point farther than δ from the diagonal must be
+ * matched to a point of the other diagram within δ; the others may go to the diagonal. A matching of the
+ * two diagrams that covers both forced sets exists exactly when one covers the forced points of A and
+ * another covers those of B (Mendelsohn and Dulmage, "Some generalizations of the problem of distinct
+ * representatives", 1958), so two one-sided maximum matchings (Hopcroft–Karp) decide it.
  */
 function matchable(
   delta: number,
@@ -133,20 +139,33 @@ function matchable(
   diagA: Float64Array,
   diagB: Float64Array,
 ): boolean {
-  const size = n + m;
-  const offsets = new Int32Array(size + 1);
-  const columns: number[] = [];
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < m; j++) if (cross[i * m + j] <= delta) columns.push(j);
-    if (diagA[i] <= delta) columns.push(m + i);
-    offsets[i + 1] = columns.length;
+  return (
+    coversForced(delta, n, m, diagA, (i, j) => cross[i * m + j]) &&
+    coversForced(delta, m, n, diagB, (j, i) => cross[i * m + j])
+  );
+}
+
+function coversForced(
+  delta: number,
+  n: number,
+  m: number,
+  diag: Float64Array,
+  cost: (i: number, j: number) => number,
+): boolean {
+  let forced = 0;
+  for (let i = 0; i < n; i++) if (diag[i] > delta) forced++;
+  if (forced === 0) return true;
+  if (forced > m) return false;
+  const offsets = new Int32Array(forced + 1);
+  const columns = new Int32Array(forced * m);
+  let edges = 0;
+  for (let i = 0, r = 0; i < n; i++) {
+    if (!(diag[i] > delta)) continue;
+    for (let j = 0; j < m; j++) if (cost(i, j) <= delta) columns[edges++] = j;
+    if (edges === offsets[r]) return false;
+    offsets[++r] = edges;
   }
-  for (let j = 0; j < m; j++) {
-    if (diagB[j] <= delta) columns.push(j);
-    for (let i = 0; i < n; i++) columns.push(m + i);
-    offsets[n + j + 1] = columns.length;
-  }
-  return hasPerfectMatching(size, offsets, Int32Array.from(columns));
+  return maximumMatching(forced, m, offsets, columns.subarray(0, edges)) === forced;
 }
 
 /**
