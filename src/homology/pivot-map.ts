@@ -76,11 +76,24 @@ export class PivotMap {
   }
 }
 
-/** A binary min-heap of cofacet entries (rank, index): smallest rank on top, ties to the largest index. */
+/**
+ * The working column of a reduction: a multiset of cofacet entries (rank, index) over Z/2, from which the
+ * pivot — smallest rank, ties to the largest index, odd multiplicity — is taken.
+ *
+ * Entries of rank ≤ `bound` live in a binary min-heap; larger ones are appended, unsorted, to an overflow
+ * list, since most of them are never reached before the column finds its pivot. When the heap runs dry the
+ * bound rises (its step doubling) and the overflow entries now within it move into the heap. Invariant:
+ * every entry of rank ≤ bound is in the heap, every other entry in the overflow.
+ */
 export class CofacetHeap {
   ranks: Int32Array;
   indices: Float64Array;
   size = 0;
+  private spillRanks: Int32Array;
+  private spillIndices: Float64Array;
+  private spillSize = 0;
+  private bound = 0x7fffffff;
+  private step = 1;
   /** Set by `popPivot`. */
   pivotRank = 0;
   pivotIndex = 0;
@@ -88,13 +101,36 @@ export class CofacetHeap {
   constructor(capacity = 1024) {
     this.ranks = new Int32Array(capacity);
     this.indices = new Float64Array(capacity);
+    this.spillRanks = new Int32Array(capacity);
+    this.spillIndices = new Float64Array(capacity);
   }
 
-  clear(): void {
+  /** Empties the column; entries up to rank `bound` go to the heap first, the bound then rises by `step`, doubling. */
+  clear(bound = 0x7ffffffe, step = 1): void {
     this.size = 0;
+    this.spillSize = 0;
+    this.bound = bound;
+    this.step = Math.max(1, step);
   }
 
   push(rank: number, index: number): void {
+    if (rank > this.bound) {
+      if (this.spillSize === this.spillRanks.length) {
+        const r = new Int32Array(this.spillSize * 2);
+        r.set(this.spillRanks);
+        const x = new Float64Array(this.spillSize * 2);
+        x.set(this.spillIndices);
+        this.spillRanks = r;
+        this.spillIndices = x;
+      }
+      this.spillRanks[this.spillSize] = rank;
+      this.spillIndices[this.spillSize++] = index;
+      return;
+    }
+    this.heapPush(rank, index);
+  }
+
+  private heapPush(rank: number, index: number): void {
     if (this.size === this.ranks.length) {
       const r = new Int32Array(this.size * 2);
       r.set(this.ranks);
@@ -142,24 +178,47 @@ export class CofacetHeap {
     indices[i] = index;
   }
 
+  /** Raises the bound past the smallest overflow rank and moves the entries now within it into the heap. */
+  private refill(): void {
+    const sr = this.spillRanks;
+    const si = this.spillIndices;
+    let least = 0x7fffffff;
+    for (let k = 0; k < this.spillSize; k++) if (sr[k] < least) least = sr[k];
+    this.step *= 2;
+    this.bound = Math.min(0x7ffffffe, Math.max(this.bound + this.step, least + this.step));
+    let w = 0;
+    // invariant: sr[0..w) keeps the entries of sr[0..k) above the new bound
+    for (let k = 0; k < this.spillSize; k++) {
+      if (sr[k] <= this.bound) this.heapPush(sr[k], si[k]);
+      else {
+        sr[w] = sr[k];
+        si[w++] = si[k];
+      }
+    }
+    this.spillSize = w;
+  }
+
   /**
    * Removes and reports (in pivotRank, pivotIndex) the top entry with odd multiplicity over Z/2; entries that
    * occur an even number of times cancel. Returns false when the column is zero.
    */
   popPivot(): boolean {
     // invariant: every entry removed so far occurred an even number of times
-    while (this.size > 0) {
-      const rank = this.ranks[0];
-      const index = this.indices[0];
-      this.popTop();
-      if (this.size > 0 && this.indices[0] === index) {
+    while (true) {
+      while (this.size > 0) {
+        const rank = this.ranks[0];
+        const index = this.indices[0];
         this.popTop();
-        continue;
+        if (this.size > 0 && this.indices[0] === index) {
+          this.popTop();
+          continue;
+        }
+        this.pivotRank = rank;
+        this.pivotIndex = index;
+        return true;
       }
-      this.pivotRank = rank;
-      this.pivotIndex = index;
-      return true;
+      if (this.spillSize === 0) return false;
+      this.refill();
     }
-    return false;
   }
 }

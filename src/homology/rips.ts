@@ -38,7 +38,8 @@ const NO_EDGE = 0x7fffffff;
 
 export function ripsPersistence(n: number, edgeValues: Float64Array, options: RipsOptions): Diagram[] {
   const maxDegree = options.maxDegree;
-  if (!(maxDegree === 0 || maxDegree === 1 || maxDegree === 2)) throw new RangeError(`maxDegree must be 0, 1 or 2, got ${maxDegree}`);
+  if (!(maxDegree === 0 || maxDegree === 1 || maxDegree === 2))
+    throw new RangeError(`maxDegree must be 0, 1 or 2, got ${maxDegree}`);
   const edgeCount = condensedLength(n);
   if (edgeValues.length !== edgeCount) {
     throw new RangeError(`edgeValues has ${edgeValues.length} entries; ${n} vertices need ${edgeCount}`);
@@ -68,7 +69,9 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
   for (let e = 0; e < edgeCount; e++) {
     if (Number.isNaN(values[e]) || values[e] < 0) {
       const [i, j] = [e - (edgeHighVertex(e) * (edgeHighVertex(e) - 1)) / 2, edgeHighVertex(e)];
-      throw new UserError(`the distance between points ${i + 1} and ${j + 1} is ${values[e]}; distances must be numbers ≥ 0`);
+      throw new UserError(
+        `the distance between points ${i + 1} and ${j + 1} is ${values[e]}; distances must be numbers ≥ 0`,
+      );
     }
   }
 
@@ -77,60 +80,31 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
 
   checkSize(n, values, threshold, maxDegree, options.memoryLimit);
 
-  // Distinct edge values up to the threshold, ascending: `levels`; the rank of an edge indexes them.
-  let kept = 0;
-  for (let e = 0; e < edgeCount; e++) if (values[e] <= threshold) kept++;
-  const sorted = new Float64Array(kept);
-  for (let e = 0, k = 0; e < edgeCount; e++) if (values[e] <= threshold) sorted[k++] = values[e];
-  sorted.sort();
+  // Edges inside the threshold in filtration order (value ascending, ties by decreasing index), by a
+  // stable radix sort; `levels` are the distinct values and an edge's rank indexes them.
+  const { order: orderedEdges, sorted: sortedValues } = sortEdges(values, threshold);
+  const kept = orderedEdges.length;
+  const rankCond = new Int32Array(edgeCount).fill(NO_EDGE);
+  const rankSorted = new Int32Array(kept);
   let levelCount = 0;
-  for (let k = 0; k < kept; k++) if (k === 0 || sorted[k] !== sorted[k - 1]) sorted[levelCount++] = sorted[k];
-  const levels = sorted.slice(0, levelCount);
-
-  // Dense table of edge ranks (NO_EDGE beyond the threshold and on the diagonal) and rank counts.
-  const rankOf = new Int32Array(n * n).fill(NO_EDGE);
-  const rankCount = new Int32Array(levelCount + 1);
-  for (let j = 1, e = 0; j < n; j++) {
-    // invariant: e = condensed index of (i, j)
-    for (let i = 0; i < j; i++, e++) {
-      const v = values[e];
-      if (!(v <= threshold)) continue;
-      let lo = 0;
-      let hi = levelCount - 1;
-      // invariant: levels[lo] ≤ v ≤ levels[hi]
-      while (lo < hi) {
-        const mid = (lo + hi) >> 1;
-        if (levels[mid] < v) lo = mid + 1;
-        else hi = mid;
-      }
-      rankOf[i * n + j] = lo;
-      rankOf[j * n + i] = lo;
-      rankCount[lo + 1]++;
-    }
+  for (let k = 0; k < kept; k++) {
+    const v = sortedValues[k];
+    // invariant: sortedValues[0..levelCount) holds the distinct values among the first k, in order
+    if (levelCount === 0 || sortedValues[levelCount - 1] !== v) sortedValues[levelCount++] = v;
+    rankSorted[k] = levelCount - 1;
+    rankCond[orderedEdges[k]] = levelCount - 1;
   }
-  for (let r = 0; r < levelCount; r++) rankCount[r + 1] += rankCount[r];
-
-  // Edges in filtration order: rank ascending, ties by decreasing index (counting sort, stable).
-  const orderedEdges = new Int32Array(kept);
-  {
-    const next = rankCount.slice(0, levelCount);
-    for (let j = n - 1; j >= 1; j--) {
-      const base = (j * (j - 1)) / 2;
-      // invariant: edges visited so far have larger condensed index than (i, j)
-      for (let i = j - 1; i >= 0; i--) {
-        const r = rankOf[i * n + j];
-        if (r === NO_EDGE) continue;
-        orderedEdges[next[r]++] = base + i;
-      }
-    }
-  }
+  const levels = sortedValues.slice(0, levelCount);
+  const rankOf = denseRanks(n, rankCond);
 
   const births0: number[] = [];
   const deaths0: number[] = [];
   const vertexValue = (v: number): number => (vertexValues === undefined ? 0 : vertexValues[v]);
   // H0 by union-find; edges that close a cycle become the degree-1 columns.
   const uf = new UnionFind(n);
-  const cycleEdges = new Int32Array(kept);
+  const cycleI = new Int32Array(kept);
+  const cycleJ = new Int32Array(kept);
+  const cycleRank = new Int32Array(kept);
   let cycleCount = 0;
   for (let k = 0; k < kept; k++) {
     const e = orderedEdges[k];
@@ -139,7 +113,10 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
     const ri = uf.find(i);
     const rj = uf.find(j);
     if (ri === rj) {
-      cycleEdges[cycleCount++] = e;
+      cycleI[cycleCount] = i;
+      cycleJ[cycleCount] = j;
+      cycleRank[cycleCount] = rankSorted[k];
+      cycleCount++;
       continue;
     }
     const oi = uf.oldest[ri];
@@ -148,7 +125,7 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
     const bj = vertexValue(oj);
     const iOlder = bi < bj || (bi === bj && oi < oj);
     const younger = iOlder ? oj : oi;
-    const death = levels[rankOf[i * n + j]];
+    const death = levels[rankSorted[k]];
     const birth = vertexValue(younger);
     if (death > birth) {
       births0.push(birth);
@@ -163,22 +140,141 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
     births0.push(vertexValue(o));
     deaths0.push(Infinity);
   }
-  const diagrams: Diagram[] = [{ degree: 0, births: Float64Array.from(births0), deaths: Float64Array.from(deaths0) }];
+  const diagrams: Diagram[] = [
+    { degree: 0, births: Float64Array.from(births0), deaths: Float64Array.from(deaths0) },
+  ];
   if (maxDegree === 0) return diagrams;
 
   const table = new BinomialTable(n, 4);
   const engine = new Reduction(n, rankOf, levels, table);
   // Degree-1 columns: cycle edges in reverse filtration order.
-  const columns1 = new Float64Array(cycleCount);
-  for (let k = 0; k < cycleCount; k++) columns1[k] = cycleEdges[cycleCount - 1 - k];
   const pivots1 = new PivotMap(Math.max(16, cycleCount));
-  diagrams.push(engine.reduceEdges(columns1, pivots1));
+  diagrams.push(engine.reduceEdges(cycleI, cycleJ, cycleRank, cycleCount, pivots1));
   if (maxDegree === 1) return diagrams;
 
   const columns2 = triangleColumns(n, rankOf, levelCount, table, pivots1);
   const pivots2 = new PivotMap(Math.max(16, columns2.length >> 2));
   diagrams.push(engine.reduceTriangles(columns2, pivots2));
   return diagrams;
+}
+
+/**
+ * The edges with value ≤ threshold, sorted by value ascending and ties by decreasing condensed index, with
+ * their values in that order. Non-negative doubles order like their bit patterns: a stable least-significant-
+ * digit radix sort on the high 32 bits (two 16-bit passes, skipped when a digit is constant), fed in
+ * decreasing index order, then an insertion pass orders the short runs that share their high bits.
+ */
+export function sortEdges(
+  values: Float64Array,
+  threshold: number,
+): { order: Int32Array; sorted: Float64Array } {
+  const m = values.length;
+  let kept = 0;
+  for (let e = 0; e < m; e++) if (values[e] <= threshold) kept++;
+  let order = new Int32Array(kept);
+  let vals = new Float64Array(kept);
+  for (let e = m - 1, k = 0; e >= 0; e--) {
+    const v = values[e];
+    if (!(v <= threshold)) continue;
+    order[k] = e;
+    vals[k++] = v === 0 ? 0 : v; // −0 sorts as 0
+  }
+  const little = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+  const hiWord = little ? 1 : 0;
+  let order2 = new Int32Array(kept);
+  let vals2 = new Float64Array(kept);
+  const counts = new Int32Array(65536);
+  // Passes as [word, shift]: the high word only, unless long runs share it (then all four, low word first).
+  let passes: Array<[number, number]> = [
+    [hiWord, 0],
+    [hiWord, 16],
+  ];
+  for (let round = 0; round < 2; round++) {
+    for (const [word, shift] of passes) {
+      const words = new Uint32Array(vals.buffer);
+      counts.fill(0);
+      for (let k = 0; k < kept; k++) counts[(words[2 * k + word] >>> shift) & 0xffff]++;
+      if (kept === 0 || counts[(words[word] >>> shift) & 0xffff] === kept) continue;
+      let acc = 0;
+      for (let d = 0; d < 65536; d++) {
+        const c = counts[d];
+        counts[d] = acc;
+        acc += c;
+      }
+      // invariant: entries before k are placed, stably, by the digit of this pass
+      for (let k = 0; k < kept; k++) {
+        const p = counts[(words[2 * k + word] >>> shift) & 0xffff]++;
+        order2[p] = order[k];
+        vals2[p] = vals[k];
+      }
+      const o = order;
+      order = order2;
+      order2 = o;
+      const v = vals;
+      vals = vals2;
+      vals2 = v;
+    }
+    if (round === 1 || longestRun(vals) <= 32) break;
+    passes = [
+      [1 - hiWord, 0],
+      [1 - hiWord, 16],
+      [hiWord, 0],
+      [hiWord, 16],
+    ];
+  }
+  // Entries now agree in order on their high 32 bits; finish by value with a stable insertion pass.
+  for (let k = 1; k < kept; k++) {
+    const v = vals[k];
+    if (vals[k - 1] <= v) continue;
+    const e = order[k];
+    let q = k - 1;
+    // invariant: vals[q+1..k] are greater than v and shifted right by one
+    while (q >= 0 && vals[q] > v) {
+      vals[q + 1] = vals[q];
+      order[q + 1] = order[q];
+      q--;
+    }
+    vals[q + 1] = v;
+    order[q + 1] = e;
+  }
+  return { order, sorted: vals };
+}
+
+/** The longest run of entries sharing their high 32 bits in a sorted-by-high-bits array. */
+function longestRun(vals: Float64Array): number {
+  const words = new Uint32Array(vals.buffer, vals.byteOffset, vals.length * 2);
+  const hiWord = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 1 : 0;
+  let best = vals.length > 0 ? 1 : 0;
+  let run = 1;
+  for (let k = 1; k < vals.length; k++) {
+    run = words[2 * k + hiWord] === words[2 * k - 2 + hiWord] ? run + 1 : 1;
+    if (run > best) best = run;
+  }
+  return best;
+}
+
+/** The dense symmetric n × n table of edge ranks from the condensed ranks (diagonal NO_EDGE), in cache-sized blocks. */
+function denseRanks(n: number, rankCond: Int32Array): Int32Array {
+  const table = new Int32Array(n * n);
+  for (let v = 0; v < n; v++) table[v * n + v] = NO_EDGE;
+  const B = 64;
+  for (let jb = 1; jb < n; jb += B) {
+    const jEnd = Math.min(n, jb + B);
+    for (let ib = 0; ib < jEnd - 1; ib += B) {
+      const iEnd = Math.min(ib + B, jEnd - 1);
+      // invariant: entries (i, j) and (j, i) of earlier blocks are written
+      for (let j = jb; j < jEnd; j++) {
+        const base = (j * (j - 1)) / 2;
+        const top = Math.min(iEnd, j);
+        for (let i = ib; i < top; i++) {
+          const r = rankCond[base + i];
+          table[j * n + i] = r;
+          table[i * n + j] = r;
+        }
+      }
+    }
+  }
+  return table;
 }
 
 /** min over vertices i of max over j of the edge value (i, j): above it the complex is a cone. */
@@ -198,7 +294,12 @@ export function enclosingRadius(n: number, values: Float64Array): number {
 }
 
 /** Estimated bytes of working memory for the computation (see size-estimate in the module docs). */
-export function estimateRipsBytes(n: number, values: Float64Array, threshold: number, maxDegree: number): { bytes: number; edges: number; triangles: number } {
+export function estimateRipsBytes(
+  n: number,
+  values: Float64Array,
+  threshold: number,
+  maxDegree: number,
+): { bytes: number; edges: number; triangles: number } {
   const edgeCount = condensedLength(n);
   let kept = 0;
   for (let e = 0; e < edgeCount; e++) if (values[e] <= threshold) kept++;
@@ -239,12 +340,19 @@ export function estimateRipsBytes(n: number, values: Float64Array, threshold: nu
   return { bytes, edges: kept, triangles };
 }
 
-function checkSize(n: number, values: Float64Array, threshold: number, maxDegree: number, limit?: number): void {
+function checkSize(
+  n: number,
+  values: Float64Array,
+  threshold: number,
+  maxDegree: number,
+  limit?: number,
+): void {
   const budget = limit ?? Math.max(2 ** 30, 0.8 * freemem());
   const { bytes, edges, triangles } = estimateRipsBytes(n, values, threshold, maxDegree);
   if (bytes > budget) {
     const mb = (x: number): string => `${Math.round(x / 2 ** 20)} MB`;
-    const what = maxDegree >= 2 ? `${edges} edges and about ${Math.round(triangles)} triangles` : `${edges} edges`;
+    const what =
+      maxDegree >= 2 ? `${edges} edges and about ${Math.round(triangles)} triangles` : `${edges} edges`;
     throw new UserError(
       `the Rips complex of ${n} points up to scale ${threshold} has ${what}, needing about ${mb(bytes)} ` +
         `(limit ${mb(budget)}); lower --max-scale, compute fewer degrees or subsample the cloud`,
@@ -253,7 +361,13 @@ function checkSize(n: number, values: Float64Array, threshold: number, maxDegree
 }
 
 /** Degree-2 columns: every triangle inside the threshold and not cleared, by rank descending then index ascending. */
-function triangleColumns(n: number, rankOf: Int32Array, levelCount: number, table: BinomialTable, pivots1: PivotMap): Float64Array {
+function triangleColumns(
+  n: number,
+  rankOf: Int32Array,
+  levelCount: number,
+  table: BinomialTable,
+  pivots1: PivotMap,
+): Float64Array {
   const total = binomial(n, 3);
   const useBits = total <= 2 ** 28;
   let cleared: Uint8Array | undefined;
@@ -264,7 +378,8 @@ function triangleColumns(n: number, rankOf: Int32Array, levelCount: number, tabl
       bits[t >>> 3] |= 1 << (t & 7);
     });
   }
-  const isCleared = (t: number): boolean => (cleared !== undefined ? (cleared[t >>> 3] & (1 << (t & 7))) !== 0 : pivots1.has(t));
+  const isCleared = (t: number): boolean =>
+    cleared !== undefined ? (cleared[t >>> 3] & (1 << (t & 7))) !== 0 : pivots1.has(t);
   const b3 = table.row(3);
   const b2 = table.row(2);
   const counts = new Float64Array(levelCount + 1);
@@ -318,41 +433,63 @@ class Reduction {
   private scratch = new Float64Array(256);
   private scratchLength = 0;
   private readonly vertices = new Int32Array(4);
+  /** First bound step of the working column, in ranks (see CofacetHeap). */
+  private readonly step: number;
 
   constructor(
     private readonly n: number,
     private readonly rankOf: Int32Array,
     private readonly levels: Float64Array,
     private readonly table: BinomialTable,
-  ) {}
+  ) {
+    this.step = Math.max(1, Math.ceil(levels.length / 64));
+  }
 
-  reduceEdges(columns: Float64Array, pivots: PivotMap): Diagram {
+  /**
+   * Degree-1 columns: the cycle edges (lowEnds[c] < highEnds[c]) listed in filtration order, processed from
+   * the last one back (reverse filtration order).
+   */
+  reduceEdges(
+    lowEnds: Int32Array,
+    highEnds: Int32Array,
+    columnRanks: Int32Array,
+    count: number,
+    pivots: PivotMap,
+  ): Diagram {
     const { n, rankOf, levels, heap } = this;
     const b2 = this.table.row(2);
     const b3 = this.table.row(3);
     const births: number[] = [];
     const deaths: number[] = [];
     this.resetStore();
-    for (let c = 0; c < columns.length; c++) {
-      const e = columns[c];
-      const j = edgeHighVertex(e);
-      const i = e - (j * (j - 1)) / 2;
-      const r = rankOf[i * n + j];
+    let previousRank = -1;
+    for (let c = count - 1; c >= 0; c--) {
+      const i = lowEnds[c];
+      const j = highEnds[c];
+      const e = (j * (j - 1)) / 2 + i;
+      const rowI = i * n;
+      const rowJ = j * n;
+      const r = columnRanks[c];
+      // Columns of larger rank only own pivots of larger rank, so the first column of each rank cannot
+      // meet an owned cofacet of its own rank.
+      const tied = r === previousRank;
+      previousRank = r;
       // Emergent pair: the earliest cofacet is the first one of rank r met in decreasing index order.
       let emergent = -1;
+      // invariant: no cofacet with third vertex above k has rank r
       for (let k = n - 1; k >= 0; k--) {
-        const rki = rankOf[k * n + i];
-        const rkj = rankOf[k * n + j];
+        const rki = rankOf[rowI + k];
+        const rkj = rankOf[rowJ + k];
         if (rki > r || rkj > r) continue; // also skips k = i, j (NO_EDGE on the diagonal)
         const t = k > j ? b3[k] + b2[j] + i : k > i ? b3[j] + b2[k] + i : b3[j] + b2[i] + k;
-        if (!pivots.has(t)) emergent = t;
+        if (!tied || !pivots.has(t)) emergent = t;
         break;
       }
       if (emergent >= 0) {
         pivots.set(emergent, this.storeColumn1(e));
         continue;
       }
-      heap.clear();
+      heap.clear(r + this.step, this.step);
       this.scratchLength = 0;
       this.addEdgeCofacets(i, j, r);
       this.pushScratch(e);
@@ -403,10 +540,14 @@ class Reduction {
       const c = vertices[2];
       const r = triangleRank(rankOf, n, a, b, c);
       let emergent = -1;
+      const rowA = a * n;
+      const rowB = b * n;
+      const rowC = c * n;
+      // invariant: no cofacet with fourth vertex above k has rank r
       for (let k = n - 1; k >= 0; k--) {
-        const ra = rankOf[k * n + a];
-        const rb = rankOf[k * n + b];
-        const rc = rankOf[k * n + c];
+        const ra = rankOf[rowA + k];
+        const rb = rankOf[rowB + k];
+        const rc = rankOf[rowC + k];
         if (ra > r || rb > r || rc > r) continue; // also skips k = a, b, c
         const q =
           k > a
@@ -423,7 +564,7 @@ class Reduction {
         pivots.set(emergent, this.storeColumn1(t));
         continue;
       }
-      heap.clear();
+      heap.clear(r + this.step, this.step);
       this.scratchLength = 0;
       this.addTriangleCofacets(a, b, c, r);
       this.pushScratch(t);
@@ -525,9 +666,27 @@ class Reduction {
 
   /** Stores the one-simplex column [x]; returns its column number. */
   private storeColumn1(x: number): number {
-    this.scratchLength = 0;
-    this.pushScratch(x);
-    return this.storeScratch();
+    if (this.storeLength + 1 > this.store.length) this.growStore(this.storeLength + 1);
+    this.store[this.storeLength++] = x;
+    return this.closeColumn();
+  }
+
+  private growStore(atLeast: number): void {
+    const grown = new Float64Array(Math.max(this.store.length * 2, atLeast));
+    grown.set(this.store.subarray(0, this.storeLength));
+    this.store = grown;
+  }
+
+  /** Ends the column whose entries were just appended to the store; returns its number. */
+  private closeColumn(): number {
+    const id = this.columnCount++;
+    if (this.columnCount + 1 > this.starts.length) {
+      const grown = new Int32Array(this.starts.length * 2);
+      grown.set(this.starts);
+      this.starts = grown;
+    }
+    this.starts[this.columnCount] = this.storeLength;
+    return id;
   }
 
   /** Stores the scratch column with repeated simplices cancelled over Z/2; returns its column number. */
@@ -546,21 +705,13 @@ class Reduction {
       }
       len = w;
     }
-    if (this.storeLength + len > this.store.length) {
-      const grown = new Float64Array(Math.max(this.store.length * 2, this.storeLength + len));
-      grown.set(this.store.subarray(0, this.storeLength));
-      this.store = grown;
-    }
-    this.store.set(this.scratch.subarray(0, len), this.storeLength);
-    this.storeLength += len;
-    const id = this.columnCount++;
-    if (this.columnCount + 1 > this.starts.length) {
-      const grown = new Int32Array(this.starts.length * 2);
-      grown.set(this.starts);
-      this.starts = grown;
-    }
-    this.starts[this.columnCount] = this.storeLength;
-    return id;
+    if (this.storeLength + len > this.store.length) this.growStore(this.storeLength + len);
+    const store = this.store;
+    const scratch = this.scratch;
+    let w = this.storeLength;
+    for (let q = 0; q < len; q++) store[w++] = scratch[q];
+    this.storeLength = w;
+    return this.closeColumn();
   }
 }
 

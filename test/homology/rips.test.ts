@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
 import type { Diagram } from '../../src/homology/diagram.js';
 import { pairwiseDistances } from '../../src/homology/metric.js';
-import { enclosingRadius, ripsPersistence } from '../../src/homology/rips.js';
+import { enclosingRadius, ripsPersistence, sortEdges } from '../../src/homology/rips.js';
 import { condensedIndex } from '../../src/homology/simplex-index.js';
 import { naiveRips } from './naive-reduction.js';
 
@@ -118,6 +118,23 @@ describe('ripsPersistence against the naive reduction', () => {
   it('agrees on a larger cloud in degree 1', () => {
     const rng = new Random(31);
     agree(cloud(rng, 30, 2), 30, 2, 1);
+  });
+});
+
+describe('sortEdges', () => {
+  function reference(values: Float64Array, threshold: number): number[] {
+    const idx = Array.from(values.keys()).filter((e) => values[e] <= threshold);
+    return idx.sort((a, b) => values[a] - values[b] || b - a);
+  }
+  it('orders by value, ties by decreasing index, including values that share their high bits', () => {
+    const rng = new Random(12);
+    const wide = Float64Array.from({ length: 3000 }, () => rng.int(50) / 7);
+    expect(Array.from(sortEdges(wide, 5).order)).toEqual(reference(wide, 5));
+    // Values within 1e-9 of each other agree on their high 32 bits: the four-pass path is taken.
+    const narrow = Float64Array.from({ length: 3000 }, () => 1 + rng.next() * 1e-9);
+    expect(Array.from(sortEdges(narrow, 2).order)).toEqual(reference(narrow, 2));
+    const zeros = Float64Array.from([0, -0, 0, 1]);
+    expect(Array.from(sortEdges(zeros, 1).order)).toEqual([2, 1, 0, 3]);
   });
 });
 
