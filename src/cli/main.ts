@@ -45,7 +45,7 @@ export async function main(argv: string[]): Promise<number> {
       return 2;
     }
     if (isUserError(error)) {
-      process.stderr.write(`landform: ${error.describe()}\n`);
+      process.stderr.write(`landform: ${error.describe().replace(/\r?\n/g, ' ')}\n`);
       if (debug && error.stack) process.stderr.write(error.stack + '\n');
       return 2;
     }

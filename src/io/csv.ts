@@ -62,10 +62,21 @@ export function parseNumberField(
   const infinite = /^[+-]?inf(inity)?$/.test(t);
   const value = t === '' ? Number.NaN : infinite ? (t.startsWith('-') ? -Infinity : Infinity) : Number(t);
   if (Number.isNaN(value)) {
-    throw new UserError(`'${text}' is not a number in column ${where.column}`, where);
+    throw new UserError(`'${shown(text)}' is not a number in column ${shown(where.column)}`, where);
   }
   if (!Number.isFinite(value)) {
-    throw new UserError(`'${text}' is not a finite number in column ${where.column}`, where);
+    throw new UserError(`'${shown(text)}' is not a finite number in column ${shown(where.column)}`, where);
   }
   return value;
+}
+
+/**
+ * User text as it goes into a one-line message: control characters (newlines, tabs, NUL) escaped and long
+ * text cut to 60 characters, so the message stays one readable line whatever the file held.
+ */
+export function shown(text: string): string {
+  const escaped = text.replace(/[\u0000-\u001f\u007f\u2028\u2029]/g, (c) =>
+    c === '\n' ? '\\n' : c === '\r' ? '\\r' : c === '\t' ? '\\t' : `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`,
+  );
+  return escaped.length > 60 ? `${escaped.slice(0, 57)}…` : escaped;
 }

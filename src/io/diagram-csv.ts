@@ -1,6 +1,6 @@
 import { UserError } from '../core/errors.js';
 import type { Diagram, DiagramSet } from '../homology/diagram.js';
-import { csvField, csvNumber, parseCsv, parseNumberField, readTextFile } from './csv.js';
+import { csvField, csvNumber, parseCsv, parseNumberField, readTextFile, shown } from './csv.js';
 import { writeFileAtomic } from './atomic.js';
 
 /** The diagram CSV layout, a contract other tools read: one persistence pair per row. */
@@ -41,7 +41,7 @@ export function parseDiagramCsv(text: string, file: string): DiagramSet[] {
   header.forEach((name, i) => index.set(name, i));
   for (const name of DIAGRAM_CSV_HEADER) {
     if (!index.has(name)) {
-      throw new UserError(`missing column '${name}'; the header must be sample,label,degree,birth,death`, {
+      throw new UserError(`missing column '${shown(name)}'; the header must be sample,label,degree,birth,death`, {
         file,
         line: rows[0].line,
       });
@@ -72,7 +72,7 @@ export function parseDiagramCsv(text: string, file: string): DiagramSet[] {
     const degreeText = fields[iDegree];
     const degree = Number(degreeText);
     if (!/^\d+$/.test(degreeText) || degree > MAX_DIAGRAM_DEGREE) {
-      throw new UserError(`unknown degree '${degreeText}'; degrees are whole numbers 0 to ${MAX_DIAGRAM_DEGREE}`, {
+      throw new UserError(`unknown degree '${shown(degreeText)}'; degrees are whole numbers 0 to ${MAX_DIAGRAM_DEGREE}`, {
         file,
         line,
       });
@@ -85,7 +85,7 @@ export function parseDiagramCsv(text: string, file: string): DiagramSet[] {
       b = { sample, label, byDegree: new Map() };
       builders.set(sample, b);
     } else if (b.label !== label) {
-      throw new UserError(`sample '${sample}' has label '${label}' here but '${b.label}' earlier`, { file, line });
+      throw new UserError(`sample '${shown(sample)}' has label '${shown(label)}' here but '${shown(b.label)}' earlier`, { file, line });
     }
     let d = b.byDegree.get(degree);
     if (d === undefined) {

@@ -2,7 +2,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import type { Provenance } from '../core/version.js';
 import { UserError } from '../core/errors.js';
 import type { Matrix } from '../learn/matrix.js';
-import { csvField, csvNumber, parseCsv } from './csv.js';
+import { csvField, csvNumber, parseCsv, shown } from './csv.js';
 import { formatNpy, readNpy } from './npy.js';
 import { writeWithProvenance } from './provenance-file.js';
 
@@ -99,7 +99,7 @@ export function readSamplesSidecar(file: string, expectedRows: number, arrayFile
   if (rows.length === 0) throw new UserError('empty file; expected the header sample,label', { file });
   const header = rows[0].fields.map((f) => f.toLowerCase());
   if (header[0] !== 'sample' || header[1] !== 'label' || header.length !== 2) {
-    throw new UserError(`the header must be sample,label (got '${rows[0].fields.join(',')}')`, { file, line: rows[0].line });
+    throw new UserError(`the header must be sample,label (got '${shown(rows[0].fields.join(','))}')`, { file, line: rows[0].line });
   }
   const ids: string[] = [];
   const labels: string[] = [];
@@ -110,7 +110,7 @@ export function readSamplesSidecar(file: string, expectedRows: number, arrayFile
     if (fields[0] === '') throw new UserError('empty sample id; every row needs one', { file, line });
     const earlier = seen.get(fields[0]);
     if (earlier !== undefined) {
-      throw new UserError(`sample '${fields[0]}' appears twice (first on line ${earlier}); ids must be unique`, { file, line });
+      throw new UserError(`sample '${shown(fields[0])}' appears twice (first on line ${earlier}); ids must be unique`, { file, line });
     }
     seen.set(fields[0], line);
     ids.push(fields[0]);

@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { extname } from 'node:path';
 import { UserError } from '../core/errors.js';
-import { parseCsv, parseNumberField, readTextFile } from './csv.js';
+import { parseCsv, parseNumberField, readTextFile, shown } from './csv.js';
 import type { Dataset, Sample, SampleKind } from './dataset.js';
 import { parsePgm, parsePng } from './image-file.js';
 import { LABELS_FILE, type LabelledFile, readLabelsFile } from './labels-file.js';
@@ -72,7 +72,7 @@ async function readSampleFile(entry: LabelledFile, labelsFile: string): Promise<
   const extension = extname(entry.file).toLowerCase();
   if (!KNOWN_EXTENSIONS.has(extension)) {
     throw new UserError(
-      `'${entry.file}' has an unknown file type '${extension || '(none)'}'; use .csv, .npy, .png or .pgm`,
+      `'${shown(entry.file)}' has an unknown file type '${shown(extension || '(none)')}'; use .csv, .npy, .png or .pgm`,
       { file: labelsFile, line: entry.line },
     );
   }

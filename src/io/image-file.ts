@@ -1,3 +1,4 @@
+import { shown } from './csv.js';
 import { UserError } from '../core/errors.js';
 
 /**
@@ -38,7 +39,7 @@ export function parsePgm(bytes: Uint8Array, file: string): GrayImage {
   };
   const magic = token();
   if (magic !== 'P2' && magic !== 'P5') {
-    throw new UserError(`not a PGM grey map (starts with '${magic.slice(0, 8)}', expected P2 or P5); save it as PGM or PNG`, {
+    throw new UserError(`not a PGM grey map (starts with '${shown(magic.slice(0, 8))}', expected P2 or P5); save it as PGM or PNG`, {
       file,
     });
   }
@@ -46,7 +47,7 @@ export function parsePgm(bytes: Uint8Array, file: string): GrayImage {
     const t = token();
     const n = Number(t);
     if (!/^\d+$/.test(t) || n < 1 || n > max) {
-      throw new UserError(`bad PGM ${name} '${t}'; the header is P5 <width> <height> <maxval>`, { file });
+      throw new UserError(`bad PGM ${name} '${shown(t)}'; the header is P5 <width> <height> <maxval>`, { file });
     }
     return n;
   };
@@ -71,7 +72,7 @@ export function parsePgm(bytes: Uint8Array, file: string): GrayImage {
       const t = token();
       if (t === '') throw new UserError(`truncated PGM: ${width}×${height} needs ${count} values, found ${i}`, { file });
       const v = Number(t);
-      if (!/^\d+$/.test(t)) throw new UserError(`PGM value ${i + 1} '${t}' is not a whole number`, { file });
+      if (!/^\d+$/.test(t)) throw new UserError(`PGM value ${i + 1} '${shown(t)}' is not a whole number`, { file });
       values[i] = v;
     }
   }

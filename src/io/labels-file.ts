@@ -1,7 +1,7 @@
 import { existsSync, realpathSync, statSync } from 'node:fs';
 import { isAbsolute, join, relative, resolve, sep } from 'node:path';
 import { UserError } from '../core/errors.js';
-import { parseCsv, readTextFile } from './csv.js';
+import { parseCsv, readTextFile, shown } from './csv.js';
 
 /**
  * `labels.csv` of a folder dataset: header `file,label`, one row per sample file, paths relative to the folder.
@@ -27,12 +27,12 @@ export function checkInsidePath(written: string, where: { file: string; line: nu
   const path = written.replace(/\\/g, '/');
   if (path === '') throw new UserError('empty file name; every row needs a file', where);
   if (isAbsolute(written) || path.startsWith('/') || /^[a-zA-Z]:/.test(path)) {
-    throw new UserError(`'${written}' is an absolute path; give paths relative to the dataset folder`, where);
+    throw new UserError(`'${shown(written)}' is an absolute path; give paths relative to the dataset folder`, where);
   }
   if (path.split('/').some((part) => part === '..')) {
-    throw new UserError(`'${written}' leaves the dataset folder (..); keep every file inside the folder`, where);
+    throw new UserError(`'${shown(written)}' leaves the dataset folder (..); keep every file inside the folder`, where);
   }
-  if (path.includes('\0')) throw new UserError(`'${written}' holds a NUL character; fix the file name`, where);
+  if (path.includes('\0')) throw new UserError(`'${shown(written)}' holds a NUL character; fix the file name`, where);
   return path;
 }
 
@@ -49,7 +49,7 @@ export function readLabelsFile(folder: string): LabelledFile[] {
   const iFile = header.indexOf('file');
   const iLabel = header.indexOf('label');
   if (iFile < 0 || iLabel < 0) {
-    throw new UserError(`the header must be file,label (got '${rows[0].fields.join(',')}')`, { file, line: rows[0].line });
+    throw new UserError(`the header must be file,label (got '${shown(rows[0].fields.join(','))}')`, { file, line: rows[0].line });
   }
   if (rows.length === 1) throw new UserError('header only, no rows; list at least one sample file', { file, line: rows[0].line });
   const root = realpathSync(folder);
@@ -69,20 +69,20 @@ export function readLabelsFile(folder: string): LabelledFile[] {
       real = realpathSync(path);
       isFile = statSync(real).isFile();
     } catch {
-      throw new UserError(`'${written}' does not exist in ${folder}; fix the name or add the file`, { file, line });
+      throw new UserError(`'${shown(written)}' does not exist in ${folder}; fix the name or add the file`, { file, line });
     }
     const inside = relative(root, real);
     if (inside === '' || inside.startsWith('..') || isAbsolute(inside) || inside.split(sep)[0] === '..') {
-      throw new UserError(`'${written}' leads outside the dataset folder (a link?); keep every file inside the folder`, {
+      throw new UserError(`'${shown(written)}' leads outside the dataset folder (a link?); keep every file inside the folder`, {
         file,
         line,
       });
     }
-    if (!isFile) throw new UserError(`'${written}' is a folder, not a file`, { file, line });
+    if (!isFile) throw new UserError(`'${shown(written)}' is a folder, not a file`, { file, line });
     const id = rel.replace(/\.[^./]*$/, '');
     const earlier = ids.get(id);
     if (earlier !== undefined) {
-      throw new UserError(`'${written}' gives the sample id '${id}' again (first on line ${earlier}); list each sample once`, {
+      throw new UserError(`'${shown(written)}' gives the sample id '${shown(id)}' again (first on line ${earlier}); list each sample once`, {
         file,
         line,
       });

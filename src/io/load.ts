@@ -13,7 +13,7 @@ import type {
 import { SAMPLE_KINDS } from './dataset.js';
 import { DIAGRAM_CSV_HEADER, parseDiagramCsv } from './diagram-csv.js';
 import { loadArrayFile } from './array-file.js';
-import { readTextFile } from './csv.js';
+import { readTextFile, shown } from './csv.js';
 import { type SampleCsv, readCsvHeader, readSampleCsv } from './sample-csv.js';
 
 /**
@@ -38,7 +38,7 @@ export interface LoadOptions {
 /** Checks a `--kind` value. */
 export function parseKind(text: string, option = '--kind'): SampleKind {
   if (!(SAMPLE_KINDS as readonly string[]).includes(text)) {
-    throw new UserError(`${option} '${text}' is not known; choose from ${SAMPLE_KINDS.join(', ')}`);
+    throw new UserError(`${option} '${shown(text)}' is not known; choose from ${SAMPLE_KINDS.join(', ')}`);
   }
   return text as SampleKind;
 }
@@ -120,7 +120,7 @@ function tableFromCsv(csv: SampleCsv): Dataset<TableSample> {
   for (const s of csv.samples) {
     if (s.rows > 1) {
       throw new UserError(
-        `sample '${s.id}' appears again (first on line ${s.firstLine}); a table has one row per sample — use --kind points for point clouds`,
+        `sample '${shown(s.id)}' appears again (first on line ${s.firstLine}); a table has one row per sample — use --kind points for point clouds`,
         { file: csv.file, line: s.secondLine },
       );
     }
@@ -139,7 +139,7 @@ function signalFromCsv(csv: SampleCsv): Dataset<SignalSample> {
     for (const s of csv.samples) {
       if (s.rows > 1) {
         throw new UserError(
-          `sample '${s.id}' appears again (first on line ${s.firstLine}); a wide signal CSV has one row per sample — for one value per row use the header sample,label,value`,
+          `sample '${shown(s.id)}' appears again (first on line ${s.firstLine}); a wide signal CSV has one row per sample — for one value per row use the header sample,label,value`,
           { file: csv.file, line: s.secondLine },
         );
       }

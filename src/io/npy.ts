@@ -1,4 +1,5 @@
 import { readFileSync, statSync } from 'node:fs';
+import { shown } from './csv.js';
 import { UserError } from '../core/errors.js';
 import { writeFileAtomic } from './atomic.js';
 
@@ -78,7 +79,7 @@ interface Dtype {
 function parseDescr(descr: string, file: string): Dtype {
   const m = /^([<>|=]?)([fiub])(\d+)$/.exec(descr);
   const fail = (): never => {
-    throw new UserError(`unsupported .npy data type '${descr}'; save the array as float64 (numpy: a.astype('<f8'))`, { file });
+    throw new UserError(`unsupported .npy data type '${shown(descr)}'; save the array as float64 (numpy: a.astype('<f8'))`, { file });
   };
   if (!m) return fail();
   const kind = m[2] as Dtype['kind'];

@@ -1,7 +1,7 @@
 import { createReadStream, statSync } from 'node:fs';
-import { parse } from 'csv-parse';
+import { CsvError, parse } from 'csv-parse';
 import { UserError } from '../core/errors.js';
-import { parseNumberField } from './csv.js';
+import { parseNumberField, shown } from './csv.js';
 
 /**
  * Streams a CSV of the shape `sample,label,<numeric columns>` (the long layout shared by points, signals and
@@ -58,7 +58,7 @@ export function csvSyntaxError(error: unknown, file: string): UserError {
   const e = error as { lines?: number; message?: string; code?: string };
   if (e.code === 'ENOENT') return new UserError('file not found; check the path', { file });
   if (e.code === 'EISDIR') return new UserError('is a folder, not a file; give a file', { file });
-  if (typeof e.code === 'string' && e.code.startsWith('CSV_')) {
+  if (error instanceof CsvError || (typeof e.code === 'string' && e.code.startsWith('CSV_'))) {
     return new UserError(`not valid CSV (${String(e.message ?? error).split('\n')[0]}); fix the quoting or the row`, {
       file,
       line: e.lines,
@@ -125,7 +125,7 @@ export async function readSampleCsv(file: string, options: SampleCsvOptions = {}
       s = samples[k];
       if (s.label !== label) {
         throw new UserError(
-          `sample '${id}' has label '${label}' here but '${s.label}' on line ${s.firstLine}; give each sample one label`,
+          `sample '${shown(id)}' has label '${shown(label)}' here but '${shown(s.label)}' on line ${s.firstLine}; give each sample one label`,
           { file, line },
         );
       }
@@ -143,7 +143,7 @@ export async function readSampleCsv(file: string, options: SampleCsvOptions = {}
       const v = Number(text);
       if (text === '' || !Number.isFinite(v)) {
         parseNumberField(text, { file, line, column: header[c] });
-        throw new UserError(`'${text}' is not a number in column ${header[c]}`, { file, line });
+        throw new UserError(`'${shown(text)}' is not a number in column ${shown(header[c])}`, { file, line });
       }
       s.values[offset++] = v;
     }
@@ -192,7 +192,7 @@ function checkHeader(header: string[], file: string, line: number): void {
   const lower = header.map((h) => h.toLowerCase());
   if (lower[0] !== 'sample' || lower[1] !== 'label') {
     throw new UserError(
-      `the header must start with sample,label (got '${header.slice(0, 2).join(',')}'); name the first two columns sample and label`,
+      `the header must start with sample,label (got '${shown(header.slice(0, 2).join(','))}'); name the first two columns sample and label`,
       { file, line },
     );
   }
@@ -202,7 +202,7 @@ function checkHeader(header: string[], file: string, line: number): void {
   const seen = new Set<string>();
   for (let c = 2; c < header.length; c++) {
     if (header[c] === '') throw new UserError(`column ${c + 1} has no name; name every column`, { file, line });
-    if (seen.has(lower[c])) throw new UserError(`column '${header[c]}' appears twice; give columns distinct names`, { file, line });
+    if (seen.has(lower[c])) throw new UserError(`column '${shown(header[c])}' appears twice; give columns distinct names`, { file, line });
     seen.add(lower[c]);
   }
 }
