@@ -1,13 +1,113 @@
+import { availableParallelism } from 'node:os';
 import type { Command } from 'commander';
+import { UserError } from '../../core/errors.js';
+import { provenance } from '../../core/version.js';
+import type { DiagramOptions } from '../../homology/compute.js';
+import { METRICS, type Metric } from '../../homology/metric.js';
+import { computeDiagramsParallel } from '../../homology/parallel.js';
+import type { DelayEmbedding } from '../../homology/signal.js';
+import type { SampleKind } from '../../io/dataset.js';
+import { formatDiagramCsv } from '../../io/diagram-csv.js';
+import { expectKind, loadDataset, parseKind } from '../../io/load.js';
+import { writeWithProvenance } from '../../io/provenance-file.js';
+import { parseChoiceOption, parseDegreesOption, parseIntegerOption, parseNumberOption } from '../options.js';
+import { startProgress } from '../progress.js';
 
-/** `landform diagrams`: placeholder until its issue lands; refuses to run. */
+interface DiagramsCommandOptions {
+  kind?: string;
+  degrees: string;
+  maxScale?: string;
+  metric: string;
+  embed?: string;
+  superlevel?: boolean;
+  workers?: string;
+  out?: string;
+  quiet?: boolean;
+}
+
+const INPUT_KINDS = ['points', 'distances', 'signal', 'image'] as const;
+
+/** `DIM:DELAY[:STRIDE]` → a delay embedding. */
+export function parseEmbedOption(text: string, option = '--embed'): DelayEmbedding {
+  const parts = text.split(':');
+  if (parts.length < 2 || parts.length > 3) {
+    throw new UserError(`${option} '${text}' must look like DIM:DELAY or DIM:DELAY:STRIDE, e.g. 3:4 or 3:4:2`);
+  }
+  const dimension = parseIntegerOption(parts[0], `${option} DIM`, 1, 1000);
+  const delay = parseIntegerOption(parts[1], `${option} DELAY`, 1, 1_000_000);
+  const stride = parts.length === 3 ? parseIntegerOption(parts[2], `${option} STRIDE`, 1, 1_000_000) : undefined;
+  return stride === undefined ? { dimension, delay } : { dimension, delay, stride };
+}
+
+/**
+ * `landform diagrams <input> --out FILE`: the persistence diagrams of every sample of a dataset, as the
+ * diagram CSV with a provenance sidecar. Samples run on worker threads, one sample per task.
+ */
 export function defineDiagrams(program: Command): Command {
   return program
     .command('diagrams')
-    .description('(not yet available)')
-    .allowUnknownOption()
-    .allowExcessArguments()
-    .action(() => {
-      throw new Error("'landform diagrams' is not built yet");
+    .description('persistence diagrams of every sample: Vietoris–Rips for clouds and matrices, cubical for images, sublevel sets or delay embeddings for signals')
+    .argument('<input>', 'dataset: points CSV (sample,label,x,y,…), long signal CSV (sample,label,value), or any format the loader reads')
+    .option('--kind <kind>', `sample kind: ${INPUT_KINDS.join(', ')} (default: detected from the file)`)
+    .option('--degrees <list>', 'homology degrees, from 0, 1, 2', '0,1')
+    .option('--max-scale <r>', 'largest Rips scale kept; classes alive there get death inf (default: none)')
+    .option('--metric <name>', `distance between points: ${METRICS.join(', ')}`, 'euclidean')
+    .option('--embed <DIM:DELAY[:STRIDE]>', 'turn each signal into a cloud of delay windows before Rips')
+    .option('--superlevel', 'images and signals: superlevel sets (bright first), reported on the negated scale')
+    .option('--workers <n>', 'worker threads (default: every core)')
+    .option('--out <file>', 'the diagram CSV to write (a FILE.provenance.json sidecar is written beside it)')
+    .addHelpText(
+      'after',
+      `
+Output: sample,label,degree,birth,death — one row per pair with death > birth; essential classes have
+death inf. Superlevel diagrams are the sublevel diagrams of −values: a bright class born at 200 that dies
+at 50 reads birth −200, death −50, so death ≥ birth holds in every file.
+
+Example:
+  landform diagrams lattice-clouds.csv --degrees 0,1 --out lattice-diagrams.csv
+  landform diagrams pump-vibration.csv --embed 3:5 --degrees 0,1 --max-scale 2 --out pump-diagrams.csv`,
+    )
+    .action(async (input: string, options: DiagramsCommandOptions) => {
+      if (options.out === undefined) throw new UserError('no --out FILE given; name the diagram CSV to write');
+      const degrees = parseDegreesOption(options.degrees, '--degrees', 2);
+      const metric = parseChoiceOption(options.metric, '--metric', METRICS) as Metric;
+      const maxScale = options.maxScale === undefined ? undefined : parseNumberOption(options.maxScale, '--max-scale', { positive: true });
+      const embed = options.embed === undefined ? undefined : parseEmbedOption(options.embed);
+      const workers = options.workers === undefined ? availableParallelism() : parseIntegerOption(options.workers, '--workers', 1, 1024);
+      let kind: SampleKind | undefined;
+      if (options.kind !== undefined) {
+        kind = parseKind(options.kind);
+        parseChoiceOption(kind, '--kind', INPUT_KINDS);
+      }
+      const dataset = expectKind(await loadDataset(input, { kind }), INPUT_KINDS, 'landform diagrams');
+      if (embed !== undefined && dataset.kind !== 'signal') {
+        throw new UserError(`--embed applies to signals, but this is a ${dataset.kind} dataset; drop --embed`, { file: input });
+      }
+      if (dataset.samples.length === 0) throw new UserError('has no samples; nothing to compute', { file: input });
+      const computeOptions: DiagramOptions = { degrees, metric };
+      if (maxScale !== undefined) computeOptions.maxScale = maxScale;
+      if (embed !== undefined) computeOptions.embed = embed;
+      if (options.superlevel) computeOptions.superlevel = true;
+      const progress = await startProgress('diagrams', dataset.samples.length, options.quiet === true);
+      let sets: Awaited<ReturnType<typeof computeDiagramsParallel>>;
+      try {
+        sets = await computeDiagramsParallel(dataset.samples, computeOptions, {
+          workers,
+          onProgress: (done) => progress.update(done),
+        });
+      } finally {
+        progress.stop();
+      }
+      const record = {
+        input,
+        kind: dataset.kind,
+        degrees,
+        metric,
+        maxScale: maxScale ?? null,
+        embed: embed ?? null,
+        superlevel: options.superlevel === true,
+        samples: sets.length,
+      };
+      writeWithProvenance(options.out, formatDiagramCsv(sets), provenance('diagrams', record));
     });
 }

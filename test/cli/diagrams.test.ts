@@ -1,0 +1,81 @@
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { parseDiagramCsv } from '../../src/io/diagram-csv.js';
+import { runCli, tempDir } from '../helpers/cli.js';
+
+/** Two rings and two small blobs of 40 points each (a demo scenario: printed struts seen end-on). */
+function ringsCsv(): string {
+  const lines = ['sample,label,x,y'];
+  for (let c = 0; c < 4; c++) {
+    const ring = c % 2 === 1;
+    for (let i = 0; i < 40; i++) {
+      const a = (2 * Math.PI * i) / 40;
+      const r = ring ? 1 : 0.1;
+      lines.push(`strut-${c},${ring ? 'hollow' : 'solid'},${r * Math.cos(a)},${r * Math.sin(a) + 0.001 * (i % 3)}`);
+    }
+  }
+  return lines.join('\n') + '\n';
+}
+
+describe('landform diagrams', () => {
+  it('writes the diagram CSV and its provenance; hollow struts have one long loop', () => {
+    const dir = tempDir();
+    const input = join(dir, 'struts.csv');
+    writeFileSync(input, ringsCsv());
+    const out = join(dir, 'd.csv');
+    const r = runCli(['diagrams', input, '--degrees', '0,1', '--workers', '2', '--out', out]);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const sets = parseDiagramCsv(readFileSync(out, 'utf8'), out);
+    expect(sets.map((s) => s.sample)).toEqual(['strut-0', 'strut-1', 'strut-2', 'strut-3']);
+    for (const s of sets) {
+      const h1 = s.diagrams.find((d) => d.degree === 1);
+      let long = 0;
+      if (h1) for (let i = 0; i < h1.births.length; i++) if (h1.deaths[i] - h1.births[i] > 0.5) long++;
+      expect(long).toBe(s.label === 'hollow' ? 1 : 0);
+      // Each cloud is connected in the end: exactly one essential H0 class.
+      const h0 = s.diagrams.find((d) => d.degree === 0);
+      expect(Array.from(h0?.deaths ?? []).filter((x) => x === Infinity).length).toBe(1);
+    }
+    const prov = JSON.parse(readFileSync(`${out}.provenance.json`, 'utf8'));
+    expect(prov.command).toBe('diagrams');
+    expect(prov.options.degrees).toEqual([0, 1]);
+    expect(prov.options.metric).toBe('euclidean');
+    // One thread gives the same file.
+    const out1 = join(dir, 'd1.csv');
+    expect(runCli(['diagrams', input, '--workers', '1', '--out', out1]).code).toBe(0);
+    expect(readFileSync(out1, 'utf8')).toBe(readFileSync(out, 'utf8'));
+  }, 60000);
+
+  it('embeds long signals with --embed and refuses loops without it', () => {
+    const dir = tempDir();
+    const input = join(dir, 'pump.csv');
+    const lines = ['sample,label,value'];
+    for (let t = 0; t < 120; t++) lines.push(`run-1,steady,${Math.sin((2 * Math.PI * t) / 30)}`);
+    writeFileSync(input, lines.join('\n') + '\n');
+    const out = join(dir, 'd.csv');
+    const bad = runCli(['diagrams', input, '--degrees', '0,1', '--out', out]);
+    expect(bad.code).toBe(2);
+    expect(bad.stderr).toMatch(/^landform: .*--embed/);
+    expect(existsSync(out)).toBe(false);
+    const ok = runCli(['diagrams', input, '--degrees', '1', '--embed', '2:7', '--workers', '1', '--out', out]);
+    expect(ok.code).toBe(0);
+    const [set] = parseDiagramCsv(readFileSync(out, 'utf8'), out);
+    const h1 = set.diagrams[0];
+    expect(Math.max(...Array.from(h1.deaths).map((d, i) => d - h1.births[i]))).toBeGreaterThan(0.5);
+  }, 60000);
+
+  it('explains bad options on one line with exit code 2', () => {
+    const dir = tempDir();
+    const input = join(dir, 'struts.csv');
+    writeFileSync(input, ringsCsv());
+    const noOut = runCli(['diagrams', input]);
+    expect(noOut.code).toBe(2);
+    expect(noOut.stderr).toMatch(/--out/);
+    const embed = runCli(['diagrams', input, '--embed', '3', '--out', join(dir, 'x.csv')]);
+    expect(embed.code).toBe(2);
+    expect(embed.stderr).toMatch(/DIM:DELAY/);
+    expect(embed.stderr.trim().split('\n').length).toBe(1);
+  }, 60000);
+});
