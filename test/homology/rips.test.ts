@@ -157,3 +157,124 @@ describe('ripsPersistence basics', () => {
     expect(() => ripsPersistence(200, pairwiseDistances(c, 200, 3), { maxDegree: 2, memoryLimit: 1e6 })).toThrow(/--max-scale/);
   });
 });
+
+function longBars(d: Diagram, minimum: number): number {
+  let c = 0;
+  for (let i = 0; i < d.births.length; i++) if (d.deaths[i] - d.births[i] > minimum) c++;
+  return c;
+}
+
+function circlePoints(count: number, radius: number, cx = 0, cy = 0): number[] {
+  const out: number[] = [];
+  for (let i = 0; i < count; i++) {
+    const a = (2 * Math.PI * i) / count;
+    out.push(cx + radius * Math.cos(a), cy + radius * Math.sin(a));
+  }
+  return out;
+}
+
+// Betti numbers of the sampled spaces, read off the long bars (textbook facts: circle b0 = b1 = 1; two
+// disjoint circles b0 = b1 = 2; the sphere S² b1 = 0, b2 = 1; the torus b1 = 2, b2 = 1 — e.g. Hatcher,
+// "Algebraic Topology", 2002, chapter 2).
+describe('ripsPersistence recovers Betti numbers from long bars', () => {
+  it('circle and two circles', () => {
+    const rng = new Random(4);
+    const one = circlePoints(50, 1).map((v) => v + rng.uniform(-0.02, 0.02));
+    const [h0, h1] = ripsPersistence(50, pairwiseDistances(Float64Array.from(one), 50, 2), { maxDegree: 1 });
+    expect(longBars(h0, 0.5)).toBe(1);
+    expect(longBars(h1, 0.5)).toBe(1);
+    const two = [...circlePoints(40, 1), ...circlePoints(40, 1, 5, 0)];
+    const [g0, g1] = ripsPersistence(80, pairwiseDistances(Float64Array.from(two), 80, 2), { maxDegree: 1 });
+    expect(longBars(g0, 0.5)).toBe(2);
+    expect(longBars(g1, 0.5)).toBe(2);
+  });
+
+  it('sphere S²: one long H2 bar and no long H1 bar', () => {
+    // Fibonacci points on the unit sphere (an even spread, deterministic).
+    const count = 120;
+    const c = new Float64Array(count * 3);
+    const golden = Math.PI * (3 - Math.sqrt(5));
+    for (let i = 0; i < count; i++) {
+      const z = 1 - (2 * (i + 0.5)) / count;
+      const r = Math.sqrt(1 - z * z);
+      c[3 * i] = r * Math.cos(golden * i);
+      c[3 * i + 1] = r * Math.sin(golden * i);
+      c[3 * i + 2] = z;
+    }
+    const [, h1, h2] = ripsPersistence(count, pairwiseDistances(c, count, 3), { maxDegree: 2 });
+    expect(longBars(h2, 0.4)).toBe(1);
+    expect(longBars(h1, 0.4)).toBe(0);
+  });
+
+  it('torus: two long H1 bars and one long H2 bar', () => {
+    // The flat (Clifford) torus in R⁴, (cos a, sin a, cos b, sin b), on a 14 × 14 grid of angles.
+    const m = 14;
+    const count = m * m;
+    const c = new Float64Array(count * 4);
+    for (let p = 0; p < m; p++)
+      for (let q = 0; q < m; q++) {
+        const a = (2 * Math.PI * p) / m;
+        const b = (2 * Math.PI * q) / m;
+        c.set([Math.cos(a), Math.sin(a), Math.cos(b), Math.sin(b)], 4 * (p * m + q));
+      }
+    const [, h1, h2] = ripsPersistence(count, pairwiseDistances(c, count, 4), { maxDegree: 2 });
+    expect(longBars(h1, 0.3)).toBe(2);
+    expect(longBars(h2, 0.15)).toBe(1);
+  });
+});
+
+// Adamaszek & Adams, "The Vietoris–Rips complexes of a circle", 2017, and Adamaszek, "Clique complexes and
+// graph powers", 2013: for n equally spaced points, the complex at scale of the k-th chord is the clique
+// complex of the k-th power of the n-cycle, ≃ S¹ for 0 < k/n < 1/3, and for k/n = 1/3 a wedge of n/3 − 1
+// two-spheres, ≃ S³ for 1/3 < k/n < 2/5. With chords c_k = 2R·sin(πk/n): one H1 bar [c_1, c_⌈n/3⌉); for n
+// divisible by 3 (n ≥ 6), n/3 − 1 H2 bars born at c_{n/3} that die at c_{n/3+1}.
+describe('ripsPersistence on the regular n-gon', () => {
+  for (const n of [5, 6, 7, 8, 9, 12]) {
+    it(`n = ${n}`, () => {
+      const R = 1.5;
+      const c = Float64Array.from(circlePoints(n, R));
+      const [, h1, h2] = ripsPersistence(n, pairwiseDistances(c, n, 2), { maxDegree: 2 });
+      const chord = (k: number): number => 2 * R * Math.sin((Math.PI * k) / n);
+      const bars1 = finiteOf(h1).filter(([b, d]) => d - b > 1e-9);
+      expect(bars1.length).toBe(1);
+      expect(bars1[0][0]).toBeCloseTo(chord(1), 9);
+      expect(bars1[0][1]).toBeCloseTo(chord(Math.ceil(n / 3)), 9);
+      const bars2 = finiteOf(h2).filter(([b, d]) => d - b > 1e-9);
+      if (n % 3 === 0) {
+        expect(bars2.length).toBe(n / 3 - 1);
+        for (const [b, d] of bars2) {
+          expect(b).toBeCloseTo(chord(n / 3), 9);
+          expect(d).toBeCloseTo(chord(n / 3 + 1), 9);
+        }
+      } else {
+        expect(bars2.length).toBe(0);
+      }
+    });
+  }
+});
+
+// Stability: moving every point by at most δ changes every distance, hence every simplex value, by at most
+// 2δ, so each diagram moves by at most 2δ in bottleneck distance (Cohen-Steiner, Edelsbrunner, Harer,
+// "Stability of persistence diagrams", 2007; Chazal, de Silva, Oudot, "Persistence stability for geometric
+// complexes", 2014).
+describe('ripsPersistence is stable', () => {
+  it('moves each diagram by at most 2δ when points move by at most δ', async () => {
+    const { bottleneckDistance } = await import('../../src/homology/distance.js');
+    const rng = new Random(77);
+    for (let trial = 0; trial < 8; trial++) {
+      const count = 25;
+      const base = cloud(rng, count, 2);
+      const delta = 0.01 + 0.05 * rng.next();
+      const moved = base.slice();
+      for (let i = 0; i < count; i++) {
+        const a = rng.uniform(0, 2 * Math.PI);
+        const r = delta * Math.sqrt(rng.next());
+        moved[2 * i] += r * Math.cos(a);
+        moved[2 * i + 1] += r * Math.sin(a);
+      }
+      const da = ripsPersistence(count, pairwiseDistances(base, count, 2), { maxDegree: 2 });
+      const db = ripsPersistence(count, pairwiseDistances(moved, count, 2), { maxDegree: 2 });
+      for (let d = 0; d <= 2; d++) expect(bottleneckDistance(da[d], db[d])).toBeLessThanOrEqual(2 * delta + 1e-12);
+    }
+  });
+});
