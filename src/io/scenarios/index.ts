@@ -39,8 +39,8 @@ export const SCENARIOS: readonly Scenario[] = [
     classes: LATTICE_CLASSES,
     path: 'lattice.csv',
     summary:
-      'Synthetic. 2-D point clouds from an invented inspection line of printed lattice panels (2 × 3 square cells): intact, broken-strut (most of one outer strut missing), merged-cells (one inner wall missing); random rotation, position, ±15% scale, 130–180 points, jitter, stray points in about a third of the panels. 25 panels per class.',
-    advice: 'Vietoris–Rips on the points, degrees 0 and 1; the classes differ in the number and size of H1 loops.',
+      'Synthetic. 2-D point clouds from an invented inspection line of printed lattice panels (2 × 2 square cells): intact, broken-strut (most of one outer strut missing), merged-cells (the four inner walls missing: the block becomes one cell twice as wide); random rotation, position, ±15% scale, 130–180 points, jitter, stray points in about a third of the panels. 25 panels per class.',
+    advice: 'Vietoris–Rips on the points, degrees 0 and 1; the classes differ in the number and size of H1 loops (4 cells, 3 and a short-lived one, 1 twice as wide).',
     samples: () => generateLattice(4101),
     files: () => [{ path: 'lattice.csv', data: formatPointsCsv(generateLattice(4101)) }],
   },

@@ -8,8 +8,13 @@ import type { PointSample } from '../dataset.js';
  *
  *   intact        every strut present: rows × columns loops of one size
  *   broken-strut  most of one outer strut is missing: that cell's loop opens (one loop fewer)
- *   merged-cells  one inner wall is missing: two cells form one loop twice as large (one loop fewer,
- *                 one loop larger)
+ *   merged-cells  the four walls meeting at one inner node are missing: a 2 × 2 block of cells is one
+ *                 loop twice as wide (three loops fewer, one loop twice the size). A single missing wall
+ *                 would leave a 1 × 2 loop, which dies at the same Rips scale as a square cell (its short
+ *                 side decides), so it would not be told apart by size.
+ *
+ * The default panel is 2 × 2 cells, so the loops to count (4, 3, 1) fit in the first five landscape layers;
+ * a 2 × 3 panel (6 loops) needs at least six.
  *
  * Nuisance per sample: rotation, translation, scale, point count (so density), jitter, and in some samples a
  * few stray points. The classes differ in the number and size of loops (H1), while the distribution of
@@ -19,9 +24,9 @@ import type { PointSample } from '../dataset.js';
 export interface LatticeOptions {
   /** Samples per class. Default 25. */
   perClass?: number;
-  /** Cell rows of a panel. Default 2. */
+  /** Cell rows of a panel (at least 2). Default 2. */
   rows?: number;
-  /** Cell columns of a panel. Default 3. */
+  /** Cell columns of a panel (at least 2). Default 2. */
   columns?: number;
   /** Fewest and most points per sample. Default [130, 180]. */
   points?: [number, number];
@@ -66,7 +71,7 @@ function round4(v: number): number {
 export function generateLattice(seed: number, options: LatticeOptions = {}): PointSample[] {
   const perClass = options.perClass ?? 25;
   const rows = options.rows ?? 2;
-  const columns = options.columns ?? 3;
+  const columns = options.columns ?? 2;
   const [minPoints, maxPoints] = options.points ?? [130, 180];
   const [minJitter, maxJitter] = options.jitter ?? [0.015, 0.04];
   const scaleRange = options.scale ?? 0.15;
@@ -97,9 +102,11 @@ export function generateLattice(seed: number, options: LatticeOptions = {}): Poi
         pieces.push([s.x1 - keep * dx, s.y1 - keep * dy, s.x1, s.y1]);
       }
     } else {
-      const inner = all.filter((s) => !s.outer);
-      const removed = inner[r.int(inner.length)];
-      for (const s of all) if (s !== removed) pieces.push([s.x0, s.y0, s.x1, s.y1]);
+      // The four walls that meet at one inner node are missing: a 2 × 2 block of cells is one open cell.
+      const vx = 1 + r.int(columns - 1);
+      const vy = 1 + r.int(rows - 1);
+      const touches = (s: Segment): boolean => (s.x0 === vx && s.y0 === vy) || (s.x1 === vx && s.y1 === vy);
+      for (const s of all) if (!touches(s)) pieces.push([s.x0, s.y0, s.x1, s.y1]);
     }
     const lengths = pieces.map((p) => Math.hypot(p[2] - p[0], p[3] - p[1]));
     const totalLength = lengths.reduce((a, b) => a + b, 0);
