@@ -141,6 +141,11 @@ describe('landform landscape', () => {
       'sample,degree,layer,t,value\ndisc-1,1,1,0,0\ndisc-1,1,1,0.5,0\ndisc-1,1,1,1,0.5\ndisc-1,1,1,1.5,0\ndisc-1,1,1,2,0\n',
     );
     expect(JSON.parse(readFileSync(`${out}.provenance.json`, 'utf8')).options.format).toBe('csv');
+    // Exact breakpoints as CSV rows: the single tent (0.5, 1.5) peaks at (1, 0.5).
+    const exactCsv = runCli(['landscape', file, '--sample', 'disc-1', '--format', 'csv', '--exact']);
+    expect(exactCsv.stdout).toBe(
+      'sample,degree,layer,t,value\ndisc-1,1,1,0.5,0\ndisc-1,1,1,1,0.5\ndisc-1,1,1,1.5,0\n',
+    );
   });
 
   it.each([

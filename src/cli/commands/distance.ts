@@ -64,7 +64,7 @@ unmatched points go to the diagonal. With 'keep', two diagrams with different nu
 classes are 'inf' apart.
 
 Example:
-  landform distance pump-week1.csv pump-week2.csv --degree 1 --metric wasserstein:1`,
+  landform distance lattice-diagrams.csv --degree 1 --metric wasserstein:1`,
     )
     .action(async (fileA: string, fileB: string | undefined, options: DistanceOptions) => {
       const metric = parseMetric(options.metric);

@@ -71,7 +71,7 @@ With several samples and no --sample, one object per line (JSON lines) on one sh
 CSV: sample,degree,layer,t,value — one row per grid point (or breakpoint) per layer.
 
 Example:
-  landform landscape lattice-diagrams.csv --sample strut-017 --degree 1 --grid 0:0.8:50`,
+  landform landscape lattice-diagrams.csv --sample panel-001 --degree 1 --grid 0:0.8:50`,
     )
     .action((file: string, options: LandscapeOptions) => {
       const format = parseChoiceOption(options.format, '--format', ['json', 'csv'] as const);
