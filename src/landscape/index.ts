@@ -18,6 +18,7 @@ export {
   type ExactLandscapeOptions,
   exactLandscape,
   type LandscapeLayer,
+  resolvable,
 } from './exact-landscape.js';
 export { checkGrid, coveringGrid, type Grid, gridPoints, gridStep, sameGrid } from './grid.js';
 export {
