@@ -96,15 +96,10 @@ export function solveAssignment(cost: Float64Array, size: number): Assignment {
 }
 
 /**
- * Whether a bipartite graph on `size` + `size` vertices has a perfect matching (Hopcroft and Karp, "An n^5/2
- * algorithm for maximum matchings in bipartite graphs", 1973). The graph is given in compressed rows:
- * the neighbours of left vertex i are columns[offsets[i] .. offsets[i+1]).
+ * The size of a maximum matching of a bipartite graph (Hopcroft and Karp, "An n^5/2 algorithm for maximum
+ * matchings in bipartite graphs", 1973), given in compressed rows: the neighbours of left vertex i are
+ * columns[offsets[i] .. offsets[i+1]).
  */
-export function hasPerfectMatching(size: number, offsets: Int32Array, columns: Int32Array): boolean {
-  return maximumMatching(size, size, offsets, columns) === size;
-}
-
-/** The size of a maximum matching of a bipartite graph in compressed rows (Hopcroft–Karp). */
 export function maximumMatching(
   left: number,
   right: number,
