@@ -62,6 +62,40 @@ function segments(rows: number, columns: number): Segment[] {
   return out;
 }
 
+/**
+ * The struts of one panel as [x0, y0, x1, y1] pieces in cell units; the broken strut keeps only its two ends.
+ * Which strut breaks, or which inner node loses its walls, is drawn from `r`.
+ */
+export function panelStruts(label: (typeof LATTICE_CLASSES)[number], rows: number, columns: number, gap: number, r: Random): number[][] {
+  const all = segments(rows, columns);
+  // Struts as [x0, y0, x1, y1] pieces; the broken strut keeps only its two ends.
+  const pieces: number[][] = [];
+  if (label === 'intact') {
+    for (const s of all) pieces.push([s.x0, s.y0, s.x1, s.y1]);
+  } else if (label === 'broken-strut') {
+    const outer = all.filter((s) => s.outer);
+    const broken = outer[r.int(outer.length)];
+    const keep = (1 - gap) / 2;
+    for (const s of all) {
+      if (s !== broken) {
+        pieces.push([s.x0, s.y0, s.x1, s.y1]);
+        continue;
+      }
+      const dx = s.x1 - s.x0;
+      const dy = s.y1 - s.y0;
+      pieces.push([s.x0, s.y0, s.x0 + keep * dx, s.y0 + keep * dy]);
+      pieces.push([s.x1 - keep * dx, s.y1 - keep * dy, s.x1, s.y1]);
+    }
+  } else {
+    // The four walls that meet at one inner node are missing: a 2 × 2 block of cells is one open cell.
+    const vx = 1 + r.int(columns - 1);
+    const vy = 1 + r.int(rows - 1);
+    const touches = (s: Segment): boolean => (s.x0 === vx && s.y0 === vy) || (s.x1 === vx && s.y1 === vy);
+    for (const s of all) if (!touches(s)) pieces.push([s.x0, s.y0, s.x1, s.y1]);
+  }
+  return pieces;
+}
+
 function round4(v: number): number {
   const r = Math.round(v * 10000) / 10000;
   return r === 0 ? 0 : r;
@@ -78,36 +112,11 @@ export function generateLattice(seed: number, options: LatticeOptions = {}): Poi
   const gap = options.gap ?? 0.75;
   const strayChance = options.strayChance ?? 0.3;
   const random = new Random(seed);
-  const all = segments(rows, columns);
   const samples: PointSample[] = [];
   for (let k = 0; k < perClass * LATTICE_CLASSES.length; k++) {
     const label = LATTICE_CLASSES[k % LATTICE_CLASSES.length];
     const r = random.fork();
-    // Struts as [x0, y0, x1, y1] pieces; the broken strut keeps only its two ends.
-    const pieces: number[][] = [];
-    if (label === 'intact') {
-      for (const s of all) pieces.push([s.x0, s.y0, s.x1, s.y1]);
-    } else if (label === 'broken-strut') {
-      const outer = all.filter((s) => s.outer);
-      const broken = outer[r.int(outer.length)];
-      const keep = (1 - gap) / 2;
-      for (const s of all) {
-        if (s !== broken) {
-          pieces.push([s.x0, s.y0, s.x1, s.y1]);
-          continue;
-        }
-        const dx = s.x1 - s.x0;
-        const dy = s.y1 - s.y0;
-        pieces.push([s.x0, s.y0, s.x0 + keep * dx, s.y0 + keep * dy]);
-        pieces.push([s.x1 - keep * dx, s.y1 - keep * dy, s.x1, s.y1]);
-      }
-    } else {
-      // The four walls that meet at one inner node are missing: a 2 × 2 block of cells is one open cell.
-      const vx = 1 + r.int(columns - 1);
-      const vy = 1 + r.int(rows - 1);
-      const touches = (s: Segment): boolean => (s.x0 === vx && s.y0 === vy) || (s.x1 === vx && s.y1 === vy);
-      for (const s of all) if (!touches(s)) pieces.push([s.x0, s.y0, s.x1, s.y1]);
-    }
+    const pieces = panelStruts(label, rows, columns, gap, r);
     const lengths = pieces.map((p) => Math.hypot(p[2] - p[0], p[3] - p[1]));
     const totalLength = lengths.reduce((a, b) => a + b, 0);
     const count = minPoints + r.int(maxPoints - minPoints + 1);
