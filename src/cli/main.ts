@@ -79,7 +79,7 @@ function systemErrorLine(error: unknown): string | undefined {
     EISDIR: 'is a folder where a file was expected; give a file name',
     ENOSPC: 'no space left on the device; free some space or write elsewhere',
     EROFS: 'the file system is read-only; write elsewhere',
-    EEXIST: 'already exists and cannot be replaced; remove it or choose another path',
+    EEXIST: 'is in the way (a file where a folder is needed, or the reverse); move it or choose another path',
     ENAMETOOLONG: 'the path is too long; choose a shorter one',
     EMFILE: 'too many open files; raise the limit (ulimit -n) or load fewer files at once',
   };
