@@ -1,5 +1,6 @@
 import { UserError } from '../core/errors.js';
 import { type Classifier, type Hyperparameters, MODEL_NAMES, type ModelName } from './classifier.js';
+import { DenseClassifier } from './dense.js';
 import { PcaSvmClassifier } from './pca-svm.js';
 
 /**
@@ -10,6 +11,8 @@ export function createClassifier(name: ModelName, hyper: Hyperparameters, seed: 
   switch (name) {
     case 'pca-svm':
       return new PcaSvmClassifier(hyper, seed);
+    case 'dense':
+      return new DenseClassifier(hyper, seed);
     default:
       throw new UserError(`unknown model '${String(name)}': choose one of ${MODEL_NAMES.join(', ')}`);
   }
@@ -21,6 +24,7 @@ export function createClassifier(name: ModelName, hyper: Hyperparameters, seed: 
  * pca-svm: linear kernel with C ∈ {0.1, 1, 10}; RBF with C ∈ {1, 10, 100} × γ ∈ {0.1, 1, 10} / features
  * (the usual spread of a coarse grid, common practice, no source: Hsu, Chang & Lin, "A practical guide to
  * support vector classification", 2003, search powers of two more finely).
+ * dense: hidden units ∈ {16, 32} (other settings at their defaults, see DenseOptions).
  */
 export function candidateHyperparameters(
   name: ModelName,
@@ -35,6 +39,8 @@ export function candidateHyperparameters(
         for (const g of [0.1, 1, 10]) out.push({ kernel: 'rbf', C, gamma: g / features });
       return out;
     }
+    case 'dense':
+      return [{ hidden: 16 }, { hidden: 32 }];
     default:
       throw new UserError(`unknown model '${String(name)}': choose one of ${MODEL_NAMES.join(', ')}`);
   }
@@ -50,6 +56,8 @@ export async function classifierFromJSON(json: unknown): Promise<Classifier> {
   switch (j.model) {
     case 'pca-svm':
       return PcaSvmClassifier.fromJSON(json);
+    case 'dense':
+      return DenseClassifier.fromJSON(json);
     default:
       throw new UserError(
         `saved classifier names an unknown model '${String(j.model)}': this version knows ${MODEL_NAMES.join(', ')}; use the landform version that saved it`,
