@@ -1,13 +1,13 @@
 import { UserError } from '../core/errors.js';
 import type { DiagramSet } from '../homology/diagram.js';
 import type { Sample, SampleKind } from '../io/dataset.js';
-import { type Matrix, concatColumns } from '../learn/matrix.js';
+import { concatColumns, type Matrix } from '../learn/matrix.js';
 import {
   LandscapeVectorizer,
   type LandscapeVectorizerJSON,
   type LandscapeVectorizerOptions,
 } from './landscape-vectorizer.js';
-import { RawFeatures, type RawFeaturesJSON, type RawFeaturesOptions, hasRawFeatures } from './raw-features.js';
+import { RawFeatures, type RawFeaturesJSON, type RawFeaturesOptions } from './raw-features.js';
 
 /**
  * The three feature sets compared in a study: `landscape` (the landscape vectoriser), `raw` (the raw-feature
@@ -37,10 +37,14 @@ export function featureSetsFor(kind: SampleKind): FeatureSetName[] {
 /** Throws the user's error when `set` cannot be built from samples of `kind`. */
 export function checkFeatureSet(set: FeatureSetName, kind: SampleKind): void {
   if (kind === 'table' && set !== 'raw') {
-    throw new UserError(`--features ${set} needs diagrams, but a table dataset has only its columns; use --features raw`);
+    throw new UserError(
+      `--features ${set} needs diagrams, but a table dataset has only its columns; use --features raw`,
+    );
   }
   if (kind === 'diagrams' && set !== 'landscape') {
-    throw new UserError(`--features ${set} needs the original samples, but a diagrams dataset has none; use --features landscape`);
+    throw new UserError(
+      `--features ${set} needs the original samples, but a diagrams dataset has none; use --features landscape`,
+    );
   }
 }
 
@@ -95,7 +99,10 @@ export class FeatureExtractor {
   }
 
   featureNames(): string[] {
-    return [...(this.landscape ? this.landscape.featureNames() : []), ...(this.raw ? this.raw.featureNames() : [])];
+    return [
+      ...(this.landscape ? this.landscape.featureNames() : []),
+      ...(this.raw ? this.raw.featureNames() : []),
+    ];
   }
 
   toJSON(): FeatureExtractorJSON {
@@ -110,9 +117,12 @@ export class FeatureExtractor {
 
   static fromJSON(json: unknown): FeatureExtractor {
     const j = json as Partial<FeatureExtractorJSON> | null;
-    if (!j || j.kind !== 'landform.features') throw new UserError('not saved features (kind tag missing or different)');
-    if (j.format !== 1) throw new UserError(`saved features have format ${String(j.format)}; this landform reads format 1`);
-    if (!j.set || !(FEATURE_SET_NAMES as readonly string[]).includes(j.set)) throw new UserError('saved features name no known feature set');
+    if (j?.kind !== 'landform.features')
+      throw new UserError('not saved features (kind tag missing or different)');
+    if (j.format !== 1)
+      throw new UserError(`saved features have format ${String(j.format)}; this landform reads format 1`);
+    if (!j.set || !(FEATURE_SET_NAMES as readonly string[]).includes(j.set))
+      throw new UserError('saved features name no known feature set');
     const e = new FeatureExtractor(j.set);
     const mutable = e as { landscape?: LandscapeVectorizer; raw?: RawFeatures };
     if (usesLandscape(j.set)) {
@@ -140,7 +150,9 @@ export class FeatureExtractor {
 function requireDiagrams(data: FeatureData): readonly DiagramSet[] {
   if (!data.diagrams) throw new Error('FeatureExtractor: landscape features need diagrams');
   if (data.diagrams.length !== data.samples.length && data.samples.length > 0) {
-    throw new Error(`FeatureExtractor: ${data.diagrams.length} diagram sets for ${data.samples.length} samples`);
+    throw new Error(
+      `FeatureExtractor: ${data.diagrams.length} diagram sets for ${data.samples.length} samples`,
+    );
   }
   return data.diagrams;
 }

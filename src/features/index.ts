@@ -1,29 +1,29 @@
 export {
-  LandscapeVectorizer,
+  checkFeatureSet,
+  FEATURE_SET_NAMES,
+  type FeatureData,
+  FeatureExtractor,
+  type FeatureExtractorJSON,
+  type FeatureExtractorOptions,
+  type FeatureSetName,
+  featureSetsFor,
+  usesLandscape,
+} from './combined.js';
+export {
   DEFAULT_LANDSCAPE_VECTORIZER_OPTIONS,
-  parseLandscapeFeatureName,
-  learnGrid,
   type FeatureLocation,
+  LandscapeVectorizer,
+  type LandscapeVectorizerJSON,
   type LandscapeVectorizerOptions,
   type LandscapeVectorizerState,
-  type LandscapeVectorizerJSON,
+  learnGrid,
+  parseLandscapeFeatureName,
 } from './landscape-vectorizer.js';
 export {
-  RawFeatures,
   DEFAULT_RAW_FEATURES_OPTIONS,
   hasRawFeatures,
+  RawFeatures,
+  type RawFeaturesJSON,
   type RawFeaturesOptions,
   type RawFeaturesState,
-  type RawFeaturesJSON,
 } from './raw-features.js';
-export {
-  FeatureExtractor,
-  FEATURE_SET_NAMES,
-  featureSetsFor,
-  checkFeatureSet,
-  usesLandscape,
-  type FeatureSetName,
-  type FeatureData,
-  type FeatureExtractorOptions,
-  type FeatureExtractorJSON,
-} from './combined.js';

@@ -2,9 +2,9 @@ import { UserError } from '../core/errors.js';
 import {
   DEFAULT_INFINITE_POLICY,
   type DiagramSet,
-  type InfinitePolicy,
   diagramOfDegree,
   finitePairs,
+  type InfinitePolicy,
 } from '../homology/diagram.js';
 import type { Grid } from '../landscape/grid.js';
 import { sampleLandscape } from '../landscape/sampled-landscape.js';
@@ -99,11 +99,16 @@ export class LandscapeVectorizer {
     this.infinite = o.infinite;
     this.upperQuantile = o.upperQuantile;
     this.standardize = o.standardize;
-    if (this.degrees.length === 0) throw new UserError('no homology degree chosen; give --degrees such as 0,1');
-    if (!Number.isInteger(this.depth) || this.depth < 1) throw new UserError(`landscape depth ${this.depth} must be a whole number ≥ 1`);
-    if (!Number.isInteger(this.gridSize) || this.gridSize < 2) throw new UserError(`grid size ${this.gridSize} must be a whole number ≥ 2`);
-    if (this.range && !(this.range.stop > this.range.start)) throw new UserError('the grid range needs stop > start');
-    if (!(this.upperQuantile > 0 && this.upperQuantile <= 1)) throw new Error('upperQuantile must be in (0, 1]');
+    if (this.degrees.length === 0)
+      throw new UserError('no homology degree chosen; give --degrees such as 0,1');
+    if (!Number.isInteger(this.depth) || this.depth < 1)
+      throw new UserError(`landscape depth ${this.depth} must be a whole number ≥ 1`);
+    if (!Number.isInteger(this.gridSize) || this.gridSize < 2)
+      throw new UserError(`grid size ${this.gridSize} must be a whole number ≥ 2`);
+    if (this.range && !(this.range.stop > this.range.start))
+      throw new UserError('the grid range needs stop > start');
+    if (!(this.upperQuantile > 0 && this.upperQuantile <= 1))
+      throw new Error('upperQuantile must be in (0, 1]');
   }
 
   /** A copy with some options changed (used by the inner cross-validation over K and G). */
@@ -111,7 +116,9 @@ export class LandscapeVectorizer {
     return new LandscapeVectorizer({ ...this.options(), ...options });
   }
 
-  options(): Required<Omit<LandscapeVectorizerOptions, 'range'>> & { range?: { start: number; stop: number } } {
+  options(): Required<Omit<LandscapeVectorizerOptions, 'range'>> & {
+    range?: { start: number; stop: number };
+  } {
     return {
       degrees: [...this.degrees],
       depth: this.depth,
@@ -165,7 +172,8 @@ export class LandscapeVectorizer {
       const step = (grid.stop - grid.start) / (grid.count - 1);
       const decimals = decimalsFor(step, grid.start, grid.stop);
       for (let layer = 1; layer <= this.depth; layer++) {
-        for (let j = 0; j < grid.count; j++) names.push(`H${degree}/L${layer}/t=${gridValue(grid, j).toFixed(decimals)}`);
+        for (let j = 0; j < grid.count; j++)
+          names.push(`H${degree}/L${layer}/t=${gridValue(grid, j).toFixed(decimals)}`);
       }
     }
     return names;
@@ -178,7 +186,11 @@ export class LandscapeVectorizer {
     if (!(index >= 0 && index < this.featureCount)) throw new RangeError(`feature ${index} out of range`);
     const { degree, grid } = state.grids[Math.floor(index / perDegree)];
     const within = index % perDegree;
-    return { degree, layer: Math.floor(within / this.gridSize) + 1, t: gridValue(grid, within % this.gridSize) };
+    return {
+      degree,
+      layer: Math.floor(within / this.gridSize) + 1,
+      t: gridValue(grid, within % this.gridSize),
+    };
   }
 
   toJSON(): LandscapeVectorizerJSON {
@@ -204,8 +216,12 @@ export class LandscapeVectorizer {
 
   static fromJSON(json: unknown): LandscapeVectorizer {
     const j = json as Partial<LandscapeVectorizerJSON> | null;
-    if (!j || j.kind !== 'landform.landscape-vectorizer') throw new UserError('not a saved landscape vectoriser (kind tag missing or different)');
-    if (j.format !== 1) throw new UserError(`saved landscape vectoriser has format ${String(j.format)}; this landform reads format 1`);
+    if (j?.kind !== 'landform.landscape-vectorizer')
+      throw new UserError('not a saved landscape vectoriser (kind tag missing or different)');
+    if (j.format !== 1)
+      throw new UserError(
+        `saved landscape vectoriser has format ${String(j.format)}; this landform reads format 1`,
+      );
     if (!j.options || !j.state) throw new UserError('saved landscape vectoriser lacks its options or state');
     const v = new LandscapeVectorizer(j.options);
     v.state = {
@@ -222,7 +238,11 @@ export class LandscapeVectorizer {
     return this.state;
   }
 
-  private sampleAll(sets: readonly DiagramSet[], indices: ArrayLike<number>, grids: LandscapeVectorizerState['grids']): Matrix {
+  private sampleAll(
+    sets: readonly DiagramSet[],
+    indices: ArrayLike<number>,
+    grids: LandscapeVectorizerState['grids'],
+  ): Matrix {
     const cols = this.featureCount;
     const data = new Float64Array(indices.length * cols);
     const block = this.depth * this.gridSize;

@@ -67,8 +67,10 @@ export class RawFeatures {
     this.upperQuantile = o.upperQuantile;
     this.signalLength = o.signalLength;
     this.imageSize = o.imageSize;
-    if (!Number.isInteger(this.bins) || this.bins < 1) throw new UserError(`raw histogram bins ${this.bins} must be a whole number ≥ 1`);
-    if (!Number.isInteger(this.signalLength) || this.signalLength < 2) throw new UserError(`signal length ${this.signalLength} must be ≥ 2`);
+    if (!Number.isInteger(this.bins) || this.bins < 1)
+      throw new UserError(`raw histogram bins ${this.bins} must be a whole number ≥ 1`);
+    if (!Number.isInteger(this.signalLength) || this.signalLength < 2)
+      throw new UserError(`signal length ${this.signalLength} must be ≥ 2`);
   }
 
   /** Learns the histogram range, dimensions or shapes from `samples[indices]` only. */
@@ -103,7 +105,11 @@ export class RawFeatures {
       case 'table': {
         const s = samples[chosen[0]];
         const width = s.kind === 'table' ? s.values.length : 0;
-        this.state = { kind, width, columns: columns ? [...columns] : Array.from({ length: width }, (_, j) => `c${j + 1}`) };
+        this.state = {
+          kind,
+          width,
+          columns: columns ? [...columns] : Array.from({ length: width }, (_, j) => `c${j + 1}`),
+        };
         break;
       }
       case 'diagrams':
@@ -119,7 +125,8 @@ export class RawFeatures {
     const data = new Float64Array(chosen.length * cols);
     for (let r = 0; r < chosen.length; r++) {
       const s = samples[chosen[r]];
-      if (s.kind !== state.kind) throw new UserError(`sample '${s.id}' is ${s.kind} but the features were fitted on ${state.kind}`);
+      if (s.kind !== state.kind)
+        throw new UserError(`sample '${s.id}' is ${s.kind} but the features were fitted on ${state.kind}`);
       const out = data.subarray(r * cols, (r + 1) * cols);
       switch (s.kind) {
         case 'points':
@@ -137,7 +144,9 @@ export class RawFeatures {
           break;
         case 'table':
           if (s.values.length !== state.width) {
-            throw new UserError(`sample '${s.id}' has ${s.values.length} columns; the features were fitted on ${state.width}`);
+            throw new UserError(
+              `sample '${s.id}' has ${s.values.length} columns; the features were fitted on ${state.width}`,
+            );
           }
           out.set(s.values);
           break;
@@ -177,10 +186,12 @@ export class RawFeatures {
     } else if (s.kind === 'image') {
       const shape = s.shape!;
       if (shape.length === 2) {
-        for (let y = 0; y < shape[0]; y++) for (let x = 0; x < shape[1]; x++) names.push(`pixel/y=${y},x=${x}`);
+        for (let y = 0; y < shape[0]; y++)
+          for (let x = 0; x < shape[1]; x++) names.push(`pixel/y=${y},x=${x}`);
       } else {
         for (let z = 0; z < shape[0]; z++)
-          for (let y = 0; y < shape[1]; y++) for (let x = 0; x < shape[2]; x++) names.push(`voxel/z=${z},y=${y},x=${x}`);
+          for (let y = 0; y < shape[1]; y++)
+            for (let x = 0; x < shape[2]; x++) names.push(`voxel/z=${z},y=${y},x=${x}`);
       }
     } else {
       names.push(...s.columns!);
@@ -204,8 +215,10 @@ export class RawFeatures {
 
   static fromJSON(json: unknown): RawFeatures {
     const j = json as Partial<RawFeaturesJSON> | null;
-    if (!j || j.kind !== 'landform.raw-features') throw new UserError('not saved raw features (kind tag missing or different)');
-    if (j.format !== 1) throw new UserError(`saved raw features have format ${String(j.format)}; this landform reads format 1`);
+    if (j?.kind !== 'landform.raw-features')
+      throw new UserError('not saved raw features (kind tag missing or different)');
+    if (j.format !== 1)
+      throw new UserError(`saved raw features have format ${String(j.format)}; this landform reads format 1`);
     if (!j.options || !j.state) throw new UserError('saved raw features lack their options or state');
     const r = new RawFeatures(j.options);
     r.state = structuredClone(j.state);
@@ -278,7 +291,12 @@ export function histogram(values: Float64Array, upper: number, bins: number, out
 }
 
 /** Eigenvalues, largest first, of the covariance of `count` points in `dim` dimensions (cyclic Jacobi). */
-export function covarianceEigenvalues(coords: Float64Array, count: number, dim: number, out: Float64Array): void {
+export function covarianceEigenvalues(
+  coords: Float64Array,
+  count: number,
+  dim: number,
+  out: Float64Array,
+): void {
   out.fill(0);
   if (count < 2) return;
   const mean = new Float64Array(dim);
@@ -363,7 +381,8 @@ export function resample(values: Float64Array, out: Float64Array): void {
  * Each output cell averages the input cells whose index falls in its box; a box with none takes the nearest.
  */
 export function downsample(values: Float64Array, shape: number[], target: number[], out: Float64Array): void {
-  if (shape.length !== target.length) throw new UserError(`image has ${shape.length} axes; the features were fitted on ${target.length}`);
+  if (shape.length !== target.length)
+    throw new UserError(`image has ${shape.length} axes; the features were fitted on ${target.length}`);
   const [h, w, d] = shape.length === 2 ? [shape[0], shape[1], 1] : [shape[1], shape[2], shape[0]];
   const [th, tw, td] = target.length === 2 ? [target[0], target[1], 1] : [target[1], target[2], target[0]];
   const sums = new Float64Array(td * th * tw);

@@ -1,36 +1,37 @@
 import { UserError } from '../core/errors.js';
 import { version } from '../core/version.js';
 import {
+  checkFeatureSet,
   type FeatureData,
   FeatureExtractor,
   type FeatureSetName,
-  checkFeatureSet,
   featureSetsFor,
 } from '../features/combined.js';
 import type { LandscapeVectorizerOptions } from '../features/landscape-vectorizer.js';
 import type { RawFeaturesOptions } from '../features/raw-features.js';
+import type { DiagramOptions } from '../homology/compute.js';
 import type { DiagramSet } from '../homology/diagram.js';
+import { classesOf, type Dataset } from '../io/dataset.js';
 import type { Grid } from '../landscape/grid.js';
-import { type Dataset, classesOf } from '../io/dataset.js';
 import { type Hyperparameters, MODEL_NAMES, type ModelName } from './classifier.js';
 import { checkFoldable, encodeLabels, stratifiedFolds } from './folds.js';
 import type { Matrix } from './matrix.js';
 import {
-  type Confusion,
-  type Summary,
   accuracy,
   addConfusion,
   balancedAccuracy,
+  type Confusion,
   confusionMatrix,
   macroF1,
+  type Summary,
   summarize,
 } from './metrics.js';
 import {
   DEFAULT_LANDSCAPE_CANDIDATES,
-  type LandscapeCandidate,
-  type ModelFactory,
   derivedSeed,
   fitAndPredict,
+  type LandscapeCandidate,
+  type ModelFactory,
   pick,
   selectHyperparameters,
 } from './select.js';
@@ -68,8 +69,18 @@ export interface EvaluationOptions {
    * dataset or `computeDiagrams` is given.
    */
   diagrams?: readonly DiagramSet[];
+  /**
+   * How to compute each sample's diagrams when neither `diagrams` nor `computeDiagrams` is given (through
+   * the homology stage's worker threads). Default: degrees of the landscape options (0, 1), Rips, euclidean.
+   */
+  diagramOptions?: DiagramOptions;
+  /** Worker threads for the diagrams. Default: every core. */
+  workers?: number;
   /** Computes the diagrams of the samples (called once) when `diagrams` is not given. */
-  computeDiagrams?: (dataset: Dataset, onProgress?: (done: number, total: number) => void) => Promise<DiagramSet[]>;
+  computeDiagrams?: (
+    dataset: Dataset,
+    onProgress?: (done: number, total: number) => void,
+  ) => Promise<DiagramSet[]>;
   /** Creates the classifiers. Default: the models stage (`createClassifier`, `candidateHyperparameters`). */
   modelFactory?: ModelFactory;
   /** Anything else to record under `options` in metrics.json (e.g. the diagram options). */
@@ -159,10 +170,16 @@ export async function defaultModelFactory(): Promise<ModelFactory> {
 }
 
 /** Checks what a study needs before any work: two classes, enough samples per class, usable feature sets. */
-export function checkStudy(dataset: Dataset, options: EvaluationOptions = {}): { classes: string[]; y: Int32Array; featureSets: FeatureSetName[] } {
+export function checkStudy(
+  dataset: Dataset,
+  options: EvaluationOptions = {},
+): { classes: string[]; y: Int32Array; featureSets: FeatureSetName[] } {
   const labelled = dataset.samples.filter((s) => s.label === '');
   if (labelled.length > 0) {
-    throw new UserError(`sample '${labelled[0].id}' has no label; every sample of a study needs its class label`, { file: dataset.source });
+    throw new UserError(
+      `sample '${labelled[0].id}' has no label; every sample of a study needs its class label`,
+      { file: dataset.source },
+    );
   }
   const classes = classesOf(dataset.samples);
   const y = encodeLabels(
@@ -170,14 +187,18 @@ export function checkStudy(dataset: Dataset, options: EvaluationOptions = {}): {
     classes,
   );
   const folds = options.folds ?? DEFAULT_EVALUATION_OPTIONS.folds;
-  if (!Number.isInteger(folds) || folds < 2) throw new UserError(`--folds ${folds} must be a whole number ≥ 2`);
+  if (!Number.isInteger(folds) || folds < 2)
+    throw new UserError(`--folds ${folds} must be a whole number ≥ 2`);
   checkFoldable(y, classes, folds);
   const featureSets = options.featureSets ?? featureSetsFor(dataset.kind);
   for (const set of featureSets) checkFeatureSet(set, dataset.kind);
   return { classes, y, featureSets };
 }
 
-export async function runEvaluation(dataset: Dataset, options: EvaluationOptions = {}): Promise<EvaluationResult> {
+export async function runEvaluation(
+  dataset: Dataset,
+  options: EvaluationOptions = {},
+): Promise<EvaluationResult> {
   const { classes, y, featureSets } = checkStudy(dataset, options);
   const folds = options.folds ?? DEFAULT_EVALUATION_OPTIONS.folds;
   const repeats = options.repeats ?? DEFAULT_EVALUATION_OPTIONS.repeats;
@@ -191,7 +212,8 @@ export async function runEvaluation(dataset: Dataset, options: EvaluationOptions
 
   const units = featureSets.length * models.length * outer.length;
   const needDiagrams = featureSets.some((s) => s !== 'raw');
-  const diagramUnits = needDiagrams && !options.diagrams && dataset.kind !== 'diagrams' ? dataset.samples.length : 0;
+  const diagramUnits =
+    needDiagrams && !options.diagrams && dataset.kind !== 'diagrams' ? dataset.samples.length : 0;
   const total = units + diagramUnits;
   let done = 0;
   options.onProgress?.(0, total);
@@ -201,12 +223,19 @@ export async function runEvaluation(dataset: Dataset, options: EvaluationOptions
     diagrams = await diagramsOf(dataset, options, (d) => options.onProgress?.(d, total));
     done = diagramUnits;
   }
-  const data: FeatureData = { samples: dataset.samples, ...(diagrams ? { diagrams } : {}), ...(dataset.columns ? { columns: dataset.columns } : {}) };
+  const data: FeatureData = {
+    samples: dataset.samples,
+    ...(diagrams ? { diagrams } : {}),
+    ...(dataset.columns ? { columns: dataset.columns } : {}),
+  };
 
   const results: StudyResult[] = [];
   for (let si = 0; si < featureSets.length; si++) {
     const set = featureSets[si];
-    const base = new FeatureExtractor(set, { ...(options.landscape ? { landscape: options.landscape } : {}), ...(options.raw ? { raw: options.raw } : {}) });
+    const base = new FeatureExtractor(set, {
+      ...(options.landscape ? { landscape: options.landscape } : {}),
+      ...(options.raw ? { raw: options.raw } : {}),
+    });
     for (let mi = 0; mi < models.length; mi++) {
       const model = models[mi];
       const outcomes: FoldOutcome[] = [];
@@ -221,7 +250,15 @@ export async function runEvaluation(dataset: Dataset, options: EvaluationOptions
         const extractor = base.withLandscape(selection.landscape ?? {});
         const classifier = factory.create(model, selection.model, unitSeed);
         try {
-          const { predicted, scores } = await fitAndPredict(extractor, data, y, classCount, f.train, f.test, classifier);
+          const { predicted, scores } = await fitAndPredict(
+            extractor,
+            data,
+            y,
+            classCount,
+            f.train,
+            f.test,
+            classifier,
+          );
           const confusion = confusionMatrix(pick(y, f.test), predicted, classCount);
           addConfusion(pooled, confusion);
           const weights = hasLinearWeights(classifier) ? classifier.linearWeights() : undefined;
@@ -236,7 +273,14 @@ export async function runEvaluation(dataset: Dataset, options: EvaluationOptions
             macroF1: macroF1(confusion),
             chosen: chosenOf(selection.landscape, selection.model),
             innerScore: selection.score,
-            ...(extractor.landscape?.state ? { grids: extractor.landscape.state.grids.map((g) => ({ degree: g.degree, grid: { ...g.grid } })) } : {}),
+            ...(extractor.landscape?.state
+              ? {
+                  grids: extractor.landscape.state.grids.map((g) => ({
+                    degree: g.degree,
+                    grid: { ...g.grid },
+                  })),
+                }
+              : {}),
             featureNames: extractor.featureNames(),
             ...(weights ? { linearWeights: weights } : {}),
           });
@@ -263,7 +307,9 @@ export async function runEvaluation(dataset: Dataset, options: EvaluationOptions
     features: featureSets,
     models,
     innerFolds,
-    landscapeCandidates: usesAnyLandscape(featureSets) ? landscapeCandidates.map((c) => ({ depth: c.depth, gridSize: c.gridSize })) : [],
+    landscapeCandidates: usesAnyLandscape(featureSets)
+      ? landscapeCandidates.map((c) => ({ depth: c.depth, gridSize: c.gridSize }))
+      : [],
     landscape: usesAnyLandscape(featureSets) ? landscapeRecord(base0(options)) : null,
     raw: featureSets.includes('raw') || featureSets.includes('combined') ? rawRecord(options.raw) : null,
     ...(options.record ?? {}),
@@ -303,7 +349,12 @@ function landscapeRecord(e: FeatureExtractor): Record<string, unknown> {
 
 function rawRecord(raw: RawFeaturesOptions | undefined): Record<string, unknown> {
   const e = new FeatureExtractor('raw', raw ? { raw } : {}).raw!;
-  return { bins: e.bins, upperQuantile: e.upperQuantile, signalLength: e.signalLength, ...(e.imageSize !== undefined ? { imageSize: e.imageSize } : {}) };
+  return {
+    bins: e.bins,
+    upperQuantile: e.upperQuantile,
+    signalLength: e.signalLength,
+    ...(e.imageSize !== undefined ? { imageSize: e.imageSize } : {}),
+  };
 }
 
 async function diagramsOf(
@@ -313,17 +364,39 @@ async function diagramsOf(
 ): Promise<readonly DiagramSet[]> {
   if (options.diagrams) {
     if (options.diagrams.length !== dataset.samples.length) {
-      throw new Error(`runEvaluation: ${options.diagrams.length} diagram sets for ${dataset.samples.length} samples`);
+      throw new Error(
+        `runEvaluation: ${options.diagrams.length} diagram sets for ${dataset.samples.length} samples`,
+      );
     }
     return options.diagrams;
   }
   if (dataset.kind === 'diagrams') {
-    return dataset.samples.map((s) => ({ sample: s.id, label: s.label, diagrams: s.kind === 'diagrams' ? s.diagrams : [] }));
+    return dataset.samples.map((s) => ({
+      sample: s.id,
+      label: s.label,
+      diagrams: s.kind === 'diagrams' ? s.diagrams : [],
+    }));
   }
-  if (!options.computeDiagrams) throw new Error('runEvaluation: give diagrams or computeDiagrams for landscape features');
-  const sets = await options.computeDiagrams(dataset, (d) => onProgress(d));
-  if (sets.length !== dataset.samples.length) throw new Error(`computeDiagrams returned ${sets.length} sets for ${dataset.samples.length} samples`);
+  const compute = options.computeDiagrams ?? (await defaultDiagramComputer(options));
+  const sets = await compute(dataset, (d) => onProgress(d));
+  if (sets.length !== dataset.samples.length)
+    throw new Error(`computeDiagrams returned ${sets.length} sets for ${dataset.samples.length} samples`);
   return sets;
+}
+
+/** Computes diagrams through the homology stage's worker threads (loaded only when needed). */
+async function defaultDiagramComputer(
+  options: EvaluationOptions,
+): Promise<NonNullable<EvaluationOptions['computeDiagrams']>> {
+  const { computeDiagramsParallel } = await import('../homology/parallel.js');
+  const diagramOptions: DiagramOptions = options.diagramOptions ?? {
+    degrees: options.landscape?.degrees ?? [0, 1],
+  };
+  return (dataset, onProgress) =>
+    computeDiagramsParallel(dataset.samples, diagramOptions, {
+      ...(options.workers ? { workers: options.workers } : {}),
+      ...(onProgress ? { onProgress } : {}),
+    });
 }
 
 /** The chosen values of one fold: depth and gridSize first (for landscape sets), then the model's, by key. */
@@ -347,7 +420,8 @@ export function mostFrequent(list: readonly Hyperparameters[]): Hyperparameters 
     else counts.set(key, { count: 1, first: i });
   });
   let best: { count: number; first: number } | undefined;
-  for (const c of counts.values()) if (!best || c.count > best.count || (c.count === best.count && c.first < best.first)) best = c;
+  for (const c of counts.values())
+    if (!best || c.count > best.count || (c.count === best.count && c.first < best.first)) best = c;
   return best ? { ...list[best.first] } : {};
 }
 

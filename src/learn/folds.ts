@@ -50,7 +50,12 @@ export function classCounts(y: ArrayLike<number>, classCount: number): Int32Arra
  * Throws the user's error when the labels cannot be split into `folds` stratified folds: fewer than two
  * classes, or a class with fewer samples than folds. `what` names the option in the message.
  */
-export function checkFoldable(y: ArrayLike<number>, classes: readonly string[], folds: number, what = '--folds'): void {
+export function checkFoldable(
+  y: ArrayLike<number>,
+  classes: readonly string[],
+  folds: number,
+  what = '--folds',
+): void {
   if (classes.length < 2) {
     throw new UserError(
       `found ${classes.length === 0 ? 'no labelled samples' : `only one class ('${classes[0]}')`}; ` +
@@ -64,7 +69,9 @@ export function checkFoldable(y: ArrayLike<number>, classes: readonly string[], 
     const n = counts[smallest];
     throw new UserError(
       `class '${classes[smallest]}' has ${n} sample${n === 1 ? '' : 's'}, fewer than the ${folds} folds asked for; ` +
-        (n >= 2 ? `use ${what} ${n} or fewer, or add samples of '${classes[smallest]}'` : `add samples of '${classes[smallest]}'`),
+        (n >= 2
+          ? `use ${what} ${n} or fewer, or add samples of '${classes[smallest]}'`
+          : `add samples of '${classes[smallest]}'`),
     );
   }
 }
@@ -72,7 +79,8 @@ export function checkFoldable(y: ArrayLike<number>, classes: readonly string[], 
 /** Stratified folds of `y` (class indices in [0, classCount)), `repeats` × `folds` of them in order. */
 export function stratifiedFolds(y: ArrayLike<number>, classCount: number, options: FoldOptions = {}): Fold[] {
   const { folds, repeats, seed } = { ...DEFAULT_FOLD_OPTIONS, ...options };
-  if (!Number.isInteger(folds) || folds < 2) throw new Error(`stratifiedFolds: folds must be an integer ≥ 2, got ${folds}`);
+  if (!Number.isInteger(folds) || folds < 2)
+    throw new Error(`stratifiedFolds: folds must be an integer ≥ 2, got ${folds}`);
   const n = y.length;
   const byClass: number[][] = Array.from({ length: classCount }, () => []);
   for (let i = 0; i < n; i++) byClass[y[i]].push(i);

@@ -6,8 +6,13 @@
 export type Confusion = number[][];
 
 /** Counts of (true class, predicted class); `counts[t][p]`. */
-export function confusionMatrix(truth: ArrayLike<number>, predicted: ArrayLike<number>, classCount: number): Confusion {
-  if (truth.length !== predicted.length) throw new Error(`confusionMatrix: ${truth.length} truths vs ${predicted.length} predictions`);
+export function confusionMatrix(
+  truth: ArrayLike<number>,
+  predicted: ArrayLike<number>,
+  classCount: number,
+): Confusion {
+  if (truth.length !== predicted.length)
+    throw new Error(`confusionMatrix: ${truth.length} truths vs ${predicted.length} predictions`);
   const counts: Confusion = Array.from({ length: classCount }, () => new Array<number>(classCount).fill(0));
   for (let i = 0; i < truth.length; i++) counts[truth[i]][predicted[i]]++;
   return counts;

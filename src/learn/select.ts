@@ -1,8 +1,8 @@
 import { Random } from '../core/random.js';
-import { FeatureExtractor, type FeatureData, usesLandscape } from '../features/combined.js';
+import { type FeatureData, FeatureExtractor, usesLandscape } from '../features/combined.js';
 import type { Classifier, Hyperparameters, ModelName } from './classifier.js';
 import { stratifiedFolds } from './folds.js';
-import { type Matrix, takeRows } from './matrix.js';
+import type { Matrix } from './matrix.js';
 import { argmaxRows, balancedAccuracy, confusionMatrix } from './metrics.js';
 
 /**
@@ -118,7 +118,9 @@ export async function selectHyperparameters(
   options: SelectionOptions = {},
 ): Promise<Selection> {
   const seed = options.seed ?? DEFAULT_SELECTION_OPTIONS.seed;
-  const landscapeCandidates = usesLandscape(base.set) ? [...(options.landscapeCandidates ?? DEFAULT_LANDSCAPE_CANDIDATES)] : [];
+  const landscapeCandidates = usesLandscape(base.set)
+    ? [...(options.landscapeCandidates ?? DEFAULT_LANDSCAPE_CANDIDATES)]
+    : [];
   const yTrain = pick(y, train);
   let smallest = Number.POSITIVE_INFINITY;
   const counts = new Int32Array(classCount);
@@ -127,17 +129,28 @@ export async function selectHyperparameters(
   const innerFolds = Math.min(options.innerFolds ?? DEFAULT_SELECTION_OPTIONS.innerFolds, smallest);
 
   const firstFeatures = base.withLandscape(landscapeCandidates[0] ?? {});
-  const shape = { samples: Math.floor((train.length * (innerFolds - 1)) / Math.max(1, innerFolds)), features: featureCountOf(firstFeatures, data, train) };
+  const shape = {
+    samples: Math.floor((train.length * (innerFolds - 1)) / Math.max(1, innerFolds)),
+    features: featureCountOf(firstFeatures, data, train),
+  };
   const modelCandidates = factory.candidates(model, shape);
   if (modelCandidates.length === 0) throw new Error(`no hyperparameter candidates for ${model}`);
 
   const tried: Selection['tried'] = [];
   const needSearch = landscapeCandidates.length > 1 || modelCandidates.length > 1;
   if (!needSearch || innerFolds < 2) {
-    return { ...(landscapeCandidates[0] ? { landscape: landscapeCandidates[0] } : {}), model: modelCandidates[0], score: Number.NaN, tried };
+    return {
+      ...(landscapeCandidates[0] ? { landscape: landscapeCandidates[0] } : {}),
+      model: modelCandidates[0],
+      score: Number.NaN,
+      tried,
+    };
   }
   const inner = stratifiedFolds(yTrain, classCount, { folds: innerFolds, repeats: 1, seed });
-  const score = async (landscape: LandscapeCandidate | undefined, hyper: Hyperparameters): Promise<number> => {
+  const score = async (
+    landscape: LandscapeCandidate | undefined,
+    hyper: Hyperparameters,
+  ): Promise<number> => {
     const extractor = base.withLandscape(landscape ?? {});
     let sum = 0;
     for (let f = 0; f < inner.length; f++) {
@@ -145,7 +158,15 @@ export async function selectHyperparameters(
       const innerTest = mapIndices(train, inner[f].test);
       const classifier = factory.create(model, hyper, (seed + 7919 * (f + 1)) >>> 0);
       try {
-        const predicted = await fitAndLabel(extractor, data, y, classCount, innerTrain, innerTest, classifier);
+        const predicted = await fitAndLabel(
+          extractor,
+          data,
+          y,
+          classCount,
+          innerTrain,
+          innerTest,
+          classifier,
+        );
         sum += balancedAccuracy(confusionMatrix(pick(y, innerTest), predicted, classCount));
       } finally {
         classifier.dispose();
@@ -177,7 +198,12 @@ export async function selectHyperparameters(
       bestModel = modelCandidates[m];
     }
   }
-  return { ...(bestLandscape ? { landscape: bestLandscape } : {}), model: bestModel, score: bestScore, tried };
+  return {
+    ...(bestLandscape ? { landscape: bestLandscape } : {}),
+    model: bestModel,
+    score: bestScore,
+    tried,
+  };
 }
 
 function mapIndices(outer: ArrayLike<number>, inner: Int32Array): Int32Array {
@@ -191,7 +217,12 @@ function featureCountOf(extractor: FeatureExtractor, data: FeatureData, train: A
   if (extractor.landscape) count += extractor.landscape.featureCount;
   if (extractor.raw) {
     const probe = new FeatureExtractor('raw', {
-      raw: { bins: extractor.raw.bins, upperQuantile: extractor.raw.upperQuantile, signalLength: extractor.raw.signalLength, ...(extractor.raw.imageSize !== undefined ? { imageSize: extractor.raw.imageSize } : {}) },
+      raw: {
+        bins: extractor.raw.bins,
+        upperQuantile: extractor.raw.upperQuantile,
+        signalLength: extractor.raw.signalLength,
+        ...(extractor.raw.imageSize !== undefined ? { imageSize: extractor.raw.imageSize } : {}),
+      },
     });
     probe.fit(data, Array.prototype.slice.call(train, 0, Math.min(train.length, 2)));
     count += probe.raw!.featureCount;

@@ -1,6 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
-import { LandscapeVectorizer, learnGrid, parseLandscapeFeatureName } from '../../src/features/landscape-vectorizer.js';
+import {
+  LandscapeVectorizer,
+  learnGrid,
+  parseLandscapeFeatureName,
+} from '../../src/features/landscape-vectorizer.js';
 import { type DiagramSet, makeDiagram } from '../../src/homology/diagram.js';
 
 function set(id: string, h0: Array<[number, number]>, h1: Array<[number, number]>): DiagramSet {
@@ -30,10 +34,16 @@ describe('LandscapeVectorizer', () => {
     // data analysis using persistence landscapes", 2015, Definition 3). Pairs (0,4) and (1,3), worked by hand
     // at t = 0, 1, 2, 3, 4: λ1 = 0,1,2,1,0; λ2 = 0,0,1,0,0.
     const v = new LandscapeVectorizer({ degrees: [1], depth: 2, gridSize: 5, range: { start: 0, stop: 4 } });
-    const sets = [set('a', [], [
-      [0, 4],
-      [1, 3],
-    ])];
+    const sets = [
+      set(
+        'a',
+        [],
+        [
+          [0, 4],
+          [1, 3],
+        ],
+      ),
+    ];
     const x = v.fitTransform(sets);
     expect([...x.data]).toEqual([0, 1, 2, 1, 0, 0, 0, 1, 0, 0]);
     expect(v.featureNames().slice(0, 3)).toEqual(['H1/L1/t=0.0000', 'H1/L1/t=1.0000', 'H1/L1/t=2.0000']);
@@ -42,7 +52,7 @@ describe('LandscapeVectorizer', () => {
   it('learns each degree’s range from the training samples only (a test-fold change cannot move it)', () => {
     const sets = randomSets(30, 5);
     const train = Int32Array.from({ length: 20 }, (_, i) => i);
-    const test = Int32Array.from({ length: 10 }, (_, i) => 20 + i);
+    const _test = Int32Array.from({ length: 10 }, (_, i) => 20 + i);
     const a = new LandscapeVectorizer({ depth: 3, gridSize: 20 }).fit(sets, train);
     // Replace the test samples with diagrams ten times larger: were they seen by fit, the grid would stretch.
     const leaked = [...sets.slice(0, 20), ...randomSets(10, 9, 10)];
@@ -76,7 +86,12 @@ describe('LandscapeVectorizer', () => {
   it('standardises with training moments and round-trips through JSON', () => {
     const sets = randomSets(12, 4);
     const train = Int32Array.from([0, 1, 2, 3, 4, 5, 6, 7]);
-    const v = new LandscapeVectorizer({ depth: 2, gridSize: 10, standardize: true, infinite: { mode: 'clip', value: 1.5 } }).fit(sets, train);
+    const v = new LandscapeVectorizer({
+      depth: 2,
+      gridSize: 10,
+      standardize: true,
+      infinite: { mode: 'clip', value: 1.5 },
+    }).fit(sets, train);
     const x = v.transform(sets, train);
     // Each non-constant column of the training rows now has mean 0.
     let colMean = 0;
@@ -90,7 +105,13 @@ describe('LandscapeVectorizer', () => {
 
   it('clip policy keeps the essential H0 class as a tent up to the clip value', () => {
     const sets = [set('a', [[0, Infinity]], [])];
-    const v = new LandscapeVectorizer({ degrees: [0], depth: 1, gridSize: 3, range: { start: 0, stop: 2 }, infinite: { mode: 'clip', value: 2 } });
+    const v = new LandscapeVectorizer({
+      degrees: [0],
+      depth: 1,
+      gridSize: 3,
+      range: { start: 0, stop: 2 },
+      infinite: { mode: 'clip', value: 2 },
+    });
     expect([...v.fitTransform(sets).data]).toEqual([0, 1, 0]);
     const d = new LandscapeVectorizer({ degrees: [0], depth: 1, gridSize: 3, range: { start: 0, stop: 2 } });
     expect([...d.fitTransform(sets).data]).toEqual([0, 0, 0]);

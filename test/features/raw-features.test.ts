@@ -1,9 +1,16 @@
 import { describe, expect, it } from 'vitest';
-import { RawFeatures, covarianceEigenvalues, downsample, resample } from '../../src/features/raw-features.js';
+import { covarianceEigenvalues, downsample, RawFeatures, resample } from '../../src/features/raw-features.js';
 import type { DistanceSample, ImageSample, PointSample, SignalSample } from '../../src/io/dataset.js';
 
 function points(id: string, coords: number[], dim = 2): PointSample {
-  return { kind: 'points', id, label: 'a', dim, count: coords.length / dim, coords: Float64Array.from(coords) };
+  return {
+    kind: 'points',
+    id,
+    label: 'a',
+    dim,
+    count: coords.length / dim,
+    coords: Float64Array.from(coords),
+  };
 }
 
 describe('RawFeatures', () => {
@@ -17,7 +24,14 @@ describe('RawFeatures', () => {
     // covariance of the square's corners (n − 1 divisor): diag(1/3, 1/3)
     expect(x.data[4]).toBeCloseTo(1 / 3, 12);
     expect(x.data[5]).toBeCloseTo(1 / 3, 12);
-    expect(r.featureNames()).toEqual(['D2/r=0.1768', 'D2/r=0.5303', 'D2/r=0.8839', 'D2/r=1.2374', 'eig/1', 'eig/2']);
+    expect(r.featureNames()).toEqual([
+      'D2/r=0.1768',
+      'D2/r=0.5303',
+      'D2/r=0.8839',
+      'D2/r=1.2374',
+      'eig/1',
+      'eig/2',
+    ]);
   });
 
   it('learns the histogram range from training samples only', () => {
@@ -34,7 +48,8 @@ describe('RawFeatures', () => {
     const s = Math.sin(Math.PI / 6);
     const raw = [3, 0, -3, 0, 0, 1, 0, -1];
     const rot: number[] = [];
-    for (let i = 0; i < 4; i++) rot.push(c * raw[2 * i] - s * raw[2 * i + 1], s * raw[2 * i] + c * raw[2 * i + 1]);
+    for (let i = 0; i < 4; i++)
+      rot.push(c * raw[2 * i] - s * raw[2 * i + 1], s * raw[2 * i] + c * raw[2 * i + 1]);
     const out = new Float64Array(2);
     covarianceEigenvalues(Float64Array.from(rot), 4, 2, out);
     expect(out[0]).toBeCloseTo(6, 10);
@@ -42,7 +57,13 @@ describe('RawFeatures', () => {
   });
 
   it('distances: histogram of the entries above the diagonal', () => {
-    const d: DistanceSample = { kind: 'distances', id: 'd', label: 'a', size: 3, matrix: Float64Array.from([0, 1, 2, 1, 0, 3, 2, 3, 0]) };
+    const d: DistanceSample = {
+      kind: 'distances',
+      id: 'd',
+      label: 'a',
+      size: 3,
+      matrix: Float64Array.from([0, 1, 2, 1, 0, 3, 2, 3, 0]),
+    };
     const r = new RawFeatures({ bins: 3, upperQuantile: 1 }).fit([d]);
     expect([...r.transform([d]).data]).toEqual([0, 1 / 3, 2 / 3]);
   });
@@ -61,6 +82,8 @@ describe('RawFeatures', () => {
     const im: ImageSample = { kind: 'image', id: 'i', label: 'a', shape: [4, 4], values: img };
     const ri = new RawFeatures({ imageSize: 2 }).fit([im]);
     expect(ri.featureNames()).toEqual(['pixel/y=0,x=0', 'pixel/y=0,x=1', 'pixel/y=1,x=0', 'pixel/y=1,x=1']);
-    expect(RawFeatures.fromJSON(JSON.parse(JSON.stringify(ri.toJSON()))).transform([im]).data).toEqual(ri.transform([im]).data);
+    expect(RawFeatures.fromJSON(JSON.parse(JSON.stringify(ri.toJSON()))).transform([im]).data).toEqual(
+      ri.transform([im]).data,
+    );
   });
 });

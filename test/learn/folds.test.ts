@@ -56,12 +56,16 @@ describe('stratifiedFolds', () => {
 
 describe('checkFoldable', () => {
   it('refuses one class, naming what to change', () => {
-    expect(() => checkFoldable(new Int32Array(6), ['ok'], 3)).toThrow(/only one class \('ok'\).*at least two classes/);
+    expect(() => checkFoldable(new Int32Array(6), ['ok'], 3)).toThrow(
+      /only one class \('ok'\).*at least two classes/,
+    );
   });
   it('refuses a class smaller than the folds and suggests a fold count', () => {
     const y = encodeLabels(['a', 'a', 'a', 'a', 'a', 'b', 'b', 'b'], ['a', 'b']);
     expect(() => checkFoldable(y, ['a', 'b'], 5)).toThrow(UserError);
-    expect(() => checkFoldable(y, ['a', 'b'], 5)).toThrow("class 'b' has 3 samples, fewer than the 5 folds asked for; use --folds 3 or fewer");
+    expect(() => checkFoldable(y, ['a', 'b'], 5)).toThrow(
+      "class 'b' has 3 samples, fewer than the 5 folds asked for; use --folds 3 or fewer",
+    );
     expect(() => checkFoldable(y, ['a', 'b'], 3)).not.toThrow();
   });
 });

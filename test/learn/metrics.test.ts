@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { accuracy, argmaxRows, balancedAccuracy, confusionMatrix, macroF1, summarize } from '../../src/learn/metrics.js';
+import {
+  accuracy,
+  argmaxRows,
+  balancedAccuracy,
+  confusionMatrix,
+  macroF1,
+  summarize,
+} from '../../src/learn/metrics.js';
 
 // Definitions: balanced accuracy as the mean per-class recall (Brodersen, Ong, Stephan, Buhmann, "The balanced
 // accuracy and its posterior distribution", 2010); macro-F1 as the arithmetic mean of per-class F1 scores
