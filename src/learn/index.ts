@@ -1,8 +1,52 @@
 export * from './classifier.js';
 export { DenseClassifier, DenseNetwork, type DenseOptions, type DenseState } from './dense.js';
+export {
+  checkStudy,
+  type EvaluationOptions,
+  type EvaluationResult,
+  type FoldOutcome,
+  formatMetricsJson,
+  type LinearWeights,
+  runEvaluation,
+  type StudyResult,
+} from './evaluate.js';
+export {
+  checkFoldable,
+  classCounts,
+  encodeLabels,
+  type Fold,
+  type FoldOptions,
+  stratifiedFolds,
+} from './folds.js';
 export * from './matrix.js';
+export {
+  accuracy,
+  argmaxRows,
+  balancedAccuracy,
+  type Confusion,
+  confusionMatrix,
+  macroF1,
+  type Summary,
+  summarize,
+} from './metrics.js';
+export {
+  loadClassifierFolder,
+  loadModelFolder,
+  MODEL_FOLDER_FORMAT,
+  type ModelFolderManifest,
+  saveClassifierFolder,
+  saveModelFolder,
+} from './model-folder.js';
 export { candidateHyperparameters, classifierFromJSON, createClassifier } from './models.js';
 export { Pca, type PcaOptions, type PcaState } from './pca.js';
 export { PcaSvmClassifier } from './pca-svm.js';
 export { StandardScaler, type StandardScalerOptions, type StandardScalerState } from './scaler.js';
+export {
+  DEFAULT_LANDSCAPE_CANDIDATES,
+  type LandscapeCandidate,
+  type ModelFactory,
+  type Selection,
+  type SelectionOptions,
+  selectHyperparameters,
+} from './select.js';
 export { type SvmKernel, SvmModel, type SvmOptions, type SvmState } from './svm.js';
