@@ -218,7 +218,7 @@ export function meanBandChart(
     resolve: { scale: { y: 'independent' } },
     spacing: 18,
     spec: {
-      width: shown >= 3 ? 268 : shown === 2 ? 400 : 620,
+      width: shown >= 4 ? 196 : shown === 3 ? 268 : shown === 2 ? 400 : 620,
       height: 180,
       layer: [
         {
@@ -252,6 +252,7 @@ export interface WeightCurve {
 
 /** A discriminative map for one degree: signed curves on the landscape's own axis, one per layer. */
 export function weightMapChart(degree: number, curves: readonly WeightCurve[], yTitle: string, title?: string): ChartSpec {
+  const layers = [...new Set(curves.filter((c) => c.degree === degree).map((c) => `λ${c.layer}`))];
   const values: Array<Record<string, unknown>> = [];
   for (const c of curves) {
     if (c.degree !== degree) continue;
@@ -259,9 +260,9 @@ export function weightMapChart(degree: number, curves: readonly WeightCurve[], y
     for (const j of keep) values.push({ layer: `λ${c.layer}`, t: round(c.t[j]), value: round(c.value[j]) });
   }
   return {
-    ...(title ? { title: { text: title } } : {}),
-    width: 520,
-    height: 150,
+    title: { text: title ?? degreeName(degree) },
+    width: 620,
+    height: 170,
     data: { values },
     layer: [
       { data: { values: [{ zero: 0 }] }, mark: { type: 'rule', color: DIVERGING_COLOURS.zero }, encoding: { y: { field: 'zero', type: 'quantitative' } } },
@@ -270,7 +271,8 @@ export function weightMapChart(degree: number, curves: readonly WeightCurve[], y
         encoding: {
           x: { field: 't', type: 'quantitative', title: `filtration scale t (data units) — H${degree}` },
           y: { field: 'value', type: 'quantitative', title: yTitle },
-          color: { field: 'layer', type: 'nominal', title: 'layer' },
+          color: { field: 'layer', type: 'nominal', title: 'layer', scale: classColour(layers) },
+          strokeDash: { field: 'layer', type: 'nominal', legend: null, scale: { domain: layers, range: [[1, 0], [6, 3], [2, 2], [8, 3, 2, 3]] } },
         },
       },
     ],

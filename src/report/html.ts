@@ -181,7 +181,7 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
   if (ds.means.length > 0) {
     const charts: string[] = [];
     for (const m of ds.means) {
-      const svg = await renderSvg(meanBandChart(m.degree, m.classes));
+      const svg = await renderSvg(meanBandChart(m.degree, m.classes, 4));
       const first = m.classes[0]?.band;
       const caption = first
         ? `H${m.degree}: mean landscape per class with a ${Math.round(first.level * 100)}% simultaneous band (multiplier bootstrap, ${first.draws} draws, ${first.scope === 'layer' ? 'one band per layer' : 'one band over all layers'}).`
@@ -225,7 +225,7 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
   if (ds.maps?.weights && ds.maps.weights.curves.length > 0) {
     const degrees = [...new Set(ds.maps.weights.curves.map((c) => c.degree))].sort((a, b) => a - b);
     for (const degree of degrees) {
-      const svg = await renderSvg(weightMapChart(degree, ds.maps.weights.curves, 'weight'));
+      const svg = await renderSvg(weightMapChart(degree, ds.maps.weights.curves, 'standardised weight'));
       maps.push(figure(svg, escapeHtml(ds.maps.weights.note), 'map'));
     }
   }
