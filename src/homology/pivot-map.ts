@@ -80,19 +80,25 @@ export class PivotMap {
  * The working column of a reduction: a multiset of cofacet entries (rank, index) over Z/2, from which the
  * pivot — smallest rank, ties to the largest index, odd multiplicity — is taken.
  *
- * Entries of rank ≤ `bound` live in a binary min-heap; larger ones are appended, unsorted, to an overflow
- * list, since most of them are never reached before the column finds its pivot. When the heap runs dry the
- * bound rises (its step doubling) and the overflow entries now within it move into the heap. Invariant:
- * every entry of rank ≤ bound is in the heap, every other entry in the overflow.
+ * Two levels: entries of rank ≤ `bound` live in a binary min-heap; larger ones are appended, unsorted, to
+ * one of BUCKETS rank ranges of `step` ranks each above `base` (the last range is open), since most of them
+ * are never reached before the column finds its pivot. When the heap runs dry the next non-empty range
+ * moves into the heap. Invariant: every entry of rank ≤ bound is in the heap, every other entry in the
+ * bucket of its range.
  */
+const BUCKETS = 64;
+const LAST = BUCKETS - 1;
+
 export class CofacetHeap {
   ranks: Int32Array;
   indices: Float64Array;
   size = 0;
-  private spillRanks: Int32Array;
-  private spillIndices: Float64Array;
-  private spillSize = 0;
-  private bound = 0x7fffffff;
+  private readonly bucketRanks: Int32Array[] = [];
+  private readonly bucketIndices: Float64Array[] = [];
+  private readonly bucketSizes = new Int32Array(BUCKETS);
+  private base = 0;
+  private current = 0;
+  private bound = 0x7ffffffe;
   private step = 1;
   /** Set by `popPivot`. */
   pivotRank = 0;
@@ -101,33 +107,41 @@ export class CofacetHeap {
   constructor(capacity = 1024) {
     this.ranks = new Int32Array(capacity);
     this.indices = new Float64Array(capacity);
-    this.spillRanks = new Int32Array(capacity);
-    this.spillIndices = new Float64Array(capacity);
+    for (let b = 0; b < BUCKETS; b++) {
+      this.bucketRanks.push(new Int32Array(64));
+      this.bucketIndices.push(new Float64Array(64));
+    }
   }
 
-  /** Empties the column; entries up to rank `bound` go to the heap first, the bound then rises by `step`, doubling. */
-  clear(bound = 0x7ffffffe, step = 1): void {
+  /** Empties the column; the heap first takes ranks base … base + step − 1, later ranges step ranks at a time. */
+  clear(base = 0, step = 0x3fffffff): void {
     this.size = 0;
-    this.spillSize = 0;
-    this.bound = bound;
+    this.bucketSizes.fill(0);
+    this.base = base;
     this.step = Math.max(1, step);
+    this.current = 0;
+    this.bound = Math.min(0x7ffffffe, base + this.step - 1);
   }
 
   push(rank: number, index: number): void {
-    if (rank > this.bound) {
-      if (this.spillSize === this.spillRanks.length) {
-        const r = new Int32Array(this.spillSize * 2);
-        r.set(this.spillRanks);
-        const x = new Float64Array(this.spillSize * 2);
-        x.set(this.spillIndices);
-        this.spillRanks = r;
-        this.spillIndices = x;
-      }
-      this.spillRanks[this.spillSize] = rank;
-      this.spillIndices[this.spillSize++] = index;
+    if (rank <= this.bound) {
+      this.heapPush(rank, index);
       return;
     }
-    this.heapPush(rank, index);
+    let b = Math.floor((rank - this.base) / this.step);
+    if (b > LAST) b = LAST;
+    const k = this.bucketSizes[b];
+    if (k === this.bucketRanks[b].length) {
+      const r = new Int32Array(k * 2);
+      r.set(this.bucketRanks[b]);
+      const x = new Float64Array(k * 2);
+      x.set(this.bucketIndices[b]);
+      this.bucketRanks[b] = r;
+      this.bucketIndices[b] = x;
+    }
+    this.bucketRanks[b][k] = rank;
+    this.bucketIndices[b][k] = index;
+    this.bucketSizes[b] = k + 1;
   }
 
   private heapPush(rank: number, index: number): void {
@@ -178,24 +192,34 @@ export class CofacetHeap {
     indices[i] = index;
   }
 
-  /** Raises the bound past the smallest overflow rank and moves the entries now within it into the heap. */
-  private refill(): void {
-    const sr = this.spillRanks;
-    const si = this.spillIndices;
-    let least = 0x7fffffff;
-    for (let k = 0; k < this.spillSize; k++) if (sr[k] < least) least = sr[k];
-    this.step *= 2;
-    this.bound = Math.min(0x7ffffffe, Math.max(this.bound + this.step, least + this.step));
-    let w = 0;
-    // invariant: sr[0..w) keeps the entries of sr[0..k) above the new bound
-    for (let k = 0; k < this.spillSize; k++) {
-      if (sr[k] <= this.bound) this.heapPush(sr[k], si[k]);
-      else {
-        sr[w] = sr[k];
-        si[w++] = si[k];
+  /** Moves the next non-empty range into the heap; false when every range is empty. */
+  private refill(): boolean {
+    const sizes = this.bucketSizes;
+    while (true) {
+      let b = this.current + 1;
+      while (b <= LAST && sizes[b] === 0) b++;
+      if (b > LAST) return false;
+      const br = this.bucketRanks[b];
+      const bi = this.bucketIndices[b];
+      const count = sizes[b];
+      sizes[b] = 0;
+      if (b < LAST) {
+        this.current = b;
+        this.bound = Math.min(0x7ffffffe, this.base + (b + 1) * this.step - 1);
+        for (let k = 0; k < count; k++) this.heapPush(br[k], bi[k]);
+        return true;
       }
+      // The open range: start the ranges again from its smallest rank, twice as wide.
+      let least = 0x7fffffff;
+      for (let k = 0; k < count; k++) if (br[k] < least) least = br[k];
+      const ranks = br.slice(0, count);
+      const indices = bi.slice(0, count);
+      this.base = least;
+      this.step *= 2;
+      this.current = -1;
+      this.bound = least - 1;
+      for (let k = 0; k < count; k++) this.push(ranks[k], indices[k]);
     }
-    this.spillSize = w;
   }
 
   /**
@@ -217,8 +241,7 @@ export class CofacetHeap {
         this.pivotIndex = index;
         return true;
       }
-      if (this.spillSize === 0) return false;
-      this.refill();
+      if (!this.refill()) return false;
     }
   }
 }

@@ -54,6 +54,12 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
     );
   }
 
+  if (maxDegree >= 2 && binomial(n, 3) >= 2 ** 32) {
+    throw new UserError(
+      `${n} points are too many for degree 2 (over 2^32 triangles); subsample the cloud or compute degrees 0,1`,
+    );
+  }
+
   // Effective edge values: max of the edge and its two vertices.
   let values = edgeValues;
   if (vertexValues !== undefined) {
@@ -146,15 +152,12 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
   if (maxDegree === 0) return diagrams;
 
   const table = new BinomialTable(n, 4);
-  const engine = new Reduction(n, rankOf, levels, table);
-  // Degree-1 columns: cycle edges in reverse filtration order.
-  const pivots1 = new PivotMap(Math.max(16, cycleCount));
-  diagrams.push(engine.reduceEdges(cycleI, cycleJ, cycleRank, cycleCount, pivots1));
+  // Triangles paired in degree 1 are cleared from degree 2: a bitset over all triangle numbers.
+  const cleared = maxDegree >= 2 ? new Uint8Array(Math.ceil(binomial(n, 3) / 8)) : undefined;
+  const engine = new Reduction(n, rankOf, levels, table, cleared);
+  diagrams.push(engine.reduceEdges(cycleI, cycleJ, cycleRank, cycleCount));
   if (maxDegree === 1) return diagrams;
-
-  const columns2 = triangleColumns(n, rankOf, levelCount, table, pivots1);
-  const pivots2 = new PivotMap(Math.max(16, columns2.length >> 2));
-  diagrams.push(engine.reduceTriangles(columns2, pivots2));
+  diagrams.push(engine.reduceTriangles(levelCount));
   return diagrams;
 }
 
@@ -360,69 +363,17 @@ function checkSize(
   }
 }
 
-/** Degree-2 columns: every triangle inside the threshold and not cleared, by rank descending then index ascending. */
-function triangleColumns(
-  n: number,
-  rankOf: Int32Array,
-  levelCount: number,
-  table: BinomialTable,
-  pivots1: PivotMap,
-): Float64Array {
-  const total = binomial(n, 3);
-  const useBits = total <= 2 ** 28;
-  let cleared: Uint8Array | undefined;
-  if (useBits) {
-    cleared = new Uint8Array(Math.ceil(total / 8));
-    const bits = cleared;
-    pivots1.forEachKey((t) => {
-      bits[t >>> 3] |= 1 << (t & 7);
-    });
-  }
-  const isCleared = (t: number): boolean =>
-    cleared !== undefined ? (cleared[t >>> 3] & (1 << (t & 7))) !== 0 : pivots1.has(t);
-  const b3 = table.row(3);
-  const b2 = table.row(2);
-  const counts = new Float64Array(levelCount + 1);
-  for (let pass = 0; pass < 2; pass++) {
-    let out: Float64Array | undefined;
-    let next: Float64Array | undefined;
-    if (pass === 1) {
-      // Offsets for descending rank: ranks above r come first.
-      next = new Float64Array(levelCount);
-      let acc = 0;
-      for (let r = levelCount - 1; r >= 0; r--) {
-        next[r] = acc;
-        acc += counts[r];
-      }
-      out = new Float64Array(acc);
-    }
-    for (let a = 2; a < n; a++) {
-      const rowA = a * n;
-      for (let b = 1; b < a; b++) {
-        const rab = rankOf[rowA + b];
-        if (rab === NO_EDGE) continue;
-        const rowB = b * n;
-        const base = b3[a] + b2[b];
-        // invariant: triangles (a, b, c) are visited in increasing index base + c
-        for (let c = 0; c < b; c++) {
-          const rac = rankOf[rowA + c];
-          const rbc = rankOf[rowB + c];
-          if (rac === NO_EDGE || rbc === NO_EDGE) continue;
-          let r = rab > rac ? rab : rac;
-          if (rbc > r) r = rbc;
-          const t = base + c;
-          if (isCleared(t)) continue;
-          if (pass === 0) counts[r]++;
-          else (out as Float64Array)[(next as Float64Array)[r]++] = t;
-        }
-      }
-    }
-    if (pass === 1) return out as Float64Array;
-  }
-  return new Float64Array(0);
-}
-
-/** The reduction of degree-1 and degree-2 coboundary columns, sharing one heap and one store of columns. */
+/**
+ * The reduction of degree-1 and degree-2 coboundary columns (cohomology, clearing), with apparent pairs
+ * (Bauer, "Ripser: efficient computation of Vietoris–Rips persistence barcodes", 2021): a d-simplex σ and a
+ * cofacet τ of the same rank form an apparent pair when τ is σ's oldest cofacet and σ is τ's youngest facet
+ * of that rank. Such pairs are persistence pairs of zero length: their columns are skipped and they are
+ * never stored; when a reduction meets τ as a pivot, σ is found again by local arithmetic.
+ *
+ * Orders used throughout: a simplex's oldest cofacet has the smallest rank, ties to the largest number
+ * (found by scanning the added vertex downwards); its youngest facet of a given rank is the one with the
+ * smallest number.
+ */
 class Reduction {
   private readonly heap = new CofacetHeap(4096);
   /** Stored reduction columns (the simplices whose coboundaries sum to a reduced column), flattened. */
@@ -435,61 +386,111 @@ class Reduction {
   private readonly vertices = new Int32Array(4);
   /** First bound step of the working column, in ranks (see CofacetHeap). */
   private readonly step: number;
+  private readonly c2: Float64Array;
+  private readonly c3: Float64Array;
+  private readonly c4: Float64Array;
+  /** The added vertex of the cofacet found by the last oldest-cofacet scan. */
+  private found = -1;
+  private pivots = new PivotMap(16);
 
   constructor(
     private readonly n: number,
     private readonly rankOf: Int32Array,
     private readonly levels: Float64Array,
     private readonly table: BinomialTable,
+    private readonly cleared: Uint8Array | undefined,
   ) {
     this.step = Math.max(1, Math.ceil(levels.length / 64));
+    this.c2 = table.row(2);
+    this.c3 = table.row(3);
+    this.c4 = table.row(4);
+  }
+
+  // ---------------------------------------------------------------- degree 1: edges and triangles
+
+  /** The oldest cofacet of the edge (i < j) of rank r, as a triangle number, or −1; sets `found`. */
+  private oldestOfEdge(i: number, j: number, r: number): number {
+    const { n, rankOf, c2, c3 } = this;
+    const rowI = i * n;
+    const rowJ = j * n;
+    // invariant: no cofacet {i, j, k'} with k' > k has rank r
+    for (let k = n - 1; k >= 0; k--) {
+      if (rankOf[rowI + k] > r || rankOf[rowJ + k] > r) continue; // also skips k = i, j
+      this.found = k;
+      return k > j ? c3[k] + c2[j] + i : k > i ? c3[j] + c2[k] + i : c3[j] + c2[i] + k;
+    }
+    return -1;
+  }
+
+  /** Whether (i < j) is the youngest rank-r facet of the rank-r triangle {i, j, k}. */
+  private youngestEdge(i: number, j: number, k: number, r: number): boolean {
+    const { n, rankOf, c2 } = this;
+    const e = c2[j] + i;
+    if (rankOf[i * n + k] === r && (k > i ? c2[k] + i : c2[i] + k) < e) return false;
+    if (rankOf[j * n + k] === r && (k > j ? c2[k] + j : c2[j] + k) < e) return false;
+    return true;
+  }
+
+  /** The edge number that forms an apparent pair with the triangle a > b > c of rank r, or −1. */
+  private apparentEdge(a: number, b: number, c: number, r: number, t: number): number {
+    const { n, rankOf, c2 } = this;
+    // Facets by increasing number: (c, b), (c, a), (b, a); the first of rank r is the youngest.
+    let lo: number;
+    let hi: number;
+    if (rankOf[c * n + b] === r) {
+      lo = c;
+      hi = b;
+    } else if (rankOf[c * n + a] === r) {
+      lo = c;
+      hi = a;
+    } else {
+      lo = b;
+      hi = a;
+    }
+    return this.oldestOfEdge(lo, hi, r) === t ? c2[hi] + lo : -1;
+  }
+
+  private markCleared(t: number): void {
+    const cleared = this.cleared;
+    if (cleared !== undefined) cleared[t >>> 3] |= 1 << (t & 7);
   }
 
   /**
-   * Degree-1 columns: the cycle edges (lowEnds[c] < highEnds[c]) listed in filtration order, processed from
-   * the last one back (reverse filtration order).
+   * Degree-1 columns: the cycle edges (lowEnds[c] < highEnds[c], rank columnRanks[c]) listed in filtration
+   * order, processed from the last one back (reverse filtration order).
    */
-  reduceEdges(
-    lowEnds: Int32Array,
-    highEnds: Int32Array,
-    columnRanks: Int32Array,
-    count: number,
-    pivots: PivotMap,
-  ): Diagram {
-    const { n, rankOf, levels, heap } = this;
-    const b2 = this.table.row(2);
-    const b3 = this.table.row(3);
+  reduceEdges(lowEnds: Int32Array, highEnds: Int32Array, columnRanks: Int32Array, count: number): Diagram {
+    const { levels, heap, c2 } = this;
+    const vertices = this.vertices;
     const births: number[] = [];
     const deaths: number[] = [];
     this.resetStore();
+    const pivots = new PivotMap(Math.max(16, count >> 3));
+    this.pivots = pivots;
     let previousRank = -1;
-    for (let c = count - 1; c >= 0; c--) {
-      const i = lowEnds[c];
-      const j = highEnds[c];
-      const e = (j * (j - 1)) / 2 + i;
-      const rowI = i * n;
-      const rowJ = j * n;
-      const r = columnRanks[c];
-      // Columns of larger rank only own pivots of larger rank, so the first column of each rank cannot
-      // meet an owned cofacet of its own rank.
+    for (let col = count - 1; col >= 0; col--) {
+      const i = lowEnds[col];
+      const j = highEnds[col];
+      const r = columnRanks[col];
+      const e = c2[j] + i;
+      // Only columns of rank r own pivots of rank r; the first column of a rank meets no owned one.
       const tied = r === previousRank;
       previousRank = r;
-      // Emergent pair: the earliest cofacet is the first one of rank r met in decreasing index order.
-      let emergent = -1;
-      // invariant: no cofacet with third vertex above k has rank r
-      for (let k = n - 1; k >= 0; k--) {
-        const rki = rankOf[rowI + k];
-        const rkj = rankOf[rowJ + k];
-        if (rki > r || rkj > r) continue; // also skips k = i, j (NO_EDGE on the diagonal)
-        const t = k > j ? b3[k] + b2[j] + i : k > i ? b3[j] + b2[k] + i : b3[j] + b2[i] + k;
-        if (!tied || !pivots.has(t)) emergent = t;
-        break;
+      const t = this.oldestOfEdge(i, j, r);
+      if (t >= 0) {
+        const k = this.found;
+        if (this.youngestEdge(i, j, k, r)) {
+          this.markCleared(t); // apparent pair: zero length, nothing stored
+          continue;
+        }
+        sort3(i, j, k, vertices);
+        if (!(tied && pivots.has(t)) && this.apparentEdge(vertices[0], vertices[1], vertices[2], r, t) < 0) {
+          pivots.set(t, this.storeColumn1(e)); // emergent pair
+          this.markCleared(t);
+          continue;
+        }
       }
-      if (emergent >= 0) {
-        pivots.set(emergent, this.storeColumn1(e));
-        continue;
-      }
-      heap.clear(r + this.step, this.step);
+      heap.clear(r, this.step);
       this.scratchLength = 0;
       this.addEdgeCofacets(i, j, r);
       this.pushScratch(e);
@@ -499,72 +500,219 @@ class Reduction {
           deaths.push(Infinity);
           break;
         }
-        const owner = pivots.get(heap.pivotIndex);
-        if (owner < 0) {
-          const death = levels[heap.pivotRank];
-          if (death > levels[r]) {
-            births.push(levels[r]);
-            deaths.push(death);
-          }
-          pivots.set(heap.pivotIndex, this.storeScratch());
-          break;
+        const pr = heap.pivotRank;
+        const pi = heap.pivotIndex;
+        const owner = pivots.get(pi);
+        if (owner >= 0) {
+          heap.push(pr, pi);
+          for (let s = this.starts[owner]; s < this.starts[owner + 1]; s++) this.addEdge(this.store[s]);
+          continue;
         }
-        heap.push(heap.pivotRank, heap.pivotIndex);
-        const from = this.starts[owner];
-        const to = this.starts[owner + 1];
-        for (let s = from; s < to; s++) {
-          const f = this.store[s];
-          const fj = edgeHighVertex(f);
-          const fi = f - (fj * (fj - 1)) / 2;
-          this.addEdgeCofacets(fi, fj, rankOf[fi * n + fj]);
-          this.pushScratch(f);
+        this.table.vertices(pi, 3, vertices);
+        const apparent = this.apparentEdge(vertices[0], vertices[1], vertices[2], pr, pi);
+        if (apparent >= 0) {
+          heap.push(pr, pi);
+          this.addEdge(apparent);
+          continue;
         }
+        const death = levels[pr];
+        if (death > levels[r]) {
+          births.push(levels[r]);
+          deaths.push(death);
+        }
+        pivots.set(pi, this.storeScratch());
+        this.markCleared(pi);
+        break;
       }
     }
     return { degree: 1, births: Float64Array.from(births), deaths: Float64Array.from(deaths) };
   }
 
-  reduceTriangles(columns: Float64Array, pivots: PivotMap): Diagram {
-    const { n, rankOf, levels, heap, vertices } = this;
-    const b2 = this.table.row(2);
-    const b3 = this.table.row(3);
-    const b4 = this.table.row(4);
+  /** Adds the coboundary of the edge numbered f to the working column and f to its reduction column. */
+  private addEdge(f: number): void {
+    const fj = edgeHighVertex(f);
+    const fi = f - this.c2[fj];
+    this.addEdgeCofacets(fi, fj, this.rankOf[fi * this.n + fj]);
+    this.pushScratch(f);
+  }
+
+  /** Pushes every cofacet {i, j, k} inside the threshold of the edge (i < j) of rank r. */
+  private addEdgeCofacets(i: number, j: number, r: number): void {
+    const { n, rankOf, heap, c2, c3 } = this;
+    const rowI = i * n;
+    const rowJ = j * n;
+    // invariant: cofacets with third vertex above k are in the working column
+    for (let k = n - 1; k >= 0; k--) {
+      const rki = rankOf[rowI + k];
+      const rkj = rankOf[rowJ + k];
+      if (rki === NO_EDGE || rkj === NO_EDGE) continue;
+      let rk = rki > rkj ? rki : rkj;
+      if (r > rk) rk = r;
+      heap.push(rk, k > j ? c3[k] + c2[j] + i : k > i ? c3[j] + c2[k] + i : c3[j] + c2[i] + k);
+    }
+  }
+
+  // ---------------------------------------------------------------- degree 2: triangles and tetrahedra
+
+  /** The oldest cofacet of the triangle a > b > c of rank r, as a tetrahedron number, or −1; sets `found`. */
+  private oldestOfTriangle(a: number, b: number, c: number, r: number): number {
+    const { n, rankOf, c2, c3, c4 } = this;
+    const rowA = a * n;
+    const rowB = b * n;
+    const rowC = c * n;
+    // invariant: no cofacet with fourth vertex above k has rank r
+    for (let k = n - 1; k >= 0; k--) {
+      if (rankOf[rowA + k] > r || rankOf[rowB + k] > r || rankOf[rowC + k] > r) continue;
+      this.found = k;
+      return k > a
+        ? c4[k] + c3[a] + c2[b] + c
+        : k > b
+          ? c4[a] + c3[k] + c2[b] + c
+          : k > c
+            ? c4[a] + c3[b] + c2[k] + c
+            : c4[a] + c3[b] + c2[c] + k;
+    }
+    return -1;
+  }
+
+  /** Whether the triangle a > b > c (number t) is the youngest rank-r facet of the rank-r tetrahedron with k. */
+  private youngestTriangle(a: number, b: number, c: number, k: number, r: number, t: number): boolean {
+    const { n, rankOf } = this;
+    const ra = rankOf[a * n + k];
+    const rb = rankOf[b * n + k];
+    const rc = rankOf[c * n + k];
+    const rab = rankOf[a * n + b];
+    const rac = rankOf[a * n + c];
+    const rbc = rankOf[b * n + c];
+    if (Math.max(rab, ra, rb) === r && this.triangleNumber(a, b, k) < t) return false;
+    if (Math.max(rac, ra, rc) === r && this.triangleNumber(a, c, k) < t) return false;
+    if (Math.max(rbc, rb, rc) === r && this.triangleNumber(b, c, k) < t) return false;
+    return true;
+  }
+
+  /** The number of the triangle {p, q, k} where p > q and k is distinct from both. */
+  private triangleNumber(p: number, q: number, k: number): number {
+    const { c2, c3 } = this;
+    return k > p ? c3[k] + c2[p] + q : k > q ? c3[p] + c2[k] + q : c3[p] + c2[q] + k;
+  }
+
+  /** The triangle number forming an apparent pair with the tetrahedron w > x > y > z (number q, rank r), or −1. */
+  private apparentTriangle(w: number, x: number, y: number, z: number, r: number, q: number): number {
+    const { n, rankOf, c2, c3 } = this;
+    const wx = rankOf[w * n + x];
+    const wy = rankOf[w * n + y];
+    const wz = rankOf[w * n + z];
+    const xy = rankOf[x * n + y];
+    const xz = rankOf[x * n + z];
+    const yz = rankOf[y * n + z];
+    // Facets by increasing number: xyz, wyz, wxz, wxy; the first of rank r is the youngest.
+    let a: number;
+    let b: number;
+    let c: number;
+    if (Math.max(xy, xz, yz) === r) {
+      a = x;
+      b = y;
+      c = z;
+    } else if (Math.max(wy, wz, yz) === r) {
+      a = w;
+      b = y;
+      c = z;
+    } else if (Math.max(wx, wz, xz) === r) {
+      a = w;
+      b = x;
+      c = z;
+    } else {
+      a = w;
+      b = x;
+      c = y;
+    }
+    return this.oldestOfTriangle(a, b, c, r) === q ? c3[a] + c2[b] + c : -1;
+  }
+
+  /** Degree 2: columns are the triangles inside the threshold that are neither cleared nor apparent. */
+  reduceTriangles(levelCount: number): Diagram {
+    const { n, rankOf, levels, heap, c2, c3 } = this;
+    const cleared = this.cleared as Uint8Array;
+    const vertices = this.vertices;
+    // Pass over every triangle in increasing number; keep the columns that need work, with their ranks.
+    let found = new Float64Array(1 << 16);
+    let foundRanks = new Int32Array(1 << 16);
+    let foundCount = 0;
+    for (let a = 2; a < n; a++) {
+      const rowA = a * n;
+      for (let b = 1; b < a; b++) {
+        const rab = rankOf[rowA + b];
+        if (rab === NO_EDGE) continue;
+        const rowB = b * n;
+        const base = c3[a] + c2[b];
+        // invariant: triangles (a, b, c') with c' < c are classified
+        for (let c = 0; c < b; c++) {
+          const rac = rankOf[rowA + c];
+          const rbc = rankOf[rowB + c];
+          if (rac === NO_EDGE || rbc === NO_EDGE) continue;
+          const t = base + c;
+          if (cleared[t >>> 3] & (1 << (t & 7))) continue;
+          let r = rab > rac ? rab : rac;
+          if (rbc > r) r = rbc;
+          if (this.oldestOfTriangle(a, b, c, r) >= 0 && this.youngestTriangle(a, b, c, this.found, r, t))
+            continue;
+          if (foundCount === found.length) {
+            const f2 = new Float64Array(found.length * 2);
+            f2.set(found);
+            found = f2;
+            const r2 = new Int32Array(foundRanks.length * 2);
+            r2.set(foundRanks);
+            foundRanks = r2;
+          }
+          found[foundCount] = t;
+          foundRanks[foundCount++] = r;
+        }
+      }
+    }
+    // Reverse filtration order: rank descending, ties by increasing number (stable counting sort).
+    const next = new Int32Array(levelCount + 1);
+    for (let q = 0; q < foundCount; q++) next[foundRanks[q]]++;
+    let acc = 0;
+    for (let r = levelCount - 1; r >= 0; r--) {
+      const cnt = next[r];
+      next[r] = acc;
+      acc += cnt;
+    }
+    const columns = new Float64Array(foundCount);
+    const columnRanks = new Int32Array(foundCount);
+    for (let q = 0; q < foundCount; q++) {
+      const p = next[foundRanks[q]]++;
+      columns[p] = found[q];
+      columnRanks[p] = foundRanks[q];
+    }
+
     const births: number[] = [];
     const deaths: number[] = [];
     this.resetStore();
-    for (let col = 0; col < columns.length; col++) {
+    const pivots = new PivotMap(Math.max(16, foundCount));
+    this.pivots = pivots;
+    let previousRank = -1;
+    for (let col = 0; col < foundCount; col++) {
       const t = columns[col];
+      const r = columnRanks[col];
       this.table.vertices(t, 3, vertices);
       const a = vertices[0];
       const b = vertices[1];
       const c = vertices[2];
-      const r = triangleRank(rankOf, n, a, b, c);
-      let emergent = -1;
-      const rowA = a * n;
-      const rowB = b * n;
-      const rowC = c * n;
-      // invariant: no cofacet with fourth vertex above k has rank r
-      for (let k = n - 1; k >= 0; k--) {
-        const ra = rankOf[rowA + k];
-        const rb = rankOf[rowB + k];
-        const rc = rankOf[rowC + k];
-        if (ra > r || rb > r || rc > r) continue; // also skips k = a, b, c
-        const q =
-          k > a
-            ? b4[k] + b3[a] + b2[b] + c
-            : k > b
-              ? b4[a] + b3[k] + b2[b] + c
-              : k > c
-                ? b4[a] + b3[b] + b2[k] + c
-                : b4[a] + b3[b] + b2[c] + k;
-        if (!pivots.has(q)) emergent = q;
-        break;
+      const tied = r === previousRank;
+      previousRank = r;
+      const q = this.oldestOfTriangle(a, b, c, r);
+      if (q >= 0) {
+        sort4(a, b, c, this.found, vertices);
+        if (
+          !(tied && pivots.has(q)) &&
+          this.apparentTriangle(vertices[0], vertices[1], vertices[2], vertices[3], r, q) < 0
+        ) {
+          pivots.set(q, this.storeColumn1(t)); // emergent pair
+          continue;
+        }
       }
-      if (emergent >= 0) {
-        pivots.set(emergent, this.storeColumn1(t));
-        continue;
-      }
-      heap.clear(r + this.step, this.step);
+      heap.clear(r, this.step);
       this.scratchLength = 0;
       this.addTriangleCofacets(a, b, c, r);
       this.pushScratch(t);
@@ -574,61 +722,51 @@ class Reduction {
           deaths.push(Infinity);
           break;
         }
-        const owner = pivots.get(heap.pivotIndex);
-        if (owner < 0) {
-          const death = levels[heap.pivotRank];
-          if (death > levels[r]) {
-            births.push(levels[r]);
-            deaths.push(death);
-          }
-          pivots.set(heap.pivotIndex, this.storeScratch());
-          break;
+        const pr = heap.pivotRank;
+        const pi = heap.pivotIndex;
+        const owner = pivots.get(pi);
+        if (owner >= 0) {
+          heap.push(pr, pi);
+          for (let s = this.starts[owner]; s < this.starts[owner + 1]; s++) this.addTriangle(this.store[s]);
+          continue;
         }
-        heap.push(heap.pivotRank, heap.pivotIndex);
-        const from = this.starts[owner];
-        const to = this.starts[owner + 1];
-        for (let s = from; s < to; s++) {
-          const f = this.store[s];
-          this.table.vertices(f, 3, vertices);
-          const fa = vertices[0];
-          const fb = vertices[1];
-          const fc = vertices[2];
-          this.addTriangleCofacets(fa, fb, fc, triangleRank(rankOf, n, fa, fb, fc));
-          this.pushScratch(f);
+        this.table.vertices(pi, 4, vertices);
+        const apparent = this.apparentTriangle(vertices[0], vertices[1], vertices[2], vertices[3], pr, pi);
+        if (apparent >= 0) {
+          heap.push(pr, pi);
+          this.addTriangle(apparent);
+          continue;
         }
+        const death = levels[pr];
+        if (death > levels[r]) {
+          births.push(levels[r]);
+          deaths.push(death);
+        }
+        pivots.set(pi, this.storeScratch());
+        break;
       }
     }
     return { degree: 2, births: Float64Array.from(births), deaths: Float64Array.from(deaths) };
   }
 
-  /** Pushes every cofacet {i, j, k} inside the threshold of the edge (i < j) of rank r. */
-  private addEdgeCofacets(i: number, j: number, r: number): void {
-    const { n, rankOf, heap } = this;
-    const b2 = this.table.row(2);
-    const b3 = this.table.row(3);
-    const rowI = i * n;
-    const rowJ = j * n;
-    // invariant: cofacets with third vertex above k are in the heap
-    for (let k = n - 1; k >= 0; k--) {
-      const rki = rankOf[rowI + k];
-      const rkj = rankOf[rowJ + k];
-      if (rki === NO_EDGE || rkj === NO_EDGE) continue;
-      let rk = rki > rkj ? rki : rkj;
-      if (r > rk) rk = r;
-      heap.push(rk, k > j ? b3[k] + b2[j] + i : k > i ? b3[j] + b2[k] + i : b3[j] + b2[i] + k);
-    }
+  /** Adds the coboundary of the triangle numbered f to the working column and f to its reduction column. */
+  private addTriangle(f: number): void {
+    const v = this.vertices;
+    this.table.vertices(f, 3, v);
+    const a = v[0];
+    const b = v[1];
+    const c = v[2];
+    this.addTriangleCofacets(a, b, c, triangleRank(this.rankOf, this.n, a, b, c));
+    this.pushScratch(f);
   }
 
   /** Pushes every cofacet inside the threshold of the triangle a > b > c of rank r. */
   private addTriangleCofacets(a: number, b: number, c: number, r: number): void {
-    const { n, rankOf, heap } = this;
-    const b2 = this.table.row(2);
-    const b3 = this.table.row(3);
-    const b4 = this.table.row(4);
+    const { n, rankOf, heap, c2, c3, c4 } = this;
     const rowA = a * n;
     const rowB = b * n;
     const rowC = c * n;
-    // invariant: cofacets with fourth vertex above k are in the heap
+    // invariant: cofacets with fourth vertex above k are in the working column
     for (let k = n - 1; k >= 0; k--) {
       const ra = rankOf[rowA + k];
       const rb = rankOf[rowB + k];
@@ -637,17 +775,20 @@ class Reduction {
       let rk = ra > rb ? ra : rb;
       if (rc > rk) rk = rc;
       if (r > rk) rk = r;
-      const q =
+      heap.push(
+        rk,
         k > a
-          ? b4[k] + b3[a] + b2[b] + c
+          ? c4[k] + c3[a] + c2[b] + c
           : k > b
-            ? b4[a] + b3[k] + b2[b] + c
+            ? c4[a] + c3[k] + c2[b] + c
             : k > c
-              ? b4[a] + b3[b] + b2[k] + c
-              : b4[a] + b3[b] + b2[c] + k;
-      heap.push(rk, q);
+              ? c4[a] + c3[b] + c2[k] + c
+              : c4[a] + c3[b] + c2[c] + k,
+      );
     }
   }
+
+  // ---------------------------------------------------------------- stored reduction columns
 
   private resetStore(): void {
     this.storeLength = 0;
@@ -722,4 +863,42 @@ function triangleRank(rankOf: Int32Array, n: number, a: number, b: number, c: nu
   let r = ab > ac ? ab : ac;
   if (bc > r) r = bc;
   return r;
+}
+
+/** Writes p, q, s in decreasing order into out[0..3). */
+function sort3(p: number, q: number, s: number, out: Int32Array): void {
+  let a = p;
+  let b = q;
+  let c = s;
+  if (a < b) [a, b] = [b, a];
+  if (b < c) [b, c] = [c, b];
+  if (a < b) [a, b] = [b, a];
+  out[0] = a;
+  out[1] = b;
+  out[2] = c;
+}
+
+/** Writes a > b > c and k in decreasing order into out[0..4). */
+function sort4(a: number, b: number, c: number, k: number, out: Int32Array): void {
+  if (k > a) {
+    out[0] = k;
+    out[1] = a;
+    out[2] = b;
+    out[3] = c;
+  } else if (k > b) {
+    out[0] = a;
+    out[1] = k;
+    out[2] = b;
+    out[3] = c;
+  } else if (k > c) {
+    out[0] = a;
+    out[1] = b;
+    out[2] = k;
+    out[3] = c;
+  } else {
+    out[0] = a;
+    out[1] = b;
+    out[2] = c;
+    out[3] = k;
+  }
 }
