@@ -1,4 +1,4 @@
-import { join } from 'node:path';
+import { resolve } from 'node:path';
 import { packageRoot, version } from '../core/version.js';
 import { FeatureExtractor } from '../features/combined.js';
 import { type LandscapeVectorizerOptions, parseLandscapeFeatureName } from '../features/landscape-vectorizer.js';
@@ -492,7 +492,7 @@ export async function runDemo(options: DemoOptions = {}): Promise<DemoResult> {
     const started = performance.now();
     const at = (from: number, to: number) => (done: number, of: number) =>
       options.onProgress?.(Math.round(100 * i + from + ((to - from) * done) / Math.max(1, of)), total);
-    const loaded = await loadDataset(join(packageRoot(), spec.path), spec.kind ? { kind: spec.kind } : {});
+    const loaded = await loadDataset(resolve(packageRoot(), spec.path), spec.kind ? { kind: spec.kind } : {});
     const dataset: Dataset = { ...loaded, source: spec.path };
     const diagrams = await computeDiagramsParallel(dataset.samples, spec.diagram, { workers: options.workers, onProgress: at(0, 20) });
     const evaluation = await runEvaluation(dataset, {
