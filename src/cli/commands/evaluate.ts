@@ -1,13 +1,19 @@
 import { join } from 'node:path';
 import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
-import { FEATURE_SET_NAMES, type FeatureSetName, featureSetsFor } from '../../features/combined.js';
+import {
+  checkFeatureSet,
+  FEATURE_SET_NAMES,
+  type FeatureSetName,
+  featureSetsFor,
+} from '../../features/combined.js';
 import type { LandscapeVectorizerOptions } from '../../features/landscape-vectorizer.js';
 import type { DiagramOptions } from '../../homology/compute.js';
+import type { DiagramSet } from '../../homology/diagram.js';
 import { describeInfinitePolicy } from '../../homology/diagram.js';
 import { METRICS, type Metric } from '../../homology/metric.js';
 import { writeFilesAtomic } from '../../io/atomic.js';
-import type { Dataset } from '../../io/dataset.js';
+import type { Dataset, SampleKind } from '../../io/dataset.js';
 import { loadDataset, parseKind } from '../../io/load.js';
 import { MODEL_NAMES, type ModelName } from '../../learn/classifier.js';
 import type { EvaluationOptions } from '../../learn/evaluate.js';
@@ -42,26 +48,123 @@ export interface StudyCommandOptions {
   quiet?: boolean;
 }
 
-/** Adds the options shared by `evaluate` and `train` to a command. */
-export function addStudyOptions(command: Command): Command {
+/** Adds the options that say how diagrams are computed (shared by evaluate, train, vectorize). */
+export function addDiagramOptions(command: Command): Command {
   return command
     .option('--kind <kind>', 'sample kind (default: detected from the input)')
     .option('--degrees <list>', 'homology degrees for the diagrams and landscapes, from 0, 1, 2', '0,1')
-    .option('--seed <n>', 'seed of every split and model', '1')
-    .option('--models <list>', `models: ${MODEL_NAMES.join(', ')} (default: all)`)
-    .option(
-      '--features <list>',
-      `feature sets: ${FEATURE_SET_NAMES.join(', ')} (default: all the kind allows)`,
-    )
-    .option('--inner-folds <k>', 'folds of the inner cross-validation that chooses hyperparameters', '3')
-    .option('--depths <list>', 'landscape depths K tried by the inner cross-validation', '5,3')
-    .option('--grid-sizes <list>', 'landscape grid sizes G tried by the inner cross-validation', '50,25')
-    .option('--infinite <policy>', "essential classes: 'drop' or 'clip:VALUE'", 'drop')
     .option('--max-scale <r>', 'largest Rips scale kept (default: none)')
     .option('--metric <name>', `distance between points: ${METRICS.join(', ')}`, 'euclidean')
     .option('--embed <DIM:DELAY[:STRIDE]>', 'turn each signal into a cloud of delay windows before Rips')
     .option('--superlevel', 'images and signals: superlevel sets (bright first)')
-    .option('--workers <n>', 'worker threads for the diagrams (default: every core)');
+    .option('--workers <n>', 'worker threads for the diagrams (default: every core)')
+    .option('--infinite <policy>', "essential classes: 'drop' or 'clip:VALUE'", 'drop');
+}
+
+/** Adds the options shared by `evaluate` and `train` (`single`: one model and one feature set). */
+export function addStudyOptions(command: Command, single = false): Command {
+  addDiagramOptions(command).option('--seed <n>', 'seed of every split and model', '1');
+  if (single) {
+    command
+      .option('--models <name>', `the model: ${MODEL_NAMES.join(', ')}`, 'pca-svm')
+      .option(
+        '--features <set>',
+        `the feature set: ${FEATURE_SET_NAMES.join(', ')} (default: landscape; raw for tables)`,
+      );
+  } else {
+    command
+      .option('--models <list>', `models: ${MODEL_NAMES.join(', ')} (default: all)`)
+      .option(
+        '--features <list>',
+        `feature sets: ${FEATURE_SET_NAMES.join(', ')} (default: all the kind allows)`,
+      );
+  }
+  return command
+    .option('--inner-folds <k>', 'folds of the inner cross-validation that chooses hyperparameters', '3')
+    .option('--depths <list>', 'landscape depths K tried by the inner cross-validation', '5,3')
+    .option('--grid-sizes <list>', 'landscape grid sizes G tried by the inner cross-validation', '50,25');
+}
+
+/** The parsed diagram options and what metrics.json / a manifest records of them. */
+export interface ParsedDiagramOptions {
+  degrees: number[];
+  diagramOptions: DiagramOptions;
+  workers?: number;
+  kind?: SampleKind;
+}
+
+export function parseDiagramOptions(
+  o: Pick<
+    StudyCommandOptions,
+    'kind' | 'degrees' | 'maxScale' | 'metric' | 'embed' | 'superlevel' | 'workers'
+  >,
+): ParsedDiagramOptions {
+  const degrees = parseDegreesOption(o.degrees, '--degrees', 2);
+  const metric = parseChoiceOption(o.metric, '--metric', METRICS) as Metric;
+  const maxScale =
+    o.maxScale === undefined ? undefined : parseNumberOption(o.maxScale, '--max-scale', { positive: true });
+  const embed = o.embed === undefined ? undefined : parseEmbedOption(o.embed);
+  const workers = o.workers === undefined ? undefined : parseIntegerOption(o.workers, '--workers', 1, 1024);
+  const kind = o.kind === undefined ? undefined : parseKind(o.kind);
+  const diagramOptions: DiagramOptions = { degrees, metric };
+  if (maxScale !== undefined) diagramOptions.maxScale = maxScale;
+  if (embed !== undefined) diagramOptions.embed = embed;
+  if (o.superlevel) diagramOptions.superlevel = true;
+  return {
+    degrees,
+    diagramOptions,
+    ...(workers !== undefined ? { workers } : {}),
+    ...(kind !== undefined ? { kind } : {}),
+  };
+}
+
+/** How the diagrams were computed, as recorded in metrics.json and manifests (stable key order). */
+export function diagramRecord(kind: SampleKind, d: DiagramOptions): Record<string, unknown> | string {
+  if (kind === 'diagrams') return 'given';
+  return {
+    degrees: d.degrees,
+    metric: d.metric ?? 'euclidean',
+    maxScale: d.maxScale ?? null,
+    embed: d.embed ?? null,
+    superlevel: d.superlevel === true,
+  };
+}
+
+/** Loads a dataset and refuses an empty one or --embed on non-signals. */
+export async function loadStudyDataset(input: string, parsed: ParsedDiagramOptions): Promise<Dataset> {
+  const dataset = await loadDataset(input, parsed.kind === undefined ? {} : { kind: parsed.kind });
+  if (dataset.samples.length === 0) throw new UserError('has no samples; nothing to do', { file: input });
+  if (parsed.diagramOptions.embed !== undefined && dataset.kind !== 'signal') {
+    throw new UserError(`--embed applies to signals, but this is a ${dataset.kind} dataset; drop --embed`, {
+      file: input,
+    });
+  }
+  return dataset;
+}
+
+/** The diagrams of every sample (a diagrams dataset is used as it is), with a progress bar. */
+export async function diagramsForCommand(
+  dataset: Dataset,
+  parsed: ParsedDiagramOptions,
+  quiet: boolean,
+): Promise<DiagramSet[]> {
+  if (dataset.kind === 'diagrams') {
+    return dataset.samples.map((s) => ({
+      sample: s.id,
+      label: s.label,
+      diagrams: s.kind === 'diagrams' ? s.diagrams : [],
+    }));
+  }
+  const { computeDiagramsParallel } = await import('../../homology/parallel.js');
+  const progress = await startProgress('diagrams', dataset.samples.length, quiet);
+  try {
+    return await computeDiagramsParallel(dataset.samples, parsed.diagramOptions, {
+      ...(parsed.workers !== undefined ? { workers: parsed.workers } : {}),
+      onProgress: (done) => progress.update(done),
+    });
+  } finally {
+    progress.stop();
+  }
 }
 
 function parsePositiveList(text: string, option: string, min: number): number[] {
@@ -80,6 +183,7 @@ export interface ParsedStudy {
   options: EvaluationOptions;
   featureSets: FeatureSetName[];
   models: ModelName[];
+  parsed: ParsedDiagramOptions;
 }
 
 /** Loads the dataset and turns the shared options into the library's options. */
@@ -88,42 +192,28 @@ export async function parseStudy(
   o: StudyCommandOptions,
   singleFeatureSet = false,
 ): Promise<ParsedStudy> {
-  const degrees = parseDegreesOption(o.degrees, '--degrees', 2);
+  const parsed = parseDiagramOptions(o);
   const seed = parseIntegerOption(o.seed, '--seed', 0, 2 ** 32 - 1);
   const innerFolds = parseIntegerOption(o.innerFolds, '--inner-folds', 2, 100);
   const depths = parsePositiveList(o.depths, '--depths', 1);
   const gridSizes = parsePositiveList(o.gridSizes, '--grid-sizes', 2);
   const infinite = parseInfiniteOption(o.infinite, '--infinite');
-  const metric = parseChoiceOption(o.metric, '--metric', METRICS) as Metric;
-  const maxScale =
-    o.maxScale === undefined ? undefined : parseNumberOption(o.maxScale, '--max-scale', { positive: true });
-  const embed = o.embed === undefined ? undefined : parseEmbedOption(o.embed);
-  const workers = o.workers === undefined ? undefined : parseIntegerOption(o.workers, '--workers', 1, 1024);
   const models =
     o.models === undefined ? [...MODEL_NAMES] : parseListOption(o.models, '--models', MODEL_NAMES);
   const requested =
     o.features === undefined ? undefined : parseListOption(o.features, '--features', FEATURE_SET_NAMES);
-  const kind = o.kind === undefined ? undefined : parseKind(o.kind);
-
-  const dataset = await loadDataset(input, kind === undefined ? {} : { kind });
-  if (dataset.samples.length === 0)
-    throw new UserError('has no samples; nothing to evaluate', { file: input });
-  if (embed !== undefined && dataset.kind !== 'signal') {
-    throw new UserError(`--embed applies to signals, but this is a ${dataset.kind} dataset; drop --embed`, {
-      file: input,
-    });
+  if (singleFeatureSet && models.length > 1)
+    throw new UserError(`--models takes one model here, got ${models.join(',')}; pick one`);
+  if (singleFeatureSet && requested && requested.length > 1) {
+    throw new UserError(`--features takes one feature set here, got ${requested.join(',')}; pick one`);
   }
-  const featureSets = requested ?? featureSetsFor(dataset.kind);
-  if (singleFeatureSet && featureSets.length > 1 && requested !== undefined) {
-    throw new UserError(`--features takes one feature set here, got ${featureSets.join(',')}; pick one`);
-  }
+  const dataset = await loadStudyDataset(input, parsed);
+  const featureSets =
+    requested ?? (singleFeatureSet ? featureSetsFor(dataset.kind).slice(0, 1) : featureSetsFor(dataset.kind));
+  for (const set of featureSets) checkFeatureSet(set, dataset.kind);
   const landscapeCandidates: LandscapeCandidate[] = [];
   for (const depth of depths) for (const gridSize of gridSizes) landscapeCandidates.push({ depth, gridSize });
-  const landscape: LandscapeVectorizerOptions = { degrees, infinite };
-  const diagramOptions: DiagramOptions = { degrees, metric };
-  if (maxScale !== undefined) diagramOptions.maxScale = maxScale;
-  if (embed !== undefined) diagramOptions.embed = embed;
-  if (o.superlevel) diagramOptions.superlevel = true;
+  const landscape: LandscapeVectorizerOptions = { degrees: parsed.degrees, infinite };
   const options: EvaluationOptions = {
     featureSets,
     models,
@@ -131,25 +221,16 @@ export async function parseStudy(
     innerFolds,
     landscape,
     landscapeCandidates,
-    diagramOptions,
-    ...(workers !== undefined ? { workers } : {}),
+    diagramOptions: parsed.diagramOptions,
+    ...(parsed.workers !== undefined ? { workers: parsed.workers } : {}),
     record: {
       kind: dataset.kind,
       samples: dataset.samples.length,
-      diagrams:
-        dataset.kind === 'diagrams'
-          ? 'given'
-          : {
-              degrees,
-              metric,
-              maxScale: maxScale ?? null,
-              embed: embed ?? null,
-              superlevel: o.superlevel === true,
-              infinite: describeInfinitePolicy(infinite),
-            },
+      diagrams: diagramRecord(dataset.kind, parsed.diagramOptions),
+      infinite: describeInfinitePolicy(infinite),
     },
   };
-  return { dataset, options, featureSets, models };
+  return { dataset, options, featureSets, models, parsed };
 }
 
 interface EvaluateCommandOptions extends StudyCommandOptions {
@@ -220,6 +301,8 @@ Example:
       const outputs: Array<{ path: string; data: string | Uint8Array }> = [
         { path: join(o.out, 'metrics.json'), data: formatMetricsJson(result) },
       ];
+      const { evaluationReportHtml } = await import('../../report/study.js');
+      outputs.push({ path: join(o.out, 'report.html'), data: await evaluationReportHtml(input, study.dataset, result, study.options.landscape) });
       writeFilesAtomic(outputs);
       for (const r of result.results) {
         process.stdout.write(
@@ -228,7 +311,7 @@ Example:
         );
       }
       process.stdout.write(
-        `wrote ${join(o.out, 'metrics.json')} (cross-validated estimates; validate on independent data)\n`,
+        `wrote ${join(o.out, 'metrics.json')} and ${join(o.out, 'report.html')} (cross-validated estimates; validate on independent data)\n`,
       );
     });
 }

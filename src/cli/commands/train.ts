@@ -1,13 +1,83 @@
 import type { Command } from 'commander';
+import { UserError } from '../../core/errors.js';
+import type { FeatureData } from '../../features/combined.js';
+import { addStudyOptions, diagramsForCommand, parseStudy, type StudyCommandOptions } from './evaluate.js';
 
-/** `landform train`: placeholder until its issue lands; refuses to run. */
+interface TrainCommandOptions extends StudyCommandOptions {
+  save?: string;
+}
+
+/**
+ * `landform train <dataset> --save models/NAME`: chooses hyperparameters (and the landscape depth and grid)
+ * by inner cross-validation on all the data, fits on all of it, and saves a model folder.
+ */
 export function defineTrain(program: Command): Command {
-  return program
+  const command = program
     .command('train')
-    .description('(not yet available)')
-    .allowUnknownOption()
-    .allowExcessArguments()
-    .action(() => {
-      throw new Error("'landform train' is not built yet");
+    .description(
+      'fit one feature set and model on all the samples (hyperparameters by inner cross-validation) and save it',
+    )
+    .argument('<dataset>', 'labelled dataset the loader reads')
+    .option('--save <dir>', 'model folder to write, e.g. models/lattice');
+  addStudyOptions(command, true);
+  return command
+    .addHelpText(
+      'after',
+      `
+The folder holds manifest.json (options, the learned grid, classes, versions, checksums) and the classifier.
+'landform predict DIR <dataset>' labels new samples with it; 'landform vectorize --model DIR' exports the
+features it computes. Estimate accuracy with 'landform evaluate' first: a saved model carries no guarantee.
+
+Example:
+  landform train lattice-clouds.csv --features landscape --models pca-svm --save models/lattice`,
+    )
+    .action(async (input: string, o: TrainCommandOptions) => {
+      if (o.save === undefined)
+        throw new UserError('no --save DIR given; name the model folder to write, e.g. models/NAME');
+      const study = await parseStudy(input, o, true);
+      const { dataset, parsed } = study;
+      const labels = dataset.samples.map((s) => s.label);
+      const unlabelled = dataset.samples.find((s) => s.label === '');
+      if (unlabelled)
+        throw new UserError(`sample '${unlabelled.id}' has no label; training needs every label`, {
+          file: input,
+        });
+      const features = study.featureSets[0];
+      const diagrams =
+        features === 'raw' ? undefined : await diagramsForCommand(dataset, parsed, o.quiet === true);
+      const data: FeatureData = {
+        samples: dataset.samples,
+        ...(diagrams ? { diagrams } : {}),
+        ...(dataset.columns ? { columns: dataset.columns } : {}),
+      };
+      const { Pipeline } = await import('../../learn/pipeline.js');
+      const { saveModelFolder } = await import('../../learn/model-folder.js');
+      const options = study.options;
+      const pipeline = new Pipeline({
+        features,
+        model: study.models[0],
+        featureOptions: { ...(options.landscape ? { landscape: options.landscape } : {}) },
+        ...(options.landscapeCandidates ? { landscapeCandidates: options.landscapeCandidates } : {}),
+        ...(options.innerFolds !== undefined ? { innerFolds: options.innerFolds } : {}),
+        ...(options.seed !== undefined ? { seed: options.seed } : {}),
+      });
+      try {
+        await pipeline.fit(data, labels);
+        const { manifest, files } = await pipeline.toFolder({
+          ...options.record,
+          diagramOptions: dataset.kind === 'diagrams' ? null : parsed.diagramOptions,
+          columns: dataset.columns ?? null,
+        });
+        await saveModelFolder(o.save, { ...manifest }, files);
+        const chosen = Object.entries(pipeline.chosen())
+          .map(([k, v]) => `${k}=${v}`)
+          .join(' ');
+        process.stdout.write(
+          `trained ${features} + ${study.models[0]} on ${dataset.samples.length} samples (${manifest.classes.length} classes); chosen ${chosen}\n` +
+            `saved ${o.save}\n`,
+        );
+      } finally {
+        pipeline.dispose();
+      }
     });
 }

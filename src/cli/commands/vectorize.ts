@@ -1,13 +1,178 @@
 import type { Command } from 'commander';
+import { UserError } from '../../core/errors.js';
+import { provenance } from '../../core/version.js';
+import {
+  checkFeatureSet,
+  FEATURE_SET_NAMES,
+  type FeatureData,
+  FeatureExtractor,
+  type FeatureSetName,
+} from '../../features/combined.js';
+import type { DiagramOptions } from '../../homology/compute.js';
+import { describeInfinitePolicy } from '../../homology/diagram.js';
+import type { SampleKind } from '../../io/dataset.js';
+import { writeFeatureTable } from '../../io/feature-table.js';
+import { parseChoiceOption, parseGridOption, parseInfiniteOption, parseIntegerOption } from '../options.js';
+import {
+  addDiagramOptions,
+  diagramRecord,
+  diagramsForCommand,
+  loadStudyDataset,
+  type ParsedDiagramOptions,
+  parseDiagramOptions,
+  type StudyCommandOptions,
+} from './evaluate.js';
 
-/** `landform vectorize`: placeholder until its issue lands; refuses to run. */
+type VectorizeCommandOptions = Pick<
+  StudyCommandOptions,
+  'kind' | 'degrees' | 'maxScale' | 'metric' | 'embed' | 'superlevel' | 'workers' | 'quiet' | 'infinite'
+> & {
+  features: string;
+  depth: string;
+  gridSize: string;
+  grid?: string;
+  bins: string;
+  standardize?: boolean;
+  model?: string;
+  out?: string;
+};
+
+/**
+ * `landform vectorize <dataset> --out FILE`: the feature vectors of every sample, with readable column names,
+ * as CSV (`sample,label,<names>`) or NPY (+ sample and column sidecars). The vectoriser is fitted on all the
+ * given samples, or taken from a saved model with --model (transform only).
+ */
 export function defineVectorize(program: Command): Command {
-  return program
+  const command = program
     .command('vectorize')
-    .description('(not yet available)')
-    .allowUnknownOption()
-    .allowExcessArguments()
-    .action(() => {
-      throw new Error("'landform vectorize' is not built yet");
+    .description(
+      'feature vectors (landscape, raw or combined) of every sample, as CSV or NPY with named columns',
+    )
+    .argument('<dataset>', 'dataset the loader reads')
+    .option('--features <set>', `feature set: ${FEATURE_SET_NAMES.join(', ')}`, 'landscape')
+    .option('--depth <K>', 'landscape layers 1..K', '5')
+    .option(
+      '--grid-size <G>',
+      'grid points per degree and layer; the range is learned from the samples',
+      '50',
+    )
+    .option('--grid <START:STOP:COUNT>', 'explicit grid for every degree instead of a learned range')
+    .option('--bins <n>', 'bins of the raw distance histogram', '32')
+    .option('--standardize', 'centre and scale every feature (with the moments of the given samples)')
+    .option(
+      '--model <dir>',
+      'take the fitted features of a saved model (transform only; other feature options are ignored)',
+    )
+    .option(
+      '--out <file>',
+      'file to write: .csv, or .npy with FILE.samples.csv and FILE.columns.csv beside it',
+    );
+  addDiagramOptions(command);
+  return command
+    .addHelpText(
+      'after',
+      `
+Without --model the vectoriser is fitted on all the samples given (their range and scaling), which is right
+for exporting features but not for estimating accuracy: use 'landform evaluate', which fits inside each fold.
+Landscape columns read H<degree>/L<layer>/t=<scale>; raw columns D2/r=<distance>, eig/<k>, signal/i=<index>,
+pixel/y=<row>,x=<column>.
+
+Example:
+  landform vectorize lattice-clouds.csv --depth 3 --grid-size 40 --out lattice-features.csv
+  landform vectorize new-lattices.csv --model models/lattice --out new-features.npy`,
+    )
+    .action(async (input: string, o: VectorizeCommandOptions) => {
+      if (o.out === undefined)
+        throw new UserError('no --out FILE given; name the .csv or .npy file to write');
+      const format = /\.npy$/i.test(o.out) ? 'npy' : 'csv';
+      let extractor: FeatureExtractor;
+      let parsed: ParsedDiagramOptions;
+      let fitted = false;
+      let source: Record<string, unknown>;
+      if (o.model !== undefined) {
+        const { loadModelFolder } = await import('../../learn/model-folder.js');
+        const { manifest } = await loadModelFolder(o.model);
+        const m = manifest as {
+          extractor?: unknown;
+          record?: { kind?: SampleKind; diagramOptions?: DiagramOptions | null };
+        };
+        if (!m.extractor)
+          throw new UserError(
+            'the model folder holds no feature extractor; train it again with landform train --save',
+            { file: o.model },
+          );
+        extractor = FeatureExtractor.fromJSON(m.extractor);
+        const diagramOptions = m.record?.diagramOptions ?? { degrees: [0, 1] };
+        parsed = {
+          degrees: diagramOptions.degrees,
+          diagramOptions,
+          ...(m.record?.kind ? { kind: m.record.kind } : {}),
+        };
+        if (o.workers !== undefined) parsed.workers = parseIntegerOption(o.workers, '--workers', 1, 1024);
+        fitted = true;
+        source = { model: o.model };
+      } else {
+        parsed = parseDiagramOptions(o);
+        const set = parseChoiceOption(o.features, '--features', FEATURE_SET_NAMES) as FeatureSetName;
+        const depth = parseIntegerOption(o.depth, '--depth', 1, 1000);
+        const gridSize = parseIntegerOption(o.gridSize, '--grid-size', 2, 100_000);
+        const grid = o.grid === undefined ? undefined : parseGridOption(o.grid, '--grid');
+        const infinite = parseInfiniteOption(o.infinite, '--infinite');
+        const bins = parseIntegerOption(o.bins, '--bins', 1, 100_000);
+        extractor = new FeatureExtractor(set, {
+          landscape: {
+            degrees: parsed.degrees,
+            depth,
+            gridSize: grid ? grid.count : gridSize,
+            infinite,
+            standardize: o.standardize === true,
+            ...(grid ? { range: { start: grid.start, stop: grid.stop } } : {}),
+          },
+          raw: { bins },
+        });
+        source = {
+          features: set,
+          depth,
+          gridSize: grid ? grid.count : gridSize,
+          grid: grid ?? 'learned',
+          infinite: describeInfinitePolicy(infinite),
+          bins,
+          standardize: o.standardize === true,
+        };
+      }
+      const dataset = await loadStudyDataset(input, parsed);
+      checkFeatureSet(extractor.set, dataset.kind);
+      const diagrams =
+        extractor.set === 'raw' ? undefined : await diagramsForCommand(dataset, parsed, o.quiet === true);
+      const data: FeatureData = {
+        samples: dataset.samples,
+        ...(diagrams ? { diagrams } : {}),
+        ...(dataset.columns ? { columns: dataset.columns } : {}),
+      };
+      if (!fitted) extractor.fit(data);
+      const matrix = extractor.transform(data);
+      const record = {
+        input,
+        kind: dataset.kind,
+        samples: dataset.samples.length,
+        ...source,
+        fittedOn: fitted ? 'the saved model' : 'all the given samples',
+        diagrams: diagramRecord(dataset.kind, parsed.diagramOptions),
+        learned: extractor.toJSON(),
+      };
+      writeFeatureTable(
+        o.out,
+        {
+          ids: dataset.samples.map((s) => s.id),
+          labels: dataset.samples.map((s) => s.label),
+          names: extractor.featureNames(),
+          matrix,
+        },
+        provenance('vectorize', record),
+        format,
+      );
+      process.stdout.write(
+        `wrote ${o.out}: ${matrix.rows} samples × ${matrix.cols} features (${extractor.set}; fitted on ${record.fittedOn})\n`,
+      );
     });
 }
