@@ -41,8 +41,8 @@ export async function run(): Promise<void> {
     await writeDiagramsOutput(whole, sets, prov);
     const shards: string[] = [];
     for (let i = 1; i <= 8; i++) {
-      const plan = planShard({ samples, out: join(dir, 'shards', 'd.csv'), shard: resolveShard(`${i}/8`, {}), output: 'diagrams', provenance: prov });
-      await writeDiagramsOutput(plan.out, plan.samples.map((s) => ({ sample: s.id, label: s.label, diagrams: s.diagrams })), plan.provenance);
+      const plan = planShard<DiagramSample>({ samples, out: join(dir, 'shards', 'd.csv'), shard: resolveShard(`${i}/8`, {}), output: 'diagrams', settings: prov.options });
+      await writeDiagramsOutput(plan.out, plan.samples.map((s) => ({ sample: s.id, label: s.label, diagrams: s.diagrams })), plan.stamp(prov));
       shards.push(plan.out);
     }
     const floor = await time(() => {

@@ -218,6 +218,9 @@ function checkShards(inputs: ShardInput[]): void {
         { file },
       );
     }
+    if (record.settings !== first.record.settings) {
+      throw new UserError(`was made with different settings from ${first.file}; rerun this shard with the same command and options`, { file });
+    }
     if (record.total !== first.record.total || record.dataset !== first.record.dataset || record.assignment !== first.record.assignment) {
       throw new UserError(
         `was made from different data than ${first.file} (dataset of ${record.total} vs ${first.record.total} samples, or changed content); rerun every shard on the same dataset`,

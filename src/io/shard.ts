@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import { existsSync } from 'node:fs';
 import { basename, dirname, extname, join } from 'node:path';
 import { UserError } from '../core/errors.js';
-import type { Provenance } from '../core/version.js';
+import { type Provenance, version } from '../core/version.js';
 import type { Sample } from './dataset.js';
 import { provenancePath, readProvenance } from './provenance-file.js';
 
@@ -179,6 +179,8 @@ export interface ShardRecord {
   total: number;
   /** SHA-256 over every sample of the whole dataset (ids, labels, values), so shards of different data don't merge. */
   dataset: string;
+  /** SHA-256 of the settings known before computing, with the version: a rerun with the same digest is a no-op. */
+  settings: string;
   /** This shard's sample ids in dataset order, and their 0-based positions in the whole dataset. */
   ids: string[];
   ordinals: number[];
@@ -260,8 +262,11 @@ export interface ShardPlanInput<S extends Sample> {
   shard: ResolvedShard | undefined;
   /** What the file will hold. */
   output: 'diagrams' | 'table';
-  /** The provenance the command will write (without a shard record). */
-  provenance: Provenance;
+  /**
+   * Everything that decides the result, known before any computing (the command's name and options; keys in
+   * `PER_SHARD_OPTION_KEYS` are ignored). Its digest, with landform's version, goes into the shard record.
+   */
+  settings: Record<string, unknown>;
   /** `--force`: recompute even when the shard is finished. */
   force?: boolean;
   /** Column names of a table dataset, part of its content. */
@@ -273,24 +278,35 @@ export interface ShardPlan<S extends Sample> {
   samples: S[];
   /** The file to write. */
   out: string;
-  /** The provenance to write, with the shard record when sharded. */
-  provenance: ShardedProvenance;
-  /** True when this shard's output already exists with the same options, shard and data: nothing to do. */
+  /** The shard record (undefined when not sharded). */
+  record?: ShardRecord;
+  /** True when this shard's output already exists with the same settings, version, shard and data: nothing to do. */
   finished: boolean;
   /** A line for stderr describing the plan, or undefined when not sharded. */
   message?: string;
+  /** The provenance to write: `provenance` plus the shard record when sharded, unchanged otherwise. */
+  stamp(provenance: Provenance): ShardedProvenance;
+}
+
+/** SHA-256 (hex) of the settings that decide a result, per-shard keys removed, with landform's version. */
+export function settingsDigest(settings: Record<string, unknown>): string {
+  const kept: Record<string, unknown> = {};
+  for (const [key, value] of Object.entries(settings)) if (!PER_SHARD_OPTION_KEYS.includes(key)) kept[key] = value;
+  return createHash('sha256').update(canonicalJson({ version: version(), settings: kept })).digest('hex');
 }
 
 /**
- * Decides what a sharded command does: which samples, which file, what provenance, and whether the shard is
- * already finished. A shard is finished when its output and its provenance sidecar both exist and the sidecar
- * records the same command, version, options (apart from `PER_SHARD_OPTION_KEYS`), shard and dataset digest;
- * the sidecar is renamed into place after the output, so its presence means the output is complete.
+ * Decides what a sharded command does: which samples, which file, and whether the shard is already finished.
+ * A shard is finished when its output and its provenance sidecar both exist and the sidecar's shard record
+ * equals the one this run would write — same shard, same samples and data (digest), same settings and
+ * version (digest). The sidecar is renamed into place after the output, so its presence means the output is
+ * complete. The check runs before any computing, so the settings are those known up front; the provenance
+ * written at the end (which may add what was learned) is stamped with `plan.stamp`.
  */
 export function planShard<S extends Sample>(input: ShardPlanInput<S>): ShardPlan<S> {
   const { shard } = input;
   if (shard === undefined) {
-    return { samples: [...input.samples], out: input.out, provenance: input.provenance, finished: false };
+    return { samples: [...input.samples], out: input.out, finished: false, stamp: (p) => p };
   }
   const ids = input.samples.map((s) => s.id);
   const ordinals = shardOrdinals(ids, shard.shard);
@@ -305,20 +321,20 @@ export function planShard<S extends Sample>(input: ShardPlanInput<S>): ShardPlan
       input.columns === undefined
         ? datasetDigest(input.samples)
         : createHash('sha256').update(datasetDigest(input.samples)).update(JSON.stringify(input.columns)).digest('hex'),
+    settings: settingsDigest(input.settings),
     ids: ordinals.map((i) => ids[i]),
     ordinals,
   };
-  const provenance: ShardedProvenance = { ...input.provenance, shard: record };
   const samples = ordinals.map((i) => input.samples[i]);
-  const finished = !input.force && shardFinished(out, provenance);
+  const finished = !input.force && shardFinished(out, record);
   const message = finished
     ? `landform: ${shard.description} is already finished (${out}); nothing to do — add --force to recompute`
     : `landform: ${shard.description}: ${samples.length} of ${input.samples.length} samples → ${out}`;
-  return { samples, out, provenance, finished, message };
+  return { samples, out, record, finished, message, stamp: (p) => ({ ...p, shard: record }) };
 }
 
-/** True when `out` and its sidecar exist and the sidecar records exactly `expected` (shard record included). */
-export function shardFinished(out: string, expected: ShardedProvenance): boolean {
+/** True when `out` and its sidecar exist and the sidecar's shard record equals `expected`. */
+export function shardFinished(out: string, expected: ShardRecord): boolean {
   if (!existsSync(out) || !existsSync(provenancePath(out))) return false;
   let found: ShardedProvenance | undefined;
   try {
@@ -326,11 +342,7 @@ export function shardFinished(out: string, expected: ShardedProvenance): boolean
   } catch {
     return false;
   }
-  if (found === undefined || found.shard === undefined || expected.shard === undefined) return false;
-  return (
-    canonicalJson(sharedProvenance(found)) === canonicalJson(sharedProvenance(expected)) &&
-    canonicalJson(found.shard) === canonicalJson(expected.shard)
-  );
+  return found?.shard !== undefined && canonicalJson(found.shard) === canonicalJson(expected);
 }
 
 /** JSON with object keys sorted, so that two records compare by content, not by key order. */

@@ -45,13 +45,13 @@ const toSet = (s: DiagramSample): DiagramSet => ({ sample: s.id, label: s.label,
 
 /** Runs the "command" the way the CLI does: plan the shard, compute its samples, write through the same writer. */
 async function runDiagrams(samples: DiagramSample[], out: string, shard: string | undefined, prov: Provenance): Promise<string> {
-  const plan = planShard({ samples, out, shard: resolveShard(shard, {}), output: 'diagrams', provenance: prov });
-  if (!plan.finished) await writeDiagramsOutput(plan.out, plan.samples.map(toSet), plan.provenance);
+  const plan = planShard({ samples, out, shard: resolveShard(shard, {}), output: 'diagrams', settings: prov.options });
+  if (!plan.finished) await writeDiagramsOutput(plan.out, plan.samples.map(toSet), plan.stamp(prov));
   return plan.out;
 }
 
 async function runFeatures(samples: DiagramSample[], out: string, shard: string | undefined, prov: Provenance): Promise<string> {
-  const plan = planShard({ samples, out, shard: resolveShard(shard, {}), output: 'table', provenance: prov });
+  const plan = planShard({ samples, out, shard: resolveShard(shard, {}), output: 'table', settings: prov.options });
   const rows = plan.samples.length;
   const data = new Float64Array(rows * 3);
   plan.samples.forEach((s, i) => {
@@ -65,7 +65,7 @@ async function runFeatures(samples: DiagramSample[], out: string, shard: string 
     names: ['H0/count', 'H1/count', 'H1/persistence'],
     matrix: { rows, cols: 3, data },
   };
-  await writeFeaturesOutput(plan.out, table, plan.provenance);
+  await writeFeaturesOutput(plan.out, table, plan.stamp(prov));
   return plan.out;
 }
 

@@ -176,10 +176,11 @@ describe('planShard', () => {
   const prov = provenance('diagrams', { degrees: [0, 1], out: 'd.csv', workers: 2 });
 
   it('without a shard keeps every sample and the file as given', () => {
-    const plan = planShard({ samples, out: 'd.csv', shard: undefined, output: 'diagrams', provenance: prov });
+    const plan = planShard({ samples, out: 'd.csv', shard: undefined, output: 'diagrams', settings: prov.options });
     expect(plan.samples).toHaveLength(21);
     expect(plan.out).toBe('d.csv');
-    expect(plan.provenance).toEqual(prov);
+    expect(plan.stamp(prov)).toEqual(prov);
+    expect(plan.record).toBeUndefined();
     expect(plan.finished).toBe(false);
   });
 
@@ -187,31 +188,32 @@ describe('planShard', () => {
     const dir = tempDir();
     const out = join(dir, 'd.csv');
     const shard = resolveShard('2/3', {});
-    const plan = planShard({ samples, out, shard, output: 'diagrams', provenance: prov });
+    const plan = planShard({ samples, out, shard, output: 'diagrams', settings: prov.options });
     expect(plan.out).toBe(join(dir, 'd.shard-2-of-3.csv'));
     const expectedIds = samples.map((s) => s.id).filter((id) => shardOf(id, 3) === 2);
     expect(plan.samples.map((s) => s.id)).toEqual(expectedIds);
-    const record = plan.provenance.shard!;
+    const record = plan.record!;
+    expect(plan.stamp(prov)).toEqual({ ...prov, shard: record });
     expect(record.ids).toEqual(expectedIds);
     expect(record.ordinals.map((o) => samples[o].id)).toEqual(expectedIds);
     expect(record.total).toBe(21);
     expect(plan.finished).toBe(false);
 
-    writeWithProvenance(plan.out, 'sample,label,degree,birth,death\n', plan.provenance);
-    expect(planShard({ samples, out, shard, output: 'diagrams', provenance: prov }).finished).toBe(true);
+    writeWithProvenance(plan.out, 'sample,label,degree,birth,death\n', plan.stamp(prov));
+    expect(planShard({ samples, out, shard, output: 'diagrams', settings: prov.options }).finished).toBe(true);
     // --force recomputes.
-    expect(planShard({ samples, out, shard, output: 'diagrams', provenance: prov, force: true }).finished).toBe(false);
+    expect(planShard({ samples, out, shard, output: 'diagrams', settings: prov.options, force: true }).finished).toBe(false);
     // Worker count and output name do not change results: still finished.
     const other = provenance('diagrams', { degrees: [0, 1], out: 'd.csv', workers: 1 });
-    expect(planShard({ samples, out, shard, output: 'diagrams', provenance: other }).finished).toBe(true);
+    expect(planShard({ samples, out, shard, output: 'diagrams', settings: other.options }).finished).toBe(true);
     // Other options, or changed data, mean the shard must run again.
     const changed = provenance('diagrams', { degrees: [0], out: 'd.csv', workers: 2 });
-    expect(planShard({ samples, out, shard, output: 'diagrams', provenance: changed }).finished).toBe(false);
+    expect(planShard({ samples, out, shard, output: 'diagrams', settings: changed.options }).finished).toBe(false);
     const edited = samples.map((s, i) => (i === record.ordinals[0] ? { ...s, coords: s.coords.map((v) => v + 1) } : s));
-    expect(planShard({ samples: edited, out, shard, output: 'diagrams', provenance: prov }).finished).toBe(false);
+    expect(planShard({ samples: edited, out, shard, output: 'diagrams', settings: prov.options }).finished).toBe(false);
     // An output whose sidecar is missing (e.g. the run died between the two renames) is not finished.
     writeFileSync(join(dir, 'd.shard-1-of-3.csv'), 'sample,label,degree,birth,death\n');
-    expect(planShard({ samples, out, shard: resolveShard('1/3', {}), output: 'diagrams', provenance: prov }).finished).toBe(false);
+    expect(planShard({ samples, out, shard: resolveShard('1/3', {}), output: 'diagrams', settings: prov.options }).finished).toBe(false);
     expect(readdirSync(dir).sort()).toEqual(['d.shard-1-of-3.csv', 'd.shard-2-of-3.csv', 'd.shard-2-of-3.csv.provenance.json']);
   });
 
