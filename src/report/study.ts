@@ -287,18 +287,21 @@ export async function buildDatasetReport(
     name: string;
     description?: string;
     dataset: Dataset;
-    diagrams: readonly DiagramSet[];
+    /** The diagrams of every sample; without them (a table dataset) the report shows accuracy only. */
+    diagrams?: readonly DiagramSet[];
     evaluation: EvaluationResult;
     landscape: LandscapeVectorizerOptions;
-    diagramOptions?: DiagramOptions;
+    diagramOptions?: DiagramOptions | Record<string, unknown> | string;
   },
   options: ReportOptions = {},
 ): Promise<ReportPieces> {
-  const { dataset, diagrams, evaluation } = input;
+  const { dataset, evaluation } = input;
+  const diagrams = input.diagrams ?? [];
+  const shaped = diagrams.length > 0;
   const o = { ...DEFAULT_REPORT_OPTIONS, ...options };
   const degrees = options.degrees ?? input.landscape.degrees ?? [0, 1];
   const infinite = options.infinite ?? input.landscape.infinite ?? { mode: 'drop' as const };
-  const means = classMeans(diagrams, {
+  const means = !shaped ? [] : classMeans(diagrams, {
     degrees,
     depth: o.depth,
     gridCount: o.gridCount,
@@ -306,18 +309,20 @@ export async function buildDatasetReport(
     exact: false,
     band: { level: o.level, draws: o.draws, seed: o.seed },
   });
-  const contrast = contrastDiagrams(diagrams, { degrees, depth: o.depth, gridCount: o.gridCount, permutations: o.permutations, seed: o.seed, infinite });
+  const contrast = !shaped ? { tests: [] as ContrastTest[] } : contrastDiagrams(diagrams, { degrees, depth: o.depth, gridCount: o.gridCount, permutations: o.permutations, seed: o.seed, infinite });
   const axes = means.map((m) => {
     const t = new Float64Array(m.grid.count);
     for (let j = 0; j < m.grid.count; j++) t[j] = m.grid.start + (j * (m.grid.stop - m.grid.start)) / (m.grid.count - 1);
     return { degree: m.degree, t };
   });
-  const maps = await discriminativeMaps(diagrams, dataset.samples, evaluation, input.landscape, axes, { repeats: o.importanceRepeats, seed: o.seed });
+  const maps = !shaped ? undefined : await discriminativeMaps(diagrams, dataset.samples, evaluation, input.landscape, axes, { repeats: o.importanceRepeats, seed: o.seed });
   const classes = classesOf(dataset.samples);
-  const examples = classes.map((label) => {
-    const set = diagrams.find((d) => d.label === label) ?? diagrams[0];
-    return { label, sample: set.sample, diagrams: set.diagrams };
-  });
+  const examples = !shaped
+    ? []
+    : classes.map((label) => {
+        const set = diagrams.find((d) => d.label === label) ?? diagrams[0];
+        return { label, sample: set.sample, diagrams: set.diagrams };
+      });
   const report: DatasetReport = {
     name: input.name,
     ...(input.description ? { description: input.description } : {}),
@@ -335,6 +340,7 @@ export async function buildDatasetReport(
       'inner folds': evaluation.options.innerFolds,
       'landscape (K, G) candidates': evaluation.options.landscapeCandidates,
       seed: evaluation.seed,
+      ...(shaped ? {} : { note: 'no diagrams (table data): accuracy only' }),
       'class means': `depth ${o.depth}, ${o.gridCount}-point grid, ${Math.round(o.level * 100)}% band from ${o.draws} multiplier draws`,
       contrasts: `${o.permutations} permutations, L2 distance, Holm over all pairs × degrees`,
     },
@@ -355,6 +361,40 @@ export async function buildDatasetReport(
     findings: findingsOf(evaluation, contrast.tests),
   };
   return { report, means, contrasts: contrast.tests };
+}
+
+/**
+ * The report written beside `landform evaluate`'s metrics.json: one dataset, the same parts as the demo's.
+ * `diagrams` and `landscape` come from the evaluation (a raw-only study has no diagrams and gets accuracy only).
+ */
+export async function evaluationReportHtml(
+  input: string,
+  dataset: Dataset,
+  evaluation: EvaluationResult,
+  landscape: LandscapeVectorizerOptions | undefined,
+  options: ReportOptions = {},
+): Promise<string> {
+  const { renderReport } = await import('./html.js');
+  const name = input.split(/[\\/]/).filter((p) => p !== '').pop() ?? input;
+  const pieces = await buildDatasetReport(
+    {
+      name,
+      dataset,
+      ...(evaluation.diagrams ? { diagrams: evaluation.diagrams } : {}),
+      evaluation,
+      landscape: landscape ?? {},
+      diagramOptions: evaluation.options.diagrams as Record<string, unknown> | string | undefined,
+    },
+    { seed: evaluation.seed, ...options },
+  );
+  return renderReport({
+    title: `Shape study of ${name}`,
+    lead: 'Cross-validated accuracy of landscape and raw features, class means with bands, contrasts and discriminative maps.',
+    version: version(),
+    command: `landform evaluate ${input}`,
+    seed: evaluation.seed,
+    datasets: [pieces.report],
+  });
 }
 
 /** One shipped dataset of the demo and the options the study uses on it. */
