@@ -41,7 +41,9 @@ export async function main(argv: string[]): Promise<number> {
       }
       if (error.exitCode === 0) return 0;
       const first = (commanderMessage || error.message).split('\n').find((l) => l.trim() !== '') ?? error.message;
-      process.stderr.write(`landform: ${first.replace(/^error:\s*/, '')}; see 'landform --help'\n`);
+      const sub = program.commands.find((c) => c.name() === argv[0]);
+      const what = first.replace(/^error:\s*/, '').replace(/\.\s*$/, '');
+      process.stderr.write(`landform: ${what}; see 'landform ${sub ? `${sub.name()} ` : ''}--help'\n`);
       return 2;
     }
     if (isUserError(error)) {

@@ -57,3 +57,5 @@ export { parsePgm, formatPgm, parsePng, formatPng, type GrayImage } from './imag
 export { loadFolder, distanceFault, DISTANCE_TOLERANCE } from './folder.js';
 export { readLabelsFile, checkInsidePath, LABELS_FILE, type LabelledFile } from './labels-file.js';
 export { SCENARIOS, scenarioNamed, datasetFiles, datasetsReadme, type Scenario } from './scenarios/index.js';
+export { formatJsonOutput, writeJsonOutput } from './json-output.js';
+export { summarizeDataset, formatSummary, type DatasetSummary, type SizeRange } from './summary.js';
