@@ -81,6 +81,11 @@ export interface EvaluationOptions {
     dataset: Dataset,
     onProgress?: (done: number, total: number) => void,
   ) => Promise<DiagramSet[]>;
+  /**
+   * Model hyperparameter candidates for the inner CV, per model, replacing the models stage's default grid
+   * (e.g. a smaller grid for a quick study). Default: `candidateHyperparameters` of the models stage.
+   */
+  modelCandidates?: Partial<Record<ModelName, Hyperparameters[]>>;
   /** Creates the classifiers. Default: the models stage (`createClassifier`, `candidateHyperparameters`). */
   modelFactory?: ModelFactory;
   /** Anything else to record under `options` in metrics.json (e.g. the diagram options). */
@@ -169,6 +174,21 @@ export async function defaultModelFactory(): Promise<ModelFactory> {
   return { create: models.createClassifier, candidates: models.candidateHyperparameters };
 }
 
+/** The factory with some models' candidate grids replaced. */
+export function withCandidates(
+  factory: ModelFactory,
+  candidates?: Partial<Record<ModelName, Hyperparameters[]>>,
+): ModelFactory {
+  if (!candidates) return factory;
+  return {
+    create: factory.create,
+    candidates: (name, shape) => {
+      const given = candidates[name];
+      return given && given.length > 0 ? given.map((h) => ({ ...h })) : factory.candidates(name, shape);
+    },
+  };
+}
+
 /** Checks what a study needs before any work: two classes, enough samples per class, usable feature sets. */
 export function checkStudy(
   dataset: Dataset,
@@ -206,7 +226,10 @@ export async function runEvaluation(
   const innerFolds = options.innerFolds ?? DEFAULT_EVALUATION_OPTIONS.innerFolds;
   const models = options.models ?? [...MODEL_NAMES];
   const landscapeCandidates = options.landscapeCandidates ?? DEFAULT_LANDSCAPE_CANDIDATES;
-  const factory = options.modelFactory ?? (await defaultModelFactory());
+  const factory = withCandidates(
+    options.modelFactory ?? (await defaultModelFactory()),
+    options.modelCandidates,
+  );
   const classCount = classes.length;
   const outer = stratifiedFolds(y, classCount, { folds, repeats, seed });
 

@@ -7,6 +7,7 @@ import {
   type FeatureSetName,
 } from '../features/combined.js';
 import type { Classifier, Hyperparameters, ModelName } from './classifier.js';
+import { withCandidates } from './evaluate.js';
 import { checkFoldable, encodeLabels } from './folds.js';
 import type { Matrix } from './matrix.js';
 import { argmaxRows } from './metrics.js';
@@ -36,6 +37,8 @@ export interface PipelineOptions {
   innerFolds?: number;
   /** Seed of the inner splits and the classifier. Default 1. */
   seed?: number;
+  /** Model hyperparameter candidates replacing the models stage's default grid. */
+  modelCandidates?: Hyperparameters[];
 }
 
 export interface PipelineState {
@@ -70,6 +73,7 @@ export class Pipeline {
   readonly landscapeCandidates?: readonly LandscapeCandidate[];
   readonly innerFolds: number;
   readonly seed: number;
+  readonly modelCandidates?: Hyperparameters[];
   state?: PipelineState;
 
   constructor(options: PipelineOptions = {}) {
@@ -79,11 +83,15 @@ export class Pipeline {
     if (options.landscapeCandidates) this.landscapeCandidates = options.landscapeCandidates;
     this.innerFolds = options.innerFolds ?? 3;
     this.seed = options.seed ?? 1;
+    if (options.modelCandidates) this.modelCandidates = options.modelCandidates;
   }
 
   /** Chooses hyperparameters by inner CV on all of `data`, then fits features and classifier on all of it. */
   async fit(data: FeatureData, labels: readonly string[], factory?: ModelFactory): Promise<this> {
-    const models = factory ?? (await loadFactory());
+    const models = withCandidates(
+      factory ?? (await loadFactory()),
+      this.modelCandidates ? { [this.model]: this.modelCandidates } : undefined,
+    );
     const classes = [...new Set(labels)].sort();
     const y = encodeLabels(labels, classes);
     checkFoldable(y, classes, Math.min(this.innerFolds, 2), '--inner-folds');
