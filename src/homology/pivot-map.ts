@@ -100,6 +100,7 @@ export class CofacetHeap {
   private current = 0;
   private bound = 0x7ffffffe;
   private step = 1;
+  private shift = 0;
   /** Set by `popPivot`. */
   pivotRank = 0;
   pivotIndex = 0;
@@ -113,12 +114,15 @@ export class CofacetHeap {
     }
   }
 
-  /** Empties the column; the heap first takes ranks base … base + step − 1, later ranges step ranks at a time. */
+  /** Empties the column; the heap first takes ranks base … base + step − 1, later ranges step ranks at a time (step rounded up to a power of two). */
   clear(base = 0, step = 0x3fffffff): void {
     this.size = 0;
     this.bucketSizes.fill(0);
     this.base = base;
-    this.step = Math.max(1, step);
+    // A power of two, so that a rank's range is a shift away.
+    this.shift = 0;
+    while (2 ** this.shift < step && this.shift < 30) this.shift++;
+    this.step = 2 ** this.shift;
     this.current = 0;
     this.bound = Math.min(0x7ffffffe, base + this.step - 1);
   }
@@ -128,7 +132,7 @@ export class CofacetHeap {
       this.heapPush(rank, index);
       return;
     }
-    let b = Math.floor((rank - this.base) / this.step);
+    let b = (rank - this.base) >>> this.shift;
     if (b > LAST) b = LAST;
     const k = this.bucketSizes[b];
     if (k === this.bucketRanks[b].length) {
@@ -215,7 +219,8 @@ export class CofacetHeap {
       const ranks = br.slice(0, count);
       const indices = bi.slice(0, count);
       this.base = least;
-      this.step *= 2;
+      if (this.shift < 30) this.shift++;
+      this.step = 2 ** this.shift;
       this.current = -1;
       this.bound = least - 1;
       for (let k = 0; k < count; k++) this.push(ranks[k], indices[k]);
