@@ -66,6 +66,22 @@ describe('landform diagrams', () => {
     expect(Math.max(...Array.from(h1.deaths).map((d, i) => d - h1.births[i]))).toBeGreaterThan(0.5);
   }, 60000);
 
+  it('passes --filtration and --subsample through and records them', () => {
+    const dir = tempDir();
+    const input = join(dir, 'struts.csv');
+    writeFileSync(input, ringsCsv());
+    const out = join(dir, 'd.csv');
+    const r = runCli(['diagrams', input, '--filtration', 'dtm:4', '--subsample', 'maxmin:20', '--workers', '1', '--out', out]);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const prov = JSON.parse(readFileSync(`${out}.provenance.json`, 'utf8'));
+    expect(prov.options.filtration).toBe('dtm:4');
+    expect(prov.options.coveringRadius.largest).toBeGreaterThan(0);
+    // DTM values are radii and vertices enter at their DTM value (> 0), unlike plain Rips.
+    const sets = parseDiagramCsv(readFileSync(out, 'utf8'), out);
+    expect(Math.min(...Array.from(sets[0].diagrams[0].births))).toBeGreaterThan(0);
+  }, 60000);
+
   it('explains bad options on one line with exit code 2', () => {
     const dir = tempDir();
     const input = join(dir, 'struts.csv');

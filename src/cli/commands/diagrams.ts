@@ -11,6 +11,7 @@ import { formatDiagramCsv } from '../../io/diagram-csv.js';
 import { expectKind, loadDataset, parseKind } from '../../io/load.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
 import { parseChoiceOption, parseDegreesOption, parseIntegerOption, parseNumberOption } from '../options.js';
+import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
 import { startProgress } from '../progress.js';
 
 interface DiagramsCommandOptions {
@@ -23,6 +24,8 @@ interface DiagramsCommandOptions {
   workers?: string;
   out?: string;
   quiet?: boolean;
+  filtration?: string;
+  subsample?: string;
 }
 
 const INPUT_KINDS = ['points', 'distances', 'signal', 'image'] as const;
@@ -44,8 +47,9 @@ export function parseEmbedOption(text: string, option = '--embed'): DelayEmbeddi
  * diagram CSV with a provenance sidecar. Samples run on worker threads, one sample per task.
  */
 export function defineDiagrams(program: Command): Command {
-  return program
-    .command('diagrams')
+  const command = program.command('diagrams');
+  addFiltrationOptions(command);
+  return command
     .description('persistence diagrams of every sample: Vietoris–Rips for clouds and matrices, cubical for images, sublevel sets or delay embeddings for signals')
     .argument('<input>', 'dataset: points CSV (sample,label,x,y,…), long signal CSV (sample,label,value), or any format the loader reads')
     .option('--kind <kind>', `sample kind: ${INPUT_KINDS.join(', ')} (default: detected from the file)`)
@@ -73,6 +77,7 @@ Example:
       const metric = parseChoiceOption(options.metric, '--metric', METRICS) as Metric;
       const maxScale = options.maxScale === undefined ? undefined : parseNumberOption(options.maxScale, '--max-scale', { positive: true });
       const embed = options.embed === undefined ? undefined : parseEmbedOption(options.embed);
+      const choice = parseFiltrationOptions(options);
       const workers = options.workers === undefined ? availableParallelism() : parseIntegerOption(options.workers, '--workers', 1, 1024);
       let kind: SampleKind | undefined;
       if (options.kind !== undefined) {
@@ -84,7 +89,8 @@ Example:
         throw new UserError(`--embed applies to signals, but this is a ${dataset.kind} dataset; drop --embed`, { file: input });
       }
       if (dataset.samples.length === 0) throw new UserError('has no samples; nothing to compute', { file: input });
-      const computeOptions: DiagramOptions = { degrees, metric };
+      const computeOptions: DiagramOptions = { degrees, metric, filtration: choice.filtration };
+      if (choice.subsample !== undefined) computeOptions.subsample = choice.subsample;
       if (maxScale !== undefined) computeOptions.maxScale = maxScale;
       if (embed !== undefined) computeOptions.embed = embed;
       if (options.superlevel) computeOptions.superlevel = true;
@@ -107,6 +113,7 @@ Example:
         embed: embed ?? null,
         superlevel: options.superlevel === true,
         samples: sets.length,
+        ...filtrationRecord(choice, sets as Array<{ sample: string; coveringRadius?: number }>),
       };
       writeWithProvenance(options.out, formatDiagramCsv(sets), provenance('diagrams', record));
     });
