@@ -32,6 +32,12 @@ export interface LibsvmOptions {
   quiet?: boolean;
 }
 
+/** The emscripten module's views of WebAssembly memory (re-read on every use: they change when memory grows). */
+export interface LibsvmHeap {
+  HEAP32: Int32Array;
+  HEAPF64: Float64Array;
+}
+
 export interface LibsvmClass {
   new (options: LibsvmOptions): LibsvmInstance;
   SVM_TYPES: { C_SVC: string };
@@ -39,6 +45,12 @@ export interface LibsvmClass {
 }
 
 let loading: Promise<LibsvmClass> | undefined;
+let heap: LibsvmHeap | undefined;
+
+/** The memory of the loaded libsvm module (after `loadLibsvm` has resolved). */
+export function libsvmHeap(): LibsvmHeap | undefined {
+  return heap;
+}
 
 const NOTICE = /^(wasm streaming compile failed|falling back to ArrayBuffer instantiation)/;
 
@@ -70,6 +82,7 @@ async function load(): Promise<LibsvmClass> {
     dropExitHandler();
     const loader = require('libsvm-js/src/loadSVM.js') as (module: unknown) => LibsvmClass;
     await wasmModule.load();
+    heap = wasmModule as unknown as LibsvmHeap;
     return loader(wasmModule);
   } finally {
     console.warn = originalWarn;

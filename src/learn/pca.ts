@@ -1,3 +1,4 @@
+import { EVD, Matrix as MlMatrix } from 'ml-matrix';
 import { PCA as MlPca } from 'ml-pca';
 import { UserError } from '../core/errors.js';
 import type { Matrix } from './matrix.js';
@@ -32,8 +33,12 @@ export interface PcaJSON {
 }
 
 /**
- * Principal component analysis on the sample covariance (divisor n − 1), through ml-pca's eigen-
- * decomposition of the covariance. Projection uses only the first k loadings: z = L (x − mean).
+ * Principal component analysis on the sample covariance (divisor n − 1). With no more features than
+ * samples (d ≤ n) it is ml-pca's eigendecomposition of the d × d covariance. With more features than
+ * samples — usual for landscape vectors — the same components come from the n × n Gram matrix of the
+ * centred rows, G = X̃X̃ᵀ/(n − 1): its nonzero eigenvalues are the covariance's, and each eigenvector u
+ * gives the component v = X̃ᵀu / ‖X̃ᵀu‖ (the "snapshot" identity of Sirovich, "Turbulence and the dynamics
+ * of coherent structures", 1987), at a cost of n³ instead of d³. Projection uses only the first k loadings: z = L (x − mean).
  * Component signs are fixed (largest-magnitude loading positive) so that a seed gives one answer.
  */
 export class Pca {
@@ -57,30 +62,21 @@ export class Pca {
   fit(x: Matrix): this {
     if (x.rows < 2) throw new UserError('PCA needs at least two training samples: give more samples');
     const d = x.cols;
-    const rows: number[][] = new Array(x.rows);
-    for (let i = 0; i < x.rows; i++) rows[i] = Array.from(x.data.subarray(i * d, (i + 1) * d));
-    const model = new MlPca(rows, { method: 'covarianceMatrix', center: true, scale: false });
-    const json = model.toJSON();
-    const eigen = model.getEigenvalues().map((v) => (v > 0 ? v : 0));
-    const total = eigen.reduce((a, b) => a + b, 0);
-    const explained = Float64Array.from(eigen, (v) => (total > 0 ? v / total : 0));
-    const k = this.chooseComponents(explained);
-    const all = model.getLoadings(); // d × d, row c = component c
+    const { mean, eigenvalues, vectors } = d <= x.rows ? covarianceRoute(x) : gramRoute(x);
+    const values = eigenvalues.map((v) => (v > 0 ? v : 0));
+    const total = values.reduce((a, b) => a + b, 0);
+    const explained = new Float64Array(d);
+    for (let c = 0; c < values.length; c++) explained[c] = total > 0 ? values[c] / total : 0;
+    const k = Math.min(this.chooseComponents(explained), vectors.length);
     const loadings = new Float64Array(k * d);
     for (let c = 0; c < k; c++) {
+      const v = vectors[c];
       let big = 0;
-      for (let j = 0; j < d; j++) {
-        const v = all.get(c, j);
-        if (Math.abs(v) > Math.abs(big)) big = v;
-      }
+      for (let j = 0; j < d; j++) if (Math.abs(v[j]) > Math.abs(big)) big = v[j];
       const sign = big < 0 ? -1 : 1;
-      for (let j = 0; j < d; j++) loadings[c * d + j] = sign * all.get(c, j);
+      for (let j = 0; j < d; j++) loadings[c * d + j] = sign * v[j];
     }
-    this.state = {
-      mean: Float64Array.from(json.means),
-      loadings: { rows: k, cols: d, data: loadings },
-      explained,
-    };
+    this.state = { mean, loadings: { rows: k, cols: d, data: loadings }, explained };
     return this;
   }
 
@@ -187,4 +183,73 @@ export class Pca {
     if (!this.state) throw new Error('Pca: call fit before transform');
     return this.state;
   }
+}
+
+interface Eigen {
+  mean: Float64Array;
+  /** Descending. */
+  eigenvalues: number[];
+  /** Unit eigenvectors (length d each), in the order of `eigenvalues`. */
+  vectors: Float64Array[];
+}
+
+function toRows(x: Matrix): number[][] {
+  const d = x.cols;
+  const rows: number[][] = new Array(x.rows);
+  for (let i = 0; i < x.rows; i++) rows[i] = Array.from(x.data.subarray(i * d, (i + 1) * d));
+  return rows;
+}
+
+function covarianceRoute(x: Matrix): Eigen {
+  const d = x.cols;
+  const model = new MlPca(toRows(x), { method: 'covarianceMatrix', center: true, scale: false });
+  const all = model.getLoadings(); // d × d, row c = component c
+  const vectors: Float64Array[] = [];
+  for (let c = 0; c < d; c++) vectors.push(Float64Array.from({ length: d }, (_, j) => all.get(c, j)));
+  return { mean: Float64Array.from(model.toJSON().means), eigenvalues: model.getEigenvalues(), vectors };
+}
+
+function gramRoute(x: Matrix): Eigen {
+  const n = x.rows;
+  const d = x.cols;
+  const mean = new Float64Array(d);
+  for (let i = 0; i < n; i++) for (let j = 0; j < d; j++) mean[j] += x.data[i * d + j] / n;
+  const centred = new Float64Array(n * d);
+  for (let i = 0; i < n; i++) for (let j = 0; j < d; j++) centred[i * d + j] = x.data[i * d + j] - mean[j];
+  const gram = new MlMatrix(n, n);
+  // Invariant: gram holds (X̃X̃ᵀ)_{ab}/(n − 1) for every pair a ≤ b visited so far (mirrored).
+  for (let a = 0; a < n; a++) {
+    for (let b = a; b < n; b++) {
+      let s = 0;
+      for (let j = 0; j < d; j++) s += centred[a * d + j] * centred[b * d + j];
+      gram.set(a, b, s / (n - 1));
+      gram.set(b, a, s / (n - 1));
+    }
+  }
+  const evd = new EVD(gram, { assumeSymmetric: true });
+  const values = evd.realEigenvalues; // ascending
+  const u = evd.eigenvectorMatrix;
+  const eigenvalues: number[] = [];
+  const vectors: Float64Array[] = [];
+  for (let c = n - 1; c >= 0; c--) {
+    const v = new Float64Array(d);
+    for (let i = 0; i < n; i++) {
+      const w = u.get(i, c);
+      for (let j = 0; j < d; j++) v[j] += w * centred[i * d + j];
+    }
+    let norm = 0;
+    for (let j = 0; j < d; j++) norm += v[j] * v[j];
+    norm = Math.sqrt(norm);
+    if (!(norm > 1e-7 * Math.sqrt(Math.max(0, values[n - 1]) * (n - 1)))) break; // the null space: no more components
+    for (let j = 0; j < d; j++) v[j] /= norm;
+    eigenvalues.push(values[c]);
+    vectors.push(v);
+  }
+  if (vectors.length === 0) {
+    const v = new Float64Array(d);
+    if (d > 0) v[0] = 1;
+    eigenvalues.push(0);
+    vectors.push(v);
+  }
+  return { mean, eigenvalues, vectors };
 }

@@ -1,7 +1,7 @@
 import { UserError } from '../core/errors.js';
 import { Random } from '../core/random.js';
 import { decodeFloat64, type EncodedArray, encodeFloat64 } from './binary.js';
-import { type LibsvmClass, loadLibsvm } from './libsvm.js';
+import { type LibsvmClass, type LibsvmInstance, libsvmHeap, loadLibsvm } from './libsvm.js';
 import type { Matrix } from './matrix.js';
 
 export type SvmKernel = 'linear' | 'rbf';
@@ -81,8 +81,8 @@ const MIN_PROBABILITY = 1e-7;
  * Training runs in libsvm; what it learned (support vectors, dual coefficients, offsets) is read out of
  * the model at once and the native model freed, so nothing native outlives `fit`. Prediction evaluates the
  * same decision functions in TypeScript, so a saved model reloads from our own exact binary form and never
- * passes through libsvm's text deserialiser (which corrupts models of several MB). The offsets rho come
- * through libsvm's model text, which prints them with 6 significant digits.
+ * passes through libsvm's text deserialiser (which corrupts models of several MB). The learned numbers are
+ * read from libsvm's model in WebAssembly memory (see readModelMemory), with the model text as fallback.
  *
  * Probabilities follow libsvm's method, with our own seeded split so that a seed gives one answer in
  * any process: decision values from an internal stratified k-fold cross-validation, one Platt sigmoid per
@@ -486,20 +486,76 @@ function trainRaw(
     probabilityEstimates: false,
     quiet: true,
   });
-  let text: string;
-  let svIndices: number[];
   try {
     svm.train(samples, labels);
-    text = svm.serializeModel();
-    svIndices = svm.getSVIndices();
+    const svIndices = svm.getSVIndices().map((k) => order[k]);
+    return readModelMemory(svm, svIndices, x, C, gamma) ?? parseModelText(svm.serializeModel(), svIndices, x);
   } finally {
     svm.free();
   }
-  return parseModelText(
-    text,
-    svIndices.map((k) => order[k]),
-    x,
-  );
+}
+
+/**
+ * Reads the trained model straight from libsvm's `struct svm_model` in WebAssembly memory: exact offsets
+ * rho (the model text rounds them to 6 digits) and no text round trip (printing the model costs more than
+ * training it). The layout is that of libsvm 3.2x compiled for wasm32 (4-byte int and pointer, 8-byte
+ * aligned double): svm_parameter occupies bytes 0–95, then nr_class @96, l @100, SV @104, sv_coef @108,
+ * rho @112, probA @116, probB @120, sv_indices @124, label @128, nSV @132. The read is used only if every
+ * cross-check holds (class count, support count, labels, per-class counts, stored C and γ); otherwise the
+ * caller falls back to parsing the model text.
+ */
+function readModelMemory(
+  svm: LibsvmInstance,
+  supportRows: number[],
+  x: Matrix,
+  C: number,
+  gamma: number,
+): RawModel | undefined {
+  const heap = libsvmHeap();
+  const pointer = (svm as unknown as { model?: unknown }).model;
+  if (!heap || typeof pointer !== 'number' || pointer <= 0 || pointer % 8 !== 0) return undefined;
+  const i32 = (address: number): number => heap.HEAP32[address >> 2];
+  const f64 = (address: number): number => heap.HEAPF64[address >> 3];
+  const m = i32(pointer + 96);
+  const total = i32(pointer + 100);
+  const labelsNative = svm.getLabels();
+  if (
+    m !== labelsNative.length ||
+    total !== supportRows.length ||
+    f64(pointer + 48) !== C ||
+    f64(pointer + 16) !== gamma
+  )
+    return undefined;
+  const labelPtr = i32(pointer + 128);
+  const countPtr = i32(pointer + 132);
+  const rhoPtr = i32(pointer + 112);
+  const coefPtr = i32(pointer + 108);
+  if (labelPtr % 4 !== 0 || countPtr % 4 !== 0 || rhoPtr % 8 !== 0 || coefPtr % 4 !== 0) return undefined;
+  const labels = new Int32Array(m);
+  const counts = new Int32Array(m);
+  let sum = 0;
+  for (let i = 0; i < m; i++) {
+    labels[i] = i32(labelPtr + 4 * i);
+    counts[i] = i32(countPtr + 4 * i);
+    sum += counts[i];
+    if (labels[i] !== labelsNative[i]) return undefined;
+  }
+  if (sum !== total) return undefined;
+  const pairCount = (m * (m - 1)) / 2;
+  const rho = new Float64Array(pairCount);
+  for (let p = 0; p < pairCount; p++) rho[p] = f64(rhoPtr + 8 * p);
+  const coef = new Float64Array((m - 1) * total);
+  for (let c = 0; c < m - 1; c++) {
+    const row = i32(coefPtr + 4 * c);
+    if (row % 8 !== 0) return undefined;
+    coef.set(heap.HEAPF64.subarray(row >> 3, (row >> 3) + total), c * total);
+  }
+  if (!rho.every(Number.isFinite) || !coef.every(Number.isFinite)) return undefined;
+  const d = x.cols;
+  const support = new Float64Array(total * d);
+  for (let k = 0; k < total; k++)
+    support.set(x.data.subarray(supportRows[k] * d, (supportRows[k] + 1) * d), k * d);
+  return { labels, counts, support: { rows: total, cols: d, data: support }, coef, rho };
 }
 
 /** Reads class order, counts, offsets and dual coefficients from libsvm's model text; support rows from `x`. */

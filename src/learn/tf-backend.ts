@@ -28,6 +28,13 @@ let loading: Promise<TfRuntime> | undefined;
 /** The Node greeting that recommends the native backend, printed when tfjs runs on cpu in Node. */
 const GREETING = /running TensorFlow\.js in Node\.js/;
 
+function quiet(original: (...args: unknown[]) => void): (...args: unknown[]) => void {
+  return (...args: unknown[]): void => {
+    if (typeof args[0] === 'string' && GREETING.test(args[0])) return;
+    original.apply(console, args);
+  };
+}
+
 export function loadTf(): Promise<TfRuntime> {
   if (!loading) loading = load();
   return loading;
@@ -36,20 +43,23 @@ export function loadTf(): Promise<TfRuntime> {
 /** Switches backend (the benchmark compares wasm with cpu); returns whether it worked. */
 export async function useBackend(name: 'wasm' | 'cpu' | 'tensorflow'): Promise<boolean> {
   const runtime = await loadTf();
-  const ok = await runtime.tf.setBackend(name);
-  if (ok) runtime.backend = name;
-  return ok;
+  const originalWarn = console.warn;
+  const originalLog = console.log;
+  console.warn = quiet(originalWarn);
+  console.log = quiet(originalLog);
+  try {
+    const ok = await runtime.tf.setBackend(name);
+    if (ok) runtime.backend = name;
+    return ok;
+  } finally {
+    console.warn = originalWarn;
+    console.log = originalLog;
+  }
 }
 
 async function load(): Promise<TfRuntime> {
   const originalWarn = console.warn;
   const originalLog = console.log;
-  const quiet =
-    (original: (...args: unknown[]) => void) =>
-    (...args: unknown[]): void => {
-      if (typeof args[0] === 'string' && GREETING.test(args[0])) return;
-      original.apply(console, args);
-    };
   console.warn = quiet(originalWarn);
   console.log = quiet(originalLog);
   try {

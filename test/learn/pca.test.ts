@@ -1,5 +1,7 @@
 import { Matrix as MlMatrix, SVD } from 'ml-matrix';
+import { PCA as MlPca } from 'ml-pca';
 import { describe, expect, it } from 'vitest';
+import { Random } from '../../src/core/random.js';
 import { fromRows } from '../../src/learn/matrix.js';
 import { Pca } from '../../src/learn/pca.js';
 import { StandardScaler } from '../../src/learn/scaler.js';
@@ -67,6 +69,40 @@ describe('Pca', () => {
     let v0 = 0;
     for (let i = 0; i < x.rows; i++) v0 += scores.data[i * 2] ** 2 / (x.rows - 1);
     expect(v0).toBeCloseTo(4.2282, 3); // first eigenvalue of Iris' covariance (from memory)
+  });
+
+  it('with more features than samples, matches ml-pca on the full covariance', () => {
+    // Reference library ml-pca (covariance method) on a wide matrix; ours goes through the n × n Gram
+    // matrix (Sirovich 1987). Same eigenvalue shares and the same components up to sign.
+    const random = new Random(4);
+    const n = 25;
+    const d = 60;
+    const rows: number[][] = [];
+    for (let i = 0; i < n; i++) {
+      const a = random.normal(0, 3);
+      const b = random.normal(0, 1);
+      rows.push(
+        Array.from(
+          { length: d },
+          (_, j) => a * Math.sin(j / 7) + b * Math.cos(j / 3) + random.normal(0, 0.1),
+        ),
+      );
+    }
+    const ours = new Pca({ components: 5 }).fit(fromRows(rows));
+    const reference = new MlPca(rows, { method: 'covarianceMatrix', center: true, scale: false });
+    const refShare = reference.getExplainedVariance();
+    const e = ours.explainedVariance();
+    const L = ours.state?.loadings.data ?? new Float64Array(0);
+    const refL = reference.getLoadings();
+    for (let c = 0; c < 5; c++) {
+      expect(e[c]).toBeCloseTo(refShare[c], 9);
+      if (c < 3) {
+        let dot = 0;
+        for (let j = 0; j < d; j++) dot += L[c * d + j] * refL.get(c, j);
+        expect(Math.abs(dot)).toBeCloseTo(1, 6);
+      }
+    }
+    expect(e[0] + e[1]).toBeGreaterThan(0.95);
   });
 
   it('round-trips through JSON and rejects a foreign format', () => {
