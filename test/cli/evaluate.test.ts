@@ -1,26 +1,8 @@
 import { existsSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { Random } from '../../src/core/random.js';
 import { runCli, tempDir } from '../helpers/cli.js';
-
-/** A small seeded points CSV: filled discs against noisy circles (demo-style data for the command's plumbing). */
-function writeShapes(file: string, perClass: number, points: number, labels = ['disc', 'loop']): void {
-  const r = new Random(4);
-  const lines = ['sample,label,x,y'];
-  for (const label of labels) {
-    for (let s = 0; s < perClass; s++) {
-      for (let i = 0; i < points; i++) {
-        const a = r.uniform(0, 2 * Math.PI);
-        const rad = label === 'disc' ? Math.sqrt(r.next()) : 1;
-        lines.push(
-          `${label}-${s},${label},${(rad * Math.cos(a) + r.normal(0, 0.03)).toFixed(5)},${(rad * Math.sin(a) + r.normal(0, 0.03)).toFixed(5)}`,
-        );
-      }
-    }
-  }
-  writeFileSync(file, lines.join('\n') + '\n');
-}
+import { writeShapes } from './shapes-fixture.js';
 
 const FAST = ['--models', 'pca-svm', '--depths', '2', '--grid-sizes', '8', '--workers', '1', '--folds', '3'];
 
@@ -107,7 +89,7 @@ describe('landform evaluate', () => {
 
   it('refuses a single class and an unknown model, one line each', () => {
     const one = join(dir, 'one.csv');
-    writeShapes(one, 4, 8, ['disc']);
+    writeShapes(one, 4, 8, 4, ['disc']);
     const r = runCli(['evaluate', one, ...FAST, '--out', join(dir, 'one')]);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(

@@ -5,11 +5,13 @@ import type { FeatureData } from '../../features/combined.js';
 import type { DiagramOptions } from '../../homology/compute.js';
 import { csvField, csvNumber } from '../../io/csv.js';
 import type { SampleKind } from '../../io/dataset.js';
+import { parseKind } from '../../io/load.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
 import { parseIntegerOption } from '../options.js';
 import { diagramsForCommand, loadStudyDataset } from './evaluate.js';
 
 interface PredictCommandOptions {
+  kind?: string;
   out?: string;
   workers?: string;
   quiet?: boolean;
@@ -39,6 +41,10 @@ export function definePredict(program: Command): Command {
     .argument('<model>', 'model folder written by landform train --save')
     .argument('<dataset>', 'samples of the kind the model was trained on (labels may be empty)')
     .option('--out <file>', 'predictions CSV to write (default: print to standard output)')
+    .option(
+      '--kind <kind>',
+      'sample kind of the input (default: detected; must be the kind the model was trained on)',
+    )
     .option('--workers <n>', 'worker threads for the diagrams (default: every core)')
     .addHelpText(
       'after',
@@ -70,7 +76,7 @@ Example:
         const parsed = {
           degrees: diagramOptions.degrees,
           diagramOptions,
-          kind: record.kind,
+          ...(o.kind !== undefined ? { kind: parseKind(o.kind) } : {}),
           ...(workers !== undefined ? { workers } : {}),
         };
         const dataset = await loadStudyDataset(input, parsed);

@@ -1,0 +1,64 @@
+import { readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { runCli, tempDir } from '../helpers/cli.js';
+import { writeShapes } from './shapes-fixture.js';
+
+describe('landform predict', () => {
+  const dir = tempDir();
+  const input = join(dir, 'shapes.csv');
+  const fresh = join(dir, 'fresh.csv');
+  writeShapes(input, 5, 20, 4);
+  writeShapes(fresh, 3, 20, 9);
+  const model = join(dir, 'model');
+  const trained = runCli([
+    'train',
+    input,
+    '--depths',
+    '2',
+    '--grid-sizes',
+    '8',
+    '--workers',
+    '1',
+    '--save',
+    model,
+  ]);
+
+  it('writes sample,predicted and one score column per class for new samples', () => {
+    expect(trained.code).toBe(0);
+    const out = join(dir, 'predictions.csv');
+    const r = runCli(['predict', model, fresh, '--workers', '1', '--out', out]);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const lines = readFileSync(out, 'utf8').trim().split('\n');
+    expect(lines[0]).toBe('sample,predicted,score:disc,score:loop');
+    expect(lines).toHaveLength(7);
+    let correct = 0;
+    for (const line of lines.slice(1)) {
+      const [sample, predicted, a, b] = line.split(',');
+      expect(Number(a) + Number(b)).toBeCloseTo(1, 6);
+      expect(['disc', 'loop']).toContain(predicted);
+      if (sample.startsWith(predicted)) correct++;
+    }
+    // Discs against circles: the H1 landscape tells them apart (demo data; a plumbing check, not a benchmark).
+    expect(correct).toBeGreaterThanOrEqual(5);
+  });
+
+  it('refuses an altered model folder and a model of another kind in one line', () => {
+    const path = join(model, 'classifier.json');
+    const original = readFileSync(path, 'utf8');
+    writeFileSync(path, original.replace('"pca-svm"', '"pca-svm" '));
+    const r = runCli(['predict', model, fresh]);
+    writeFileSync(path, original);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/^landform: .*classifier\.json: the file was altered or damaged after saving/);
+    expect(r.stderr.split('\n')).toHaveLength(2);
+    const table = join(dir, 'table.csv');
+    writeFileSync(table, 'sample,label,a,b\ns1,x,1,2\ns2,y,3,4\n');
+    const k = runCli(['predict', model, table]);
+    expect(k.code).toBe(2);
+    expect(k.stderr).toMatch(
+      /is a table dataset, but the model was trained on points samples; give points samples\n$/,
+    );
+  });
+});

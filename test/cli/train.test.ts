@@ -1,0 +1,53 @@
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { runCli, tempDir } from '../helpers/cli.js';
+import { writeShapes } from './shapes-fixture.js';
+
+describe('landform train', () => {
+  const dir = tempDir();
+  const input = join(dir, 'shapes.csv');
+  writeShapes(input, 5, 20);
+
+  it('saves a model folder whose manifest holds the options, learned grid, classes and checksum', () => {
+    const save = join(dir, 'models', 'rings');
+    const r = runCli([
+      'train',
+      input,
+      '--depths',
+      '2,3',
+      '--grid-sizes',
+      '8',
+      '--workers',
+      '1',
+      '--save',
+      save,
+    ]);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    expect(r.stdout).toMatch(
+      /^trained landscape \+ pca-svm on 10 samples \(2 classes\); chosen depth=[23] gridSize=8 /,
+    );
+    const manifest = JSON.parse(readFileSync(join(save, 'manifest.json'), 'utf8'));
+    expect(manifest.classes).toEqual(['disc', 'loop']);
+    expect(manifest.features).toBe('landscape');
+    expect(typeof manifest.checksum).toBe('string');
+    expect(manifest.record.diagramOptions).toEqual({ degrees: [0, 1], metric: 'euclidean' });
+    const grids = manifest.extractor.landscape.state.grids;
+    expect(grids.map((g: { degree: number }) => g.degree)).toEqual([0, 1]);
+    expect(grids[0].grid.count).toBe(8);
+    expect(grids[0].grid.stop).toBeGreaterThan(grids[0].grid.start);
+    expect(existsSync(join(save, 'classifier.json'))).toBe(true);
+  });
+
+  it('refuses two models at once and a missing --save, one line each', () => {
+    const a = runCli(['train', input, '--models', 'pca-svm,dense', '--save', join(dir, 'x')]);
+    expect(a.code).toBe(2);
+    expect(a.stderr).toBe('landform: --models takes one model here, got pca-svm,dense; pick one\n');
+    const b = runCli(['train', input]);
+    expect(b.code).toBe(2);
+    expect(b.stderr).toBe(
+      'landform: no --save DIR given; name the model folder to write, e.g. models/NAME\n',
+    );
+  });
+});

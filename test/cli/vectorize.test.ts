@@ -1,0 +1,76 @@
+import { existsSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { parseLandscapeFeatureName } from '../../src/features/landscape-vectorizer.js';
+import { runCli, tempDir } from '../helpers/cli.js';
+import { writeShapes } from './shapes-fixture.js';
+
+describe('landform vectorize', () => {
+  const dir = tempDir();
+  const input = join(dir, 'shapes.csv');
+  writeShapes(input, 3, 15);
+
+  it('writes a CSV with sample,label and names that map to (degree, layer, t)', () => {
+    const out = join(dir, 'features.csv');
+    const r = runCli([
+      'vectorize',
+      input,
+      '--depth',
+      '2',
+      '--grid-size',
+      '5',
+      '--workers',
+      '1',
+      '--out',
+      out,
+    ]);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toBe(
+      `wrote ${out}: 6 samples × 20 features (landscape; fitted on all the given samples)\n`,
+    );
+    const lines = readFileSync(out, 'utf8').trim().split('\n');
+    const header = lines[0].split(',');
+    expect(header.slice(0, 2)).toEqual(['sample', 'label']);
+    expect(header).toHaveLength(22);
+    expect(parseLandscapeFeatureName(header[2])).toEqual({ degree: 0, layer: 1, t: 0 });
+    expect(parseLandscapeFeatureName(header[12])).toMatchObject({ degree: 1, layer: 1 });
+    expect(lines).toHaveLength(7);
+    expect(existsSync(`${out}.provenance.json`)).toBe(true);
+  });
+
+  it('writes .npy with sidecars, and with --model uses the saved grid (transform only)', () => {
+    const model = join(dir, 'model');
+    expect(
+      runCli([
+        'train',
+        input,
+        '--depths',
+        '2',
+        '--grid-sizes',
+        '6',
+        '--inner-folds',
+        '2',
+        '--workers',
+        '1',
+        '--save',
+        model,
+      ]).code,
+    ).toBe(0);
+    const out = join(dir, 'features.npy');
+    const r = runCli(['vectorize', input, '--model', model, '--workers', '1', '--out', out]);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toMatch(/6 samples × 24 features \(landscape; fitted on the saved model\)/);
+    const columns = readFileSync(join(dir, 'features.columns.csv'), 'utf8').trim().split('\n');
+    expect(columns).toHaveLength(25);
+    const manifest = JSON.parse(readFileSync(join(model, 'manifest.json'), 'utf8'));
+    const h1 = manifest.extractor.landscape.state.grids[1].grid;
+    expect(parseLandscapeFeatureName(columns[13])!.t).toBeCloseTo(h1.start, 3);
+    expect(readFileSync(join(dir, 'features.samples.csv'), 'utf8').split('\n')[0]).toBe('sample,label');
+  });
+
+  it('refuses landscape features for a table and a missing --out', () => {
+    const r = runCli(['vectorize', input]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toBe('landform: no --out FILE given; name the .csv or .npy file to write\n');
+  });
+});
