@@ -51,11 +51,10 @@ console.log(JSON.stringify({ ms, lines, maxRssMB: process.resourceUsage().maxRSS
 const PARSE = `
 import { createReadStream } from 'node:fs';
 const { parse } = await import('csv-parse');
+const { CSV_OPTIONS } = await import(${JSON.stringify(new URL('../src/io/csv.js', import.meta.url).href)});
 const t0 = performance.now();
 let lines = 0;
-const p = createReadStream(process.argv[1], { highWaterMark: 1 << 16 }).pipe(
-  parse({ info: true, relax_column_count: true, skip_empty_lines: true, bom: true, trim: true }),
-);
+const p = createReadStream(process.argv[1], { highWaterMark: 1 << 16 }).pipe(parse(CSV_OPTIONS));
 p.on('readable', () => { while (p.read() !== null) lines++; });
 await new Promise((resolve) => p.on('end', resolve));
 const ms = performance.now() - t0;

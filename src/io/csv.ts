@@ -22,20 +22,57 @@ export function readTextFile(file: string): string {
 
 /** Parses CSV text into rows with line numbers. Empty lines are skipped; ragged rows are left to the caller. */
 export function parseCsv(text: string, file: string): CsvRow[] {
-  let records: Array<{ record: string[]; info: { lines: number } }>;
+  let records: string[][];
   try {
-    records = parse(text, {
-      info: true,
-      relax_column_count: true,
-      skip_empty_lines: true,
-      bom: true,
-      trim: true,
-    }) as unknown as Array<{ record: string[]; info: { lines: number } }>;
+    records = parse(text, CSV_OPTIONS) as string[][];
   } catch (error) {
     const e = error as { lines?: number; message?: string };
-    throw new UserError(`not valid CSV (${String(e.message ?? error).split('\n')[0]})`, { file, line: e.lines });
+    throw new UserError(`not valid CSV (${shown(String(e.message ?? error).split('\n')[0])})`, { file, line: e.lines });
   }
-  return records.map((r) => ({ line: r.info.lines, fields: r.record }));
+  const rows: CsvRow[] = [];
+  let line = 1;
+  for (const fields of records) {
+    const at = line;
+    line += 1 + lineBreaksIn(fields);
+    if (isBlankRecord(fields)) continue;
+    rows.push({ line: at, fields });
+  }
+  return rows;
+}
+
+/**
+ * The options every CSV read uses. Blank lines come through as `['']` records so that line numbers can be
+ * counted here: csv-parse's own `info.lines` counts a skipped blank line and a quoted CRLF twice (measured with
+ * csv-parse 6.2.1), which would point messages at the wrong row.
+ */
+export const CSV_OPTIONS = {
+  relax_column_count: true,
+  skip_empty_lines: false,
+  bom: true,
+  trim: true,
+  // Any of the three line endings, mixed freely (csv-parse's automatic choice keeps the first one it meets).
+  record_delimiter: ['\r\n', '\n', '\r'],
+};
+
+/** A record from a blank (or all-white-space) line. */
+export function isBlankRecord(fields: readonly string[]): boolean {
+  return fields.length === 1 && fields[0] === '';
+}
+
+/** Line breaks inside the fields of one record (quoted newlines): the record spans that many extra lines. */
+export function lineBreaksIn(fields: readonly string[]): number {
+  let breaks = 0;
+  for (let i = 0; i < fields.length; i++) {
+    const f = fields[i];
+    if (f.indexOf('\n') < 0 && f.indexOf('\r') < 0) continue;
+    // Invariant: breaks counts CRLF, LF and lone CR each once, over the characters before j.
+    for (let j = 0; j < f.length; j++) {
+      const c = f.charCodeAt(j);
+      if (c === 10) breaks++;
+      else if (c === 13 && f.charCodeAt(j + 1) !== 10) breaks++;
+    }
+  }
+  return breaks;
 }
 
 /** Quotes a CSV field when it needs it (comma, quote, newline, or surrounding space). */

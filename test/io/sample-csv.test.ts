@@ -123,6 +123,43 @@ describe('the CSV reader under random mutations of valid files', () => {
     );
   });
 
+  it('numbers rows by the line they start on, across blank lines, CRLF and quoted line breaks', async () => {
+    // Source: RFC 4180, "Common Format and MIME Type for Comma-Separated Values (CSV) Files", 2005, section 2:
+    // a quoted field may hold line breaks and doubled quotes. Lines are counted as a text editor shows them,
+    // so a row that spans lines is reported at its first line.
+    const dir = tempDir();
+    const file = join(dir, 'lines.csv');
+    writeFileSync(file, '\n\nsample,label,x\r\n\r\n"a","r\r\nq""",1\r\n   \nb,s,2\n\n\nb,s,3\n');
+    expect(await readCsvHeader(file)).toEqual({ fields: ['sample', 'label', 'x'], line: 3 });
+    const csv = await readSampleCsv(file);
+    expect(csv.samples.map((s) => [s.id, s.label, s.firstLine, s.secondLine])).toEqual([
+      ['a', 'r\r\nq"', 5, 0],
+      ['b', 's', 8, 11],
+    ]);
+    writeFileSync(file, 'sample,label,x\r\n\r\n"a","r\r\nq""",1\r\n   \nb,s,2\n\n\nb,s,oops\n');
+    await expect(readSampleCsv(file)).rejects.toMatchObject({ line: 9 });
+  });
+
+  it('counts lines like a text editor on quote-free files (oracle: split on line breaks)', async () => {
+    const dir = tempDir();
+    let n = 0;
+    await fc.assert(
+      fc.asyncProperty(
+        fc.array(fc.constantFrom('', '  ', 'a,r,1', 'b,s,2', 'c,r,3', 'a,r,4'), { minLength: 1, maxLength: 12 }),
+        fc.constantFrom('\n', '\r\n'),
+        async (rows, eol) => {
+          const file = join(dir, `o${n++}.csv`);
+          const lines = ['sample,label,x', ...rows];
+          writeFileSync(file, lines.join(eol) + eol);
+          if (rows.every((r) => r.trim() === '')) return;
+          const csv = await readSampleCsv(file);
+          for (const s of csv.samples) expect(s.firstLine).toBe(lines.findIndex((l) => l.startsWith(`${s.id},`)) + 1);
+        },
+      ),
+      { numRuns: 100, seed: 11 },
+    );
+  });
+
   it('reads only the header line for detection and streams the rows', async () => {
     const dir = tempDir();
     const file = join(dir, 'h.csv');
