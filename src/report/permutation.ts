@@ -1,6 +1,6 @@
 import { Random } from '../core/random.js';
 import { holmAdjust } from './holm.js';
-import { type LandscapeStack, sampledNorm } from './stack.js';
+import { gridStep, type LandscapeStack, sampledNorm } from './stack.js';
 
 /**
  * A permutation test of equal mean landscapes between two groups (Robinson & Turner, "Hypothesis testing
@@ -18,6 +18,13 @@ export interface PermutationOptions {
   /** Seed of the relabellings. Default 1. */
   seed?: number;
   onProgress?: (done: number, total: number) => void;
+  /**
+   * How relabellings are scored: 'direct' re-sums group A's rows each time; 'gram' (L2 only) uses the
+   * samples' Gram matrix under the trapezoid weights, so a relabelling costs nA² additions instead of
+   * nA × width. 'auto' (default) takes 'gram' for p = 2 when the smaller group has fewer samples than the
+   * landscape has values. Both give the same p-value up to rounding of exact ties.
+   */
+  method?: 'auto' | 'direct' | 'gram';
 }
 
 export const DEFAULT_PERMUTATION_OPTIONS = { permutations: 999, p: 2, seed: 1 } as const;
@@ -39,35 +46,29 @@ export function permutationTest(a: LandscapeStack, b: LandscapeStack, options: P
   if (a.depth !== b.depth || a.grid.count !== b.grid.count || a.grid.start !== b.grid.start || a.grid.stop !== b.grid.stop) {
     throw new Error('permutationTest: the two groups are not on the same grid and depth');
   }
-  const nA = a.samples;
-  const nB = b.samples;
-  if (nA === 0 || nB === 0) throw new Error('permutationTest: each group needs at least one sample');
+  if (a.samples === 0 || b.samples === 0) throw new Error('permutationTest: each group needs at least one sample');
+  // The statistic is symmetric in the groups: let group A be the smaller one, whose members are re-summed.
+  const [first, second] = a.samples <= b.samples ? [a, b] : [b, a];
+  const nA = first.samples;
+  const nB = second.samples;
   const n = nA + nB;
   const width = a.depth * a.grid.count;
   const all = new Float64Array(n * width);
-  all.set(a.values.subarray(0, nA * width), 0);
-  all.set(b.values.subarray(0, nB * width), nA * width);
+  all.set(first.values.subarray(0, nA * width), 0);
+  all.set(second.values.subarray(0, nB * width), nA * width);
   const total = new Float64Array(width);
   for (let i = 0; i < n; i++) for (let j = 0; j < width; j++) total[j] += all[i * width + j];
 
-  const sumA = new Float64Array(width);
-  const diff = new Float64Array(width);
-  const statisticOf = (indices: Int32Array): number => {
-    sumA.fill(0);
-    // Invariant: after k rows, sumA is the sum of the first k rows named by `indices` (group A's members).
-    for (let k = 0; k < nA; k++) {
-      const base = indices[k] * width;
-      for (let j = 0; j < width; j++) sumA[j] += all[base + j];
-    }
-    for (let j = 0; j < width; j++) diff[j] = sumA[j] / nA - (total[j] - sumA[j]) / nB;
-    return sampledNorm(diff, a.depth, a.grid, p);
-  };
+  const method = options.method ?? 'auto';
+  if (method === 'gram' && p !== 2) throw new Error("permutationTest: method 'gram' needs p = 2");
+  const useGram = method === 'gram' || (method === 'auto' && p === 2 && nA < width);
+  const score = useGram ? gramScorer(all, total, n, nA, nB, a.depth, a.grid) : directScorer(all, total, nA, nB, a.depth, a.grid, p);
 
   const indices = new Int32Array(n);
   for (let i = 0; i < n; i++) indices[i] = i;
-  const observed = statisticOf(indices);
+  const observedScore = score.of(indices);
   // Floating-point sums of the same rows in another order may differ in the last bits; treat those as ties.
-  const threshold = observed - 1e-12 * Math.max(1, Math.abs(observed));
+  const threshold = observedScore - score.tolerance(observedScore);
   const random = new Random(seed);
   let exceed = 0;
   const every = Math.max(1, Math.floor(permutations / 100));
@@ -79,10 +80,90 @@ export function permutationTest(a: LandscapeStack, b: LandscapeStack, options: P
       indices[k] = indices[j];
       indices[j] = t;
     }
-    if (statisticOf(indices) >= threshold) exceed++;
+    if (score.of(indices) >= threshold) exceed++;
     if (options.onProgress && ((r + 1) % every === 0 || r + 1 === permutations)) options.onProgress(r + 1, permutations);
   }
-  return { statistic: observed, p: (1 + exceed) / (1 + permutations), permutations, exceed };
+  // The reported statistic is always computed directly from the two means.
+  const statistic = directScorer(all, total, nA, nB, a.depth, a.grid, p).of(Int32Array.from({ length: n }, (_, i) => i));
+  return { statistic, p: (1 + exceed) / (1 + permutations), permutations, exceed };
+}
+
+interface Scorer {
+  /** A score increasing with the statistic, for group A = the first nA entries of `indices`. */
+  of(indices: Int32Array): number;
+  /** How far below the observed score a relabelling still counts as a tie. */
+  tolerance(observed: number): number;
+}
+
+/** ‖mean_A − mean_B‖_p by re-summing group A's rows. */
+function directScorer(all: Float64Array, total: Float64Array, nA: number, nB: number, depth: number, grid: LandscapeStack['grid'], p: number): Scorer {
+  const width = total.length;
+  const sumA = new Float64Array(width);
+  const diff = new Float64Array(width);
+  return {
+    of(indices) {
+      sumA.fill(0);
+      // Invariant: after k rows, sumA is the sum of the first k rows named by `indices` (group A's members).
+      for (let k = 0; k < nA; k++) {
+        const base = indices[k] * width;
+        for (let j = 0; j < width; j++) sumA[j] += all[base + j];
+      }
+      for (let j = 0; j < width; j++) diff[j] = sumA[j] / nA - (total[j] - sumA[j]) / nB;
+      return sampledNorm(diff, depth, grid, p);
+    },
+    tolerance: (observed) => 1e-12 * Math.max(1, Math.abs(observed)),
+  };
+}
+
+/**
+ * ‖mean_A − mean_B‖²₂ from the Gram matrix. With s_A = Σ_{i∈A} x_i, c = 1/nA + 1/nB, d = 1/nB and W the
+ * trapezoid weights, mean_A − mean_B = c·s_A − d·total, so
+ *   ‖·‖² = c² Σ_{i,k∈A} G_ik − 2cd Σ_{i∈A} g_i + d² T,   G = X W Xᵀ, g = X W total, T = totalᵀ W total.
+ */
+function gramScorer(all: Float64Array, total: Float64Array, n: number, nA: number, nB: number, depth: number, grid: LandscapeStack['grid']): Scorer {
+  const width = total.length;
+  const count = grid.count;
+  const h = gridStep(grid);
+  const w = new Float64Array(width);
+  for (let k = 0; k < depth; k++) for (let j = 0; j < count; j++) w[k * count + j] = (j === 0 || j === count - 1 ? 0.5 : 1) * h;
+  const gram = new Float64Array(n * n);
+  const g = new Float64Array(n);
+  let big = 0;
+  // Invariant: rows < i of `gram` (and their mirror entries) and g[< i] are final.
+  for (let i = 0; i < n; i++) {
+    const bi = i * width;
+    for (let k = i; k < n; k++) {
+      const bk = k * width;
+      let sum = 0;
+      for (let j = 0; j < width; j++) sum += all[bi + j] * w[j] * all[bk + j];
+      gram[i * n + k] = sum;
+      gram[k * n + i] = sum;
+    }
+    let gi = 0;
+    for (let j = 0; j < width; j++) gi += all[bi + j] * w[j] * total[j];
+    g[i] = gi;
+    if (gram[i * n + i] > big) big = gram[i * n + i];
+  }
+  let t = 0;
+  for (let j = 0; j < width; j++) t += total[j] * w[j] * total[j];
+  const c = 1 / nA + 1 / nB;
+  const d = 1 / nB;
+  // Rounding scale of the three terms, for ties (their sizes, not their difference, set the error).
+  const scale = c * c * nA * nA * big + 2 * c * d * nA * Math.sqrt(big * t) + d * d * t;
+  return {
+    of(indices) {
+      let quad = 0;
+      let lin = 0;
+      // Invariant: quad = Σ over A-members a < k of Σ over all A-members b of G_ab; lin = Σ of g over them.
+      for (let x = 0; x < nA; x++) {
+        const row = indices[x] * n;
+        for (let y = 0; y < nA; y++) quad += gram[row + indices[y]];
+        lin += g[indices[x]];
+      }
+      return c * c * quad - 2 * c * d * lin + d * d * t;
+    },
+    tolerance: () => 1e-11 * Math.max(1e-300, scale),
+  };
 }
 
 /** One row of the contrast table: classes a and b compared in one degree. */
