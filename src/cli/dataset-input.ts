@@ -5,7 +5,10 @@ import { startProgress } from './progress.js';
  * Loads a command's input dataset with a progress bar on a terminal (silent in pipes, in CI and with
  * --quiet). `kind` is the raw `--kind` text, checked here.
  */
-export async function loadInput(path: string, options: { kind?: string; quiet?: boolean; label?: string }): Promise<Dataset> {
+export async function loadInput(
+  path: string,
+  options: { kind?: string; quiet?: boolean; label?: string },
+): Promise<Dataset> {
   const { loadDataset, parseKind } = await import('../io/load.js');
   const kind: SampleKind | undefined = options.kind === undefined ? undefined : parseKind(options.kind);
   const progress = await startProgress(options.label ?? 'loading', 1, options.quiet === true);

@@ -1,7 +1,13 @@
 import { existsSync } from 'node:fs';
 import { UserError } from '../core/errors.js';
 import type { Dataset, Sample, SampleKind } from './dataset.js';
-import { columnsSidecarPath, defaultColumnNames, readColumnsSidecar, readSamplesSidecar, samplesSidecarPath } from './feature-table.js';
+import {
+  columnsSidecarPath,
+  defaultColumnNames,
+  readColumnsSidecar,
+  readSamplesSidecar,
+  samplesSidecarPath,
+} from './feature-table.js';
 import { readNpy } from './npy.js';
 
 /**
@@ -12,7 +18,10 @@ import { readNpy } from './npy.js';
  *                            with kind distances: samples × n × n
  *   4-D samples × d × h × w → image (3-D volumes)
  */
-export function loadArrayFile(file: string, options: { kind?: SampleKind; onProgress?: (done: number, total: number) => void }): Dataset {
+export function loadArrayFile(
+  file: string,
+  options: { kind?: SampleKind; onProgress?: (done: number, total: number) => void },
+): Dataset {
   const array = readNpy(file);
   const { shape, data } = array;
   if (shape.length < 2) {
@@ -27,10 +36,11 @@ export function loadArrayFile(file: string, options: { kind?: SampleKind; onProg
   const stride = inner.reduce((a, b) => a * b, 1);
   const slice = (i: number): Float64Array => data.slice(i * stride, (i + 1) * stride);
   const hasColumns = existsSync(columnsSidecarPath(file));
-  const kind: SampleKind =
-    options.kind ?? (shape.length === 2 ? (hasColumns ? 'table' : 'signal') : 'image');
+  const kind: SampleKind = options.kind ?? (shape.length === 2 ? (hasColumns ? 'table' : 'signal') : 'image');
   const wrong = (need: string): never => {
-    throw new UserError(`a ${kind} array must be ${need}, this one has shape (${shape.join(', ')})`, { file });
+    throw new UserError(`a ${kind} array must be ${need}, this one has shape (${shape.join(', ')})`, {
+      file,
+    });
   };
   const samples: Sample[] = [];
   let columns: string[] | undefined;
@@ -42,8 +52,10 @@ export function loadArrayFile(file: string, options: { kind?: SampleKind; onProg
     columns = readColumnsSidecar(columnsSidecarPath(file), shape[1]) ?? defaultColumnNames(shape[1]);
     for (let i = 0; i < n; i++) samples.push({ kind, id: ids[i], label: labels[i], values: slice(i) });
   } else if (kind === 'image') {
-    if (shape.length !== 3 && shape.length !== 4) wrong('3-D (samples × height × width) or 4-D (samples × depth × height × width)');
-    for (let i = 0; i < n; i++) samples.push({ kind, id: ids[i], label: labels[i], shape: [...inner], values: slice(i) });
+    if (shape.length !== 3 && shape.length !== 4)
+      wrong('3-D (samples × height × width) or 4-D (samples × depth × height × width)');
+    for (let i = 0; i < n; i++)
+      samples.push({ kind, id: ids[i], label: labels[i], shape: [...inner], values: slice(i) });
   } else if (kind === 'points') {
     if (shape.length !== 3) wrong('3-D (samples × points × dimensions)');
     for (let i = 0; i < n; i++) {
@@ -51,11 +63,15 @@ export function loadArrayFile(file: string, options: { kind?: SampleKind; onProg
     }
   } else if (kind === 'distances') {
     if (shape.length !== 3 || shape[1] !== shape[2]) wrong('3-D (samples × n × n)');
-    for (let i = 0; i < n; i++) samples.push({ kind, id: ids[i], label: labels[i], size: shape[1], matrix: slice(i) });
+    for (let i = 0; i < n; i++)
+      samples.push({ kind, id: ids[i], label: labels[i], size: shape[1], matrix: slice(i) });
   } else {
-    throw new UserError('a diagrams dataset is a diagram CSV (sample,label,degree,birth,death), not an array; give that file', {
-      file,
-    });
+    throw new UserError(
+      'a diagrams dataset is a diagram CSV (sample,label,degree,birth,death), not an array; give that file',
+      {
+        file,
+      },
+    );
   }
   options.onProgress?.(n, n);
   return { kind, source: file, samples, ...(columns ? { columns } : {}) };

@@ -27,7 +27,10 @@ export function parseCsv(text: string, file: string): CsvRow[] {
     records = parse(text, CSV_OPTIONS) as string[][];
   } catch (error) {
     const e = error as { lines?: number; message?: string };
-    throw new UserError(`not valid CSV (${shown(String(e.message ?? error).split('\n')[0])})`, { file, line: e.lines });
+    throw new UserError(`not valid CSV (${shown(String(e.message ?? error).split('\n')[0])})`, {
+      file,
+      line: e.lines,
+    });
   }
   const rows: CsvRow[] = [];
   let line = 1;
@@ -95,7 +98,8 @@ export function parseNumberField(
   allow: { infinite?: boolean } = {},
 ): number {
   const t = text.trim().toLowerCase();
-  if (allow.infinite && (t === 'inf' || t === '+inf' || t === 'infinity' || t === '+infinity')) return Infinity;
+  if (allow.infinite && (t === 'inf' || t === '+inf' || t === 'infinity' || t === '+infinity'))
+    return Infinity;
   const infinite = /^[+-]?inf(inity)?$/.test(t);
   const value = t === '' ? Number.NaN : infinite ? (t.startsWith('-') ? -Infinity : Infinity) : Number(t);
   if (Number.isNaN(value)) {
@@ -112,8 +116,16 @@ export function parseNumberField(
  * text cut to 60 characters, so the message stays one readable line whatever the file held.
  */
 export function shown(text: string): string {
-  const escaped = text.replace(/[\u0000-\u001f\u007f\u2028\u2029]/g, (c) =>
-    c === '\n' ? '\\n' : c === '\r' ? '\\r' : c === '\t' ? '\\t' : `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`,
-  );
+  let escaped = '';
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === 10) escaped += '\\n';
+    else if (c === 13) escaped += '\\r';
+    else if (c === 9) escaped += '\\t';
+    else if (c < 32 || c === 127 || c === 0x2028 || c === 0x2029)
+      escaped += `\\u${c.toString(16).padStart(4, '0')}`;
+    else escaped += text[i];
+    if (escaped.length > 60) break;
+  }
   return escaped.length > 60 ? `${escaped.slice(0, 57)}…` : escaped;
 }

@@ -1,6 +1,6 @@
 import { existsSync, readFileSync } from 'node:fs';
-import type { Provenance } from '../core/version.js';
 import { UserError } from '../core/errors.js';
+import type { Provenance } from '../core/version.js';
 import type { Matrix } from '../learn/matrix.js';
 import { csvField, csvNumber, parseCsv, shown } from './csv.js';
 import { formatNpy, readNpy } from './npy.js';
@@ -37,8 +37,10 @@ function checkTable(table: FeatureTable): void {
   if (ids.length !== matrix.rows || labels.length !== matrix.rows) {
     throw new Error(`feature table: ${matrix.rows} rows but ${ids.length} ids and ${labels.length} labels`);
   }
-  if (names.length !== matrix.cols) throw new Error(`feature table: ${matrix.cols} columns but ${names.length} names`);
-  if (matrix.data.length !== matrix.rows * matrix.cols) throw new Error('feature table: matrix data has the wrong length');
+  if (names.length !== matrix.cols)
+    throw new Error(`feature table: ${matrix.cols} columns but ${names.length} names`);
+  if (matrix.data.length !== matrix.rows * matrix.cols)
+    throw new Error('feature table: matrix data has the wrong length');
 }
 
 /** The CSV text of a feature table. */
@@ -72,7 +74,12 @@ export function formatColumnsCsv(names: readonly string[]): string {
  * Writes a feature table (CSV, or NPY with its sidecars) and its provenance atomically; returns the paths
  * written, main file first.
  */
-export function writeFeatureTable(path: string, table: FeatureTable, provenance: Provenance, format: FeatureFormat): string[] {
+export function writeFeatureTable(
+  path: string,
+  table: FeatureTable,
+  provenance: Provenance,
+  format: FeatureFormat,
+): string[] {
   checkTable(table);
   if (format === 'csv') {
     writeWithProvenance(path, formatFeatureCsv(table), provenance);
@@ -80,15 +87,24 @@ export function writeFeatureTable(path: string, table: FeatureTable, provenance:
   }
   const samples = samplesSidecarPath(path);
   const columns = columnsSidecarPath(path);
-  writeWithProvenance(path, formatNpy([table.matrix.rows, table.matrix.cols], table.matrix.data), provenance, [
-    { path: samples, data: formatSamplesCsv(table.ids, table.labels) },
-    { path: columns, data: formatColumnsCsv(table.names) },
-  ]);
+  writeWithProvenance(
+    path,
+    formatNpy([table.matrix.rows, table.matrix.cols], table.matrix.data),
+    provenance,
+    [
+      { path: samples, data: formatSamplesCsv(table.ids, table.labels) },
+      { path: columns, data: formatColumnsCsv(table.names) },
+    ],
+  );
   return [path, samples, columns, `${path}.provenance.json`];
 }
 
 /** Reads the `sample,label` sidecar of an array file: one entry per array row. */
-export function readSamplesSidecar(file: string, expectedRows: number, arrayFile: string): { ids: string[]; labels: string[] } {
+export function readSamplesSidecar(
+  file: string,
+  expectedRows: number,
+  arrayFile: string,
+): { ids: string[]; labels: string[] } {
   if (!existsSync(file)) {
     throw new UserError(
       `no sample list beside it; write ${file} with the header sample,label and one row per array row`,
@@ -99,27 +115,37 @@ export function readSamplesSidecar(file: string, expectedRows: number, arrayFile
   if (rows.length === 0) throw new UserError('empty file; expected the header sample,label', { file });
   const header = rows[0].fields.map((f) => f.toLowerCase());
   if (header[0] !== 'sample' || header[1] !== 'label' || header.length !== 2) {
-    throw new UserError(`the header must be sample,label (got '${shown(rows[0].fields.join(','))}')`, { file, line: rows[0].line });
+    throw new UserError(`the header must be sample,label (got '${shown(rows[0].fields.join(','))}')`, {
+      file,
+      line: rows[0].line,
+    });
   }
   const ids: string[] = [];
   const labels: string[] = [];
   const seen = new Map<string, number>();
   for (let r = 1; r < rows.length; r++) {
     const { fields, line } = rows[r];
-    if (fields.length !== 2) throw new UserError(`has ${fields.length} fields, expected sample,label`, { file, line });
+    if (fields.length !== 2)
+      throw new UserError(`has ${fields.length} fields, expected sample,label`, { file, line });
     if (fields[0] === '') throw new UserError('empty sample id; every row needs one', { file, line });
     const earlier = seen.get(fields[0]);
     if (earlier !== undefined) {
-      throw new UserError(`sample '${shown(fields[0])}' appears twice (first on line ${earlier}); ids must be unique`, { file, line });
+      throw new UserError(
+        `sample '${shown(fields[0])}' appears twice (first on line ${earlier}); ids must be unique`,
+        { file, line },
+      );
     }
     seen.set(fields[0], line);
     ids.push(fields[0]);
     labels.push(fields[1]);
   }
   if (ids.length !== expectedRows) {
-    throw new UserError(`lists ${ids.length} samples but ${arrayFile} has ${expectedRows} rows; give one row per array row`, {
-      file,
-    });
+    throw new UserError(
+      `lists ${ids.length} samples but ${arrayFile} has ${expectedRows} rows; give one row per array row`,
+      {
+        file,
+      },
+    );
   }
   return { ids, labels };
 }
@@ -129,11 +155,17 @@ export function readColumnsSidecar(file: string, expected: number): string[] | u
   if (!existsSync(file)) return undefined;
   const rows = parseCsv(readFileSync(file, 'utf8'), file);
   if (rows.length === 0 || rows[0].fields[0]?.toLowerCase() !== 'column') {
-    throw new UserError("the header must be 'column', then one feature name per line", { file, line: rows[0]?.line });
+    throw new UserError("the header must be 'column', then one feature name per line", {
+      file,
+      line: rows[0]?.line,
+    });
   }
   const names = rows.slice(1).map((r) => r.fields[0] ?? '');
   if (names.length !== expected) {
-    throw new UserError(`names ${names.length} columns but the array has ${expected}; give one name per column`, { file });
+    throw new UserError(
+      `names ${names.length} columns but the array has ${expected}; give one name per column`,
+      { file },
+    );
   }
   return names;
 }
@@ -143,9 +175,12 @@ export async function readFeatureTable(path: string): Promise<FeatureTable> {
   if (/\.npy$/i.test(path)) {
     const array = readNpy(path);
     if (array.shape.length !== 2) {
-      throw new UserError(`a feature array must be 2-D (samples × features), this one has shape (${array.shape.join(', ')})`, {
-        file: path,
-      });
+      throw new UserError(
+        `a feature array must be 2-D (samples × features), this one has shape (${array.shape.join(', ')})`,
+        {
+          file: path,
+        },
+      );
     }
     const [rows, cols] = array.shape;
     const { ids, labels } = readSamplesSidecar(samplesSidecarPath(path), rows, path);
@@ -157,7 +192,7 @@ export async function readFeatureTable(path: string): Promise<FeatureTable> {
   const samples = dataset.samples as Array<{ id: string; label: string; values: Float64Array }>;
   const names = dataset.columns ?? [];
   const data = new Float64Array(samples.length * names.length);
-  samples.forEach((s, i) => data.set(s.values, i * names.length));
+  for (let i = 0; i < samples.length; i++) data.set(samples[i].values, i * names.length);
   return {
     ids: samples.map((s) => s.id),
     labels: samples.map((s) => s.label),

@@ -34,7 +34,6 @@ interface SampleArray {
   isImage: boolean;
 }
 
-const IMAGE_EXTENSIONS = new Set(['.png', '.pgm']);
 const KNOWN_EXTENSIONS = new Set(['.png', '.pgm', '.npy', '.csv', '.txt']);
 
 /** Reads a headerless-or-headed numeric CSV matrix (every row the same width). */
@@ -46,7 +45,8 @@ export function readMatrixCsv(file: string): SampleArray {
     if (rows[0].fields.every((f) => !/^[+-]?(\d|\.\d)/.test(f))) start = 1;
   }
   if (rows.length === 0) throw new UserError('empty file; expected rows of numbers', { file });
-  if (rows.length === start) throw new UserError('header only, no rows of numbers', { file, line: rows[0].line });
+  if (rows.length === start)
+    throw new UserError('header only, no rows of numbers', { file, line: rows[0].line });
   const cols = rows[start].fields.length;
   const n = rows.length - start;
   const data = new Float64Array(n * cols);
@@ -54,15 +54,22 @@ export function readMatrixCsv(file: string): SampleArray {
   for (let r = start; r < rows.length; r++) {
     const { fields, line } = rows[r];
     if (fields.length !== cols) {
-      throw new UserError(`has ${fields.length} fields, the first row has ${cols}; every row needs the same number`, {
-        file,
-        line,
-      });
+      throw new UserError(
+        `has ${fields.length} fields, the first row has ${cols}; every row needs the same number`,
+        {
+          file,
+          line,
+        },
+      );
     }
     const i = r - start;
     lines[i] = line;
     for (let c = 0; c < cols; c++) {
-      data[i * cols + c] = parseNumberField(fields[c], { file, line, column: start === 1 ? rows[0].fields[c] : String(c + 1) });
+      data[i * cols + c] = parseNumberField(fields[c], {
+        file,
+        line,
+        column: start === 1 ? rows[0].fields[c] : String(c + 1),
+      });
     }
   }
   return { shape: [n, cols], data, lines, isImage: false };
@@ -87,18 +94,26 @@ async function readSampleFile(entry: LabelledFile, labelsFile: string): Promise<
 }
 
 /** The first fault of a square matrix as a distance matrix, or undefined when it is one. */
-export function distanceFault(size: number, m: Float64Array, tolerance = DISTANCE_TOLERANCE): { row: number; message: string } | undefined {
+export function distanceFault(
+  size: number,
+  m: Float64Array,
+  tolerance = DISTANCE_TOLERANCE,
+): { row: number; message: string } | undefined {
   let scale = 0;
   for (let i = 0; i < m.length; i++) scale = Math.max(scale, Math.abs(m[i]));
   const tol = tolerance * Math.max(1, scale);
   // Invariant: rows before i passed every check against all columns.
   for (let i = 0; i < size; i++) {
-    if (Math.abs(m[i * size + i]) > tol) return { row: i, message: `diagonal entry ${i + 1} is ${m[i * size + i]}, not 0` };
+    if (Math.abs(m[i * size + i]) > tol)
+      return { row: i, message: `diagonal entry ${i + 1} is ${m[i * size + i]}, not 0` };
     for (let j = 0; j < size; j++) {
       const a = m[i * size + j];
       if (a < -tol) return { row: i, message: `entry (${i + 1}, ${j + 1}) is negative (${a})` };
       if (Math.abs(a - m[j * size + i]) > tol) {
-        return { row: i, message: `not symmetric: entry (${i + 1}, ${j + 1}) is ${a} but (${j + 1}, ${i + 1}) is ${m[j * size + i]}` };
+        return {
+          row: i,
+          message: `not symmetric: entry (${i + 1}, ${j + 1}) is ${a} but (${j + 1}, ${i + 1}) is ${m[j * size + i]}`,
+        };
       }
     }
   }
@@ -112,7 +127,8 @@ function detectKind(arrays: SampleArray[]): SampleKind {
   if (ranks.size === 1 && ranks.has(1)) return 'signal';
   if (ranks.size === 1 && ranks.has(3)) return 'image';
   const square = arrays.every(
-    (a) => a.shape.length === 2 && a.shape[0] === a.shape[1] && distanceFault(a.shape[0], a.data) === undefined,
+    (a) =>
+      a.shape.length === 2 && a.shape[0] === a.shape[1] && distanceFault(a.shape[0], a.data) === undefined,
   );
   return square ? 'distances' : 'points';
 }
@@ -136,11 +152,18 @@ export async function loadFolder(folder: string, options: FolderOptions = {}): P
     const shapeText = `(${a.shape.join(', ')})`;
     const base = { id: e.id, label: e.label };
     if (kind === 'points') {
-      if (a.shape.length !== 2) throw new UserError(`a point cloud must be a 2-D array (points × dimensions), this one is ${shapeText}`, { file });
+      if (a.shape.length !== 2)
+        throw new UserError(
+          `a point cloud must be a 2-D array (points × dimensions), this one is ${shapeText}`,
+          { file },
+        );
       if (a.shape[0] === 0) throw new UserError('has no points; a point cloud needs at least one', { file });
       if (dim === -1) dim = a.shape[1];
       if (a.shape[1] !== dim) {
-        throw new UserError(`has ${a.shape[1]} dimensions but ${entries[0].file} has ${dim}; give every cloud the same`, { file });
+        throw new UserError(
+          `has ${a.shape[1]} dimensions but ${entries[0].file} has ${dim}; give every cloud the same`,
+          { file },
+        );
       }
       samples.push({ kind, ...base, dim, count: a.shape[0], coords: a.data });
     } else if (kind === 'distances') {
@@ -150,23 +173,33 @@ export async function loadFolder(folder: string, options: FolderOptions = {}): P
       const fault = distanceFault(a.shape[0], a.data);
       if (fault) {
         const line = a.lines.length > 0 ? a.lines[fault.row] : undefined;
-        throw new UserError(`${fault.message}; a distance matrix must be symmetric, non-negative, with a zero diagonal`, {
-          file,
-          line,
-        });
+        throw new UserError(
+          `${fault.message}; a distance matrix must be symmetric, non-negative, with a zero diagonal`,
+          {
+            file,
+            line,
+          },
+        );
       }
       samples.push({ kind, ...base, size: a.shape[0], matrix: a.data });
     } else if (kind === 'signal') {
       const flat = a.shape.length === 1 || (a.shape.length === 2 && (a.shape[0] === 1 || a.shape[1] === 1));
-      if (!flat) throw new UserError(`a signal must be one column or a 1-D array, this one is ${shapeText}`, { file });
+      if (!flat)
+        throw new UserError(`a signal must be one column or a 1-D array, this one is ${shapeText}`, { file });
       samples.push({ kind, ...base, values: a.data });
     } else if (kind === 'image') {
       if (a.shape.length !== 2 && a.shape.length !== 3) {
-        throw new UserError(`an image must be 2-D (height × width) or a 3-D volume, this one is ${shapeText}`, { file });
+        throw new UserError(
+          `an image must be 2-D (height × width) or a 3-D volume, this one is ${shapeText}`,
+          { file },
+        );
       }
       if (rank === -1) rank = a.shape.length;
       if (a.shape.length !== rank) {
-        throw new UserError(`is ${a.shape.length}-D but ${entries[0].file} is ${rank}-D; do not mix images and volumes`, { file });
+        throw new UserError(
+          `is ${a.shape.length}-D but ${entries[0].file} is ${rank}-D; do not mix images and volumes`,
+          { file },
+        );
       }
       samples.push({ kind, ...base, shape: [...a.shape], values: a.data });
     } else {

@@ -1,5 +1,5 @@
-import { shown } from './csv.js';
 import { UserError } from '../core/errors.js';
+import { shown } from './csv.js';
 
 /**
  * Grayscale image files. PGM (the Netpbm grey map: "P2" plain text or "P5" binary, maxval up to 65535,
@@ -39,15 +39,20 @@ export function parsePgm(bytes: Uint8Array, file: string): GrayImage {
   };
   const magic = token();
   if (magic !== 'P2' && magic !== 'P5') {
-    throw new UserError(`not a PGM grey map (starts with '${shown(magic.slice(0, 8))}', expected P2 or P5); save it as PGM or PNG`, {
-      file,
-    });
+    throw new UserError(
+      `not a PGM grey map (starts with '${shown(magic.slice(0, 8))}', expected P2 or P5); save it as PGM or PNG`,
+      {
+        file,
+      },
+    );
   }
   const header = (name: string, max: number): number => {
     const t = token();
     const n = Number(t);
     if (!/^\d+$/.test(t) || n < 1 || n > max) {
-      throw new UserError(`bad PGM ${name} '${shown(t)}'; the header is P5 <width> <height> <maxval>`, { file });
+      throw new UserError(`bad PGM ${name} '${shown(t)}'; the header is P5 <width> <height> <maxval>`, {
+        file,
+      });
     }
     return n;
   };
@@ -60,9 +65,12 @@ export function parsePgm(bytes: Uint8Array, file: string): GrayImage {
     p++; // exactly one white-space byte separates the header from the raster
     const bytesPer = maxValue < 256 ? 1 : 2;
     if (bytes.length - p < count * bytesPer) {
-      throw new UserError(`truncated PGM: ${width}×${height} needs ${count * bytesPer} bytes of pixels, found ${bytes.length - p}`, {
-        file,
-      });
+      throw new UserError(
+        `truncated PGM: ${width}×${height} needs ${count * bytesPer} bytes of pixels, found ${bytes.length - p}`,
+        {
+          file,
+        },
+      );
     }
     // Invariant: values[0..i) hold the first i pixels.
     if (bytesPer === 1) for (let i = 0; i < count; i++) values[i] = bytes[p + i];
@@ -70,22 +78,30 @@ export function parsePgm(bytes: Uint8Array, file: string): GrayImage {
   } else {
     for (let i = 0; i < count; i++) {
       const t = token();
-      if (t === '') throw new UserError(`truncated PGM: ${width}×${height} needs ${count} values, found ${i}`, { file });
+      if (t === '')
+        throw new UserError(`truncated PGM: ${width}×${height} needs ${count} values, found ${i}`, { file });
       const v = Number(t);
-      if (!/^\d+$/.test(t)) throw new UserError(`PGM value ${i + 1} '${shown(t)}' is not a whole number`, { file });
+      if (!/^\d+$/.test(t))
+        throw new UserError(`PGM value ${i + 1} '${shown(t)}' is not a whole number`, { file });
       values[i] = v;
     }
   }
   for (let i = 0; i < count; i++) {
-    if (values[i] > maxValue) throw new UserError(`PGM value ${values[i]} at pixel ${i} exceeds maxval ${maxValue}`, { file });
+    if (values[i] > maxValue)
+      throw new UserError(`PGM value ${values[i]} at pixel ${i} exceeds maxval ${maxValue}`, { file });
   }
   return { shape: [height, width], values, maxValue };
 }
 
 /** The bytes of a binary PGM (P5). Values are rounded and clamped to [0, maxValue]. */
-export function formatPgm(shape: readonly [number, number], values: ArrayLike<number>, maxValue = 255): Uint8Array {
+export function formatPgm(
+  shape: readonly [number, number],
+  values: ArrayLike<number>,
+  maxValue = 255,
+): Uint8Array {
   const [height, width] = shape;
-  if (values.length !== width * height) throw new Error(`formatPgm: ${width}×${height} needs ${width * height} values, got ${values.length}`);
+  if (values.length !== width * height)
+    throw new Error(`formatPgm: ${width}×${height} needs ${width * height} values, got ${values.length}`);
   const head = new TextEncoder().encode(`P5\n${width} ${height}\n${maxValue}\n`);
   const bytesPer = maxValue < 256 ? 1 : 2;
   const out = new Uint8Array(head.length + values.length * bytesPer);
@@ -108,11 +124,16 @@ export async function parsePng(bytes: Uint8Array, file: string): Promise<GrayIma
   const { PNG } = (await import('pngjs')).default;
   let png: { width: number; height: number; data: ArrayLike<number>; depth?: number };
   try {
-    png = PNG.sync.read(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), { skipRescale: true }) as typeof png;
+    png = PNG.sync.read(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), {
+      skipRescale: true,
+    }) as typeof png;
   } catch (error) {
-    throw new UserError(`not a readable PNG (${String((error as Error).message ?? error)}); save it again as PNG or PGM`, {
-      file,
-    });
+    throw new UserError(
+      `not a readable PNG (${String((error as Error).message ?? error)}); save it again as PNG or PGM`,
+      {
+        file,
+      },
+    );
   }
   const { width, height, data } = png;
   const depth = png.depth ?? 8;
@@ -129,7 +150,11 @@ export async function parsePng(bytes: Uint8Array, file: string): Promise<GrayIma
 }
 
 /** Encodes grey levels as a grayscale PNG of 8 or 16 bits (values rounded and clamped). */
-export async function formatPng(shape: readonly [number, number], values: ArrayLike<number>, bitDepth: 8 | 16 = 8): Promise<Uint8Array> {
+export async function formatPng(
+  shape: readonly [number, number],
+  values: ArrayLike<number>,
+  bitDepth: 8 | 16 = 8,
+): Promise<Uint8Array> {
   const { PNG } = (await import('pngjs')).default;
   const [height, width] = shape;
   const max = bitDepth === 16 ? 65535 : 255;
@@ -137,5 +162,7 @@ export async function formatPng(shape: readonly [number, number], values: ArrayL
   for (let i = 0; i < raster.length; i++) raster[i] = Math.min(max, Math.max(0, Math.round(values[i])));
   const png = new PNG({ width, height, colorType: 0, inputColorType: 0, bitDepth, inputHasAlpha: false });
   png.data = Buffer.from(raster.buffer, raster.byteOffset, raster.byteLength);
-  return new Uint8Array(PNG.sync.write(png, { colorType: 0, inputColorType: 0, bitDepth, inputHasAlpha: false }));
+  return new Uint8Array(
+    PNG.sync.write(png, { colorType: 0, inputColorType: 0, bitDepth, inputHasAlpha: false }),
+  );
 }

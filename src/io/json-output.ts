@@ -12,8 +12,10 @@ export function formatJsonOutput(body: Record<string, unknown>, provenance: Prov
 }
 
 function jsonValue(_key: string, value: unknown): unknown {
-  if (typeof value === 'number' && !Number.isFinite(value)) return Number.isNaN(value) ? 'nan' : value > 0 ? 'inf' : '-inf';
-  if (ArrayBuffer.isView(value) && !(value instanceof DataView)) return Array.from(value as unknown as ArrayLike<number>);
+  if (typeof value === 'number' && !Number.isFinite(value))
+    return Number.isNaN(value) ? 'nan' : value > 0 ? 'inf' : '-inf';
+  if (ArrayBuffer.isView(value) && !(value instanceof DataView))
+    return Array.from(value as unknown as ArrayLike<number>);
   return value;
 }
 

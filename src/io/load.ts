@@ -1,6 +1,8 @@
 import { statSync } from 'node:fs';
 import { extname } from 'node:path';
 import { UserError } from '../core/errors.js';
+import { loadArrayFile } from './array-file.js';
+import { readTextFile, shown } from './csv.js';
 import type {
   Dataset,
   DiagramSample,
@@ -12,9 +14,7 @@ import type {
 } from './dataset.js';
 import { SAMPLE_KINDS } from './dataset.js';
 import { DIAGRAM_CSV_HEADER, parseDiagramCsv } from './diagram-csv.js';
-import { loadArrayFile } from './array-file.js';
-import { readTextFile, shown } from './csv.js';
-import { type SampleCsv, readCsvHeader, readSampleCsv } from './sample-csv.js';
+import { readCsvHeader, readSampleCsv, type SampleCsv } from './sample-csv.js';
 
 /**
  * The one dataset loader every command uses.
@@ -64,14 +64,17 @@ export async function loadDataset(path: string, options: LoadOptions = {}): Prom
 export function kindFromHeader(header: readonly string[]): 'diagrams' | 'signal' | undefined {
   const lower = header.map((h) => h.trim().toLowerCase());
   if (DIAGRAM_CSV_HEADER.every((name) => lower.includes(name))) return 'diagrams';
-  if (lower.length === 3 && lower[0] === 'sample' && lower[1] === 'label' && lower[2] === 'value') return 'signal';
+  if (lower.length === 3 && lower[0] === 'sample' && lower[1] === 'label' && lower[2] === 'value')
+    return 'signal';
   return undefined;
 }
 
 async function loadCsvFile(file: string, options: LoadOptions): Promise<Dataset> {
   const first = await readCsvHeader(file);
   if (first === undefined) {
-    throw new UserError('empty file; expected a header such as sample,label,x,y and one row per value', { file });
+    throw new UserError('empty file; expected a header such as sample,label,x,y and one row per value', {
+      file,
+    });
   }
   const detected = kindFromHeader(first.fields);
   const kind = options.kind ?? detected;
@@ -112,7 +115,14 @@ function pointsFromCsv(csv: SampleCsv): Dataset<PointSample> {
   return {
     kind: 'points',
     source: csv.file,
-    samples: csv.samples.map((s) => ({ kind: 'points', id: s.id, label: s.label, dim, count: s.rows, coords: s.values })),
+    samples: csv.samples.map((s) => ({
+      kind: 'points',
+      id: s.id,
+      label: s.label,
+      dim,
+      count: s.rows,
+      coords: s.values,
+    })),
   };
 }
 

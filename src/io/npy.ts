@@ -1,7 +1,7 @@
 import { readFileSync, statSync } from 'node:fs';
-import { shown } from './csv.js';
 import { UserError } from '../core/errors.js';
 import { writeFileAtomic } from './atomic.js';
+import { shown } from './csv.js';
 
 /**
  * NumPy `.npy` arrays, read and written by us (format spec: "NEP 1 — A simple file format for NumPy arrays",
@@ -36,10 +36,12 @@ export function npyHeaderText(shape: readonly number[]): string {
 export function formatNpy(shape: readonly number[], data: ArrayLike<number>): Uint8Array {
   let count = 1;
   for (const n of shape) {
-    if (!Number.isInteger(n) || n < 0) throw new Error(`formatNpy: bad dimension ${n} in shape [${shape.join(', ')}]`);
+    if (!Number.isInteger(n) || n < 0)
+      throw new Error(`formatNpy: bad dimension ${n} in shape [${shape.join(', ')}]`);
     count *= n;
   }
-  if (count !== data.length) throw new Error(`formatNpy: shape [${shape.join(', ')}] holds ${count} values, data has ${data.length}`);
+  if (count !== data.length)
+    throw new Error(`formatNpy: shape [${shape.join(', ')}] holds ${count} values, data has ${data.length}`);
   const dict = npyHeaderText(shape);
   // 10 bytes of preamble for version 1.0 (magic 6, version 2, length 2); 12 for version 2.0 (length 4).
   let preamble = 10;
@@ -79,12 +81,16 @@ interface Dtype {
 function parseDescr(descr: string, file: string): Dtype {
   const m = /^([<>|=]?)([fiub])(\d+)$/.exec(descr);
   const fail = (): never => {
-    throw new UserError(`unsupported .npy data type '${shown(descr)}'; save the array as float64 (numpy: a.astype('<f8'))`, { file });
+    throw new UserError(
+      `unsupported .npy data type '${shown(descr)}'; save the array as float64 (numpy: a.astype('<f8'))`,
+      { file },
+    );
   };
   if (!m) return fail();
   const kind = m[2] as Dtype['kind'];
   const size = Number(m[3]);
-  const ok = kind === 'f' ? size === 4 || size === 8 : kind === 'b' ? size === 1 : [1, 2, 4, 8].includes(size);
+  const ok =
+    kind === 'f' ? size === 4 || size === 8 : kind === 'b' ? size === 1 : [1, 2, 4, 8].includes(size);
   if (!ok) return fail();
   return { littleEndian: m[1] !== '>', kind, size };
 }
@@ -92,7 +98,9 @@ function parseDescr(descr: string, file: string): Dtype {
 /** Parses the bytes of a `.npy` file; a malformed file is the user's one-line error naming `file`. */
 export function parseNpy(bytes: Uint8Array, file: string): NpyArray {
   if (bytes.length < 10 || MAGIC.some((b, i) => bytes[i] !== b)) {
-    throw new UserError('not a .npy file (the magic bytes \\x93NUMPY are missing); save it with numpy.save', { file });
+    throw new UserError('not a .npy file (the magic bytes \\x93NUMPY are missing); save it with numpy.save', {
+      file,
+    });
   }
   const major = bytes[6];
   const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
@@ -108,15 +116,21 @@ export function parseNpy(bytes: Uint8Array, file: string): NpyArray {
   } else {
     throw new UserError(`unsupported .npy version ${major}.${bytes[7]}; save with numpy.save`, { file });
   }
-  if (start + headerLength > bytes.length) throw new UserError('truncated .npy header; write the file again', { file });
-  const header = new TextDecoder(major === 3 ? 'utf-8' : 'latin1').decode(bytes.subarray(start, start + headerLength));
+  if (start + headerLength > bytes.length)
+    throw new UserError('truncated .npy header; write the file again', { file });
+  const header = new TextDecoder(major === 3 ? 'utf-8' : 'latin1').decode(
+    bytes.subarray(start, start + headerLength),
+  );
   const descr = /'descr'\s*:\s*'([^']*)'/.exec(header)?.[1];
   const fortran = /'fortran_order'\s*:\s*(True|False)/.exec(header)?.[1];
   const shapeText = /'shape'\s*:\s*\(([^)]*)\)/.exec(header)?.[1];
   if (descr === undefined || fortran === undefined || shapeText === undefined) {
-    throw new UserError('the .npy header lacks descr, fortran_order or shape; save the plain array with numpy.save', {
-      file,
-    });
+    throw new UserError(
+      'the .npy header lacks descr, fortran_order or shape; save the plain array with numpy.save',
+      {
+        file,
+      },
+    );
   }
   const dtype = parseDescr(descr, file);
   const shape = shapeText
@@ -125,7 +139,8 @@ export function parseNpy(bytes: Uint8Array, file: string): NpyArray {
     .filter((s) => s !== '')
     .map((s) => {
       const n = Number(s.replace(/L$/, ''));
-      if (!Number.isInteger(n) || n < 0) throw new UserError(`bad .npy shape (${shapeText}); save the array again`, { file });
+      if (!Number.isInteger(n) || n < 0)
+        throw new UserError(`bad .npy shape (${shapeText}); save the array again`, { file });
       return n;
     });
   const count = shape.reduce((a, b) => a * b, 1);
@@ -141,7 +156,9 @@ export function parseNpy(bytes: Uint8Array, file: string): NpyArray {
   readValues(view, offset, dtype, raw);
   for (let i = 0; i < count; i++) {
     if (!Number.isFinite(raw[i])) {
-      throw new UserError(`value ${i} (flat index) is ${raw[i]}; every value must be a finite number`, { file });
+      throw new UserError(`value ${i} (flat index) is ${raw[i]}; every value must be a finite number`, {
+        file,
+      });
     }
   }
   const data = fortran === 'True' && shape.length > 1 ? fortranToC(raw, shape) : raw;
@@ -152,14 +169,20 @@ function readValues(view: DataView, offset: number, t: Dtype, out: Float64Array)
   const le = t.littleEndian;
   const n = out.length;
   // Invariant: out[0..i) holds the first i values converted to float64.
-  if (t.kind === 'f' && t.size === 8) for (let i = 0; i < n; i++) out[i] = view.getFloat64(offset + 8 * i, le);
+  if (t.kind === 'f' && t.size === 8)
+    for (let i = 0; i < n; i++) out[i] = view.getFloat64(offset + 8 * i, le);
   else if (t.kind === 'f') for (let i = 0; i < n; i++) out[i] = view.getFloat32(offset + 4 * i, le);
-  else if (t.kind === 'b' || (t.kind === 'u' && t.size === 1)) for (let i = 0; i < n; i++) out[i] = view.getUint8(offset + i);
+  else if (t.kind === 'b' || (t.kind === 'u' && t.size === 1))
+    for (let i = 0; i < n; i++) out[i] = view.getUint8(offset + i);
   else if (t.kind === 'i' && t.size === 1) for (let i = 0; i < n; i++) out[i] = view.getInt8(offset + i);
-  else if (t.kind === 'u' && t.size === 2) for (let i = 0; i < n; i++) out[i] = view.getUint16(offset + 2 * i, le);
-  else if (t.kind === 'i' && t.size === 2) for (let i = 0; i < n; i++) out[i] = view.getInt16(offset + 2 * i, le);
-  else if (t.kind === 'u' && t.size === 4) for (let i = 0; i < n; i++) out[i] = view.getUint32(offset + 4 * i, le);
-  else if (t.kind === 'i' && t.size === 4) for (let i = 0; i < n; i++) out[i] = view.getInt32(offset + 4 * i, le);
+  else if (t.kind === 'u' && t.size === 2)
+    for (let i = 0; i < n; i++) out[i] = view.getUint16(offset + 2 * i, le);
+  else if (t.kind === 'i' && t.size === 2)
+    for (let i = 0; i < n; i++) out[i] = view.getInt16(offset + 2 * i, le);
+  else if (t.kind === 'u' && t.size === 4)
+    for (let i = 0; i < n; i++) out[i] = view.getUint32(offset + 4 * i, le);
+  else if (t.kind === 'i' && t.size === 4)
+    for (let i = 0; i < n; i++) out[i] = view.getInt32(offset + 4 * i, le);
   else if (t.kind === 'u') for (let i = 0; i < n; i++) out[i] = Number(view.getBigUint64(offset + 8 * i, le));
   else for (let i = 0; i < n; i++) out[i] = Number(view.getBigInt64(offset + 8 * i, le));
 }

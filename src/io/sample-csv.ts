@@ -38,7 +38,9 @@ export interface SampleCsvOptions {
 
 /** Reads only the header line of a CSV (for kind detection), without reading the whole file. */
 export async function readCsvHeader(file: string): Promise<{ fields: string[]; line: number } | undefined> {
-  const parser = createReadStream(file, { highWaterMark: 1 << 16 }).pipe(parse({ ...CSV_OPTIONS, to_line: 256 }));
+  const parser = createReadStream(file, { highWaterMark: 1 << 16 }).pipe(
+    parse({ ...CSV_OPTIONS, to_line: 256 }),
+  );
   let line = 1;
   try {
     for await (const fields of parser as AsyncIterable<string[]>) {
@@ -60,10 +62,13 @@ export function csvSyntaxError(error: unknown, file: string): UserError {
   if (e.code === 'ENOENT') return new UserError('file not found; check the path', { file });
   if (e.code === 'EISDIR') return new UserError('is a folder, not a file; give a file', { file });
   if (error instanceof CsvError || (typeof e.code === 'string' && e.code.startsWith('CSV_'))) {
-    return new UserError(`not valid CSV (${String(e.message ?? error).split('\n')[0]}); fix the quoting or the row`, {
-      file,
-      line: e.lines,
-    });
+    return new UserError(
+      `not valid CSV (${String(e.message ?? error).split('\n')[0]}); fix the quoting or the row`,
+      {
+        file,
+        line: e.lines,
+      },
+    );
   }
   return error as UserError;
 }
@@ -143,7 +148,8 @@ export async function readSampleCsv(file: string, options: SampleCsvOptions = {}
       );
     }
     const id = record[0];
-    if (id === '') throw new UserError('empty sample id; every row needs one in column sample', { file, line });
+    if (id === '')
+      throw new UserError('empty sample id; every row needs one in column sample', { file, line });
     const label = record[1];
     let k = index.get(id);
     let s: SampleRows;
@@ -166,7 +172,9 @@ export async function readSampleCsv(file: string, options: SampleCsvOptions = {}
     const b = building[k];
     if (b.fill + width > b.current.length) {
       if (b.fill > 0) b.chunks.push(b.fill === b.current.length ? b.current : b.current.slice(0, b.fill));
-      b.current = new Float64Array(Math.max(width, Math.min(MAX_CHUNK - (MAX_CHUNK % width), b.total + b.fill)));
+      b.current = new Float64Array(
+        Math.max(width, Math.min(MAX_CHUNK - (MAX_CHUNK % width), b.total + b.fill)),
+      );
       b.total += b.fill;
       b.fill = 0;
     }
@@ -200,8 +208,9 @@ export async function readSampleCsv(file: string, options: SampleCsvOptions = {}
     parser.on('error', fail);
     parser.on('readable', () => {
       try {
-        let fields: string[] | null;
-        while (!failed && (fields = parser.read() as string[] | null) !== null) {
+        while (!failed) {
+          const fields = parser.read() as string[] | null;
+          if (fields === null) break;
           const line = nextLine;
           nextLine += 1 + lineBreaksIn(fields);
           if (!isBlankRecord(fields)) take(fields, line);
@@ -216,7 +225,9 @@ export async function readSampleCsv(file: string, options: SampleCsvOptions = {}
   });
 
   if (header === undefined) {
-    throw new UserError('empty file; expected a header such as sample,label,x,y and one row per value', { file });
+    throw new UserError('empty file; expected a header such as sample,label,x,y and one row per value', {
+      file,
+    });
   }
   if (rowCount === 0) {
     throw new UserError('header only, no rows; add at least one sample', { file, line: headerLine });
@@ -240,12 +251,20 @@ function checkHeader(header: string[], file: string, line: number): void {
     );
   }
   if (header.length < 3) {
-    throw new UserError('no value columns after sample,label; add at least one numeric column', { file, line });
+    throw new UserError('no value columns after sample,label; add at least one numeric column', {
+      file,
+      line,
+    });
   }
   const seen = new Set<string>();
   for (let c = 2; c < header.length; c++) {
-    if (header[c] === '') throw new UserError(`column ${c + 1} has no name; name every column`, { file, line });
-    if (seen.has(lower[c])) throw new UserError(`column '${shown(header[c])}' appears twice; give columns distinct names`, { file, line });
+    if (header[c] === '')
+      throw new UserError(`column ${c + 1} has no name; name every column`, { file, line });
+    if (seen.has(lower[c]))
+      throw new UserError(`column '${shown(header[c])}' appears twice; give columns distinct names`, {
+        file,
+        line,
+      });
     seen.add(lower[c]);
   }
 }

@@ -1,5 +1,5 @@
-import type { PointSample, SignalSample, TableSample } from './dataset.js';
 import { csvField, csvNumber } from './csv.js';
+import type { PointSample, SignalSample, TableSample } from './dataset.js';
 
 /**
  * Text writers for the CSV sample layouts `loadDataset` reads; each reads back to the same samples.
@@ -12,7 +12,8 @@ export function formatPointsCsv(samples: readonly PointSample[], names?: readonl
   const columns = names ?? defaultCoordinateNames(dim);
   const parts: string[] = [['sample', 'label', ...columns].map(csvField).join(',')];
   for (const s of samples) {
-    if (s.dim !== dim) throw new Error(`formatPointsCsv: sample ${s.id} has ${s.dim} dimensions, the first has ${dim}`);
+    if (s.dim !== dim)
+      throw new Error(`formatPointsCsv: sample ${s.id} has ${s.dim} dimensions, the first has ${dim}`);
     const prefix = `${csvField(s.id)},${csvField(s.label)}`;
     for (let i = 0; i < s.count; i++) {
       let line = prefix;
@@ -49,7 +50,9 @@ export function formatSignalCsv(samples: readonly SignalSample[], layout: 'long'
   const parts = [header.join(',')];
   for (const s of samples) {
     if (s.values.length !== length) {
-      throw new Error(`formatSignalCsv: wide layout needs equal lengths; ${s.id} has ${s.values.length}, not ${length}`);
+      throw new Error(
+        `formatSignalCsv: wide layout needs equal lengths; ${s.id} has ${s.values.length}, not ${length}`,
+      );
     }
     parts.push([csvField(s.id), csvField(s.label), ...Array.from(s.values, csvNumber)].join(','));
   }

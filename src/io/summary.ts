@@ -1,4 +1,4 @@
-import { type Dataset, classesOf } from './dataset.js';
+import { classesOf, type Dataset } from './dataset.js';
 
 /**
  * What `landform inspect` prints: the kind, the number of samples, the classes with their counts, and the
@@ -61,34 +61,60 @@ export function summarizeDataset(dataset: Dataset): DatasetSummary {
     case 'points': {
       const s = samples as Array<Extract<(typeof samples)[number], { kind: 'points' }>>;
       facts.push({ name: 'dimensions', value: String(s[0]?.dim ?? 0) });
-      sizes.push(range('points per sample', s.map((x) => x.count)));
+      sizes.push(
+        range(
+          'points per sample',
+          s.map((x) => x.count),
+        ),
+      );
       facts.push({ name: 'coordinates', value: valueRange(s.map((x) => x.coords)) });
       break;
     }
     case 'distances': {
       const s = samples as Array<Extract<(typeof samples)[number], { kind: 'distances' }>>;
-      sizes.push(range('matrix size', s.map((x) => x.size)));
+      sizes.push(
+        range(
+          'matrix size',
+          s.map((x) => x.size),
+        ),
+      );
       facts.push({ name: 'distances', value: valueRange(s.map((x) => x.matrix)) });
       break;
     }
     case 'signal': {
       const s = samples as Array<Extract<(typeof samples)[number], { kind: 'signal' }>>;
-      sizes.push(range('values per signal', s.map((x) => x.values.length)));
+      sizes.push(
+        range(
+          'values per signal',
+          s.map((x) => x.values.length),
+        ),
+      );
       facts.push({ name: 'values', value: valueRange(s.map((x) => x.values)) });
       break;
     }
     case 'image': {
       const s = samples as Array<Extract<(typeof samples)[number], { kind: 'image' }>>;
       const shapes = [...new Set(s.map((x) => x.shape.join('×')))];
-      facts.push({ name: s[0]?.shape.length === 3 ? 'volume shapes' : 'image shapes', value: shapes.slice(0, 5).join(', ') + (shapes.length > 5 ? `, … (${shapes.length})` : '') });
-      sizes.push(range('pixels per image', s.map((x) => x.values.length)));
+      facts.push({
+        name: s[0]?.shape.length === 3 ? 'volume shapes' : 'image shapes',
+        value: shapes.slice(0, 5).join(', ') + (shapes.length > 5 ? `, … (${shapes.length})` : ''),
+      });
+      sizes.push(
+        range(
+          'pixels per image',
+          s.map((x) => x.values.length),
+        ),
+      );
       facts.push({ name: 'grey levels', value: valueRange(s.map((x) => x.values)) });
       break;
     }
     case 'table': {
       const s = samples as Array<Extract<(typeof samples)[number], { kind: 'table' }>>;
       const columns = dataset.columns ?? [];
-      facts.push({ name: 'columns', value: `${columns.length} (${columns.slice(0, 6).join(', ')}${columns.length > 6 ? ', …' : ''})` });
+      facts.push({
+        name: 'columns',
+        value: `${columns.length} (${columns.slice(0, 6).join(', ')}${columns.length > 6 ? ', …' : ''})`,
+      });
       facts.push({ name: 'values', value: valueRange(s.map((x) => x.values)) });
       break;
     }
@@ -97,10 +123,17 @@ export function summarizeDataset(dataset: Dataset): DatasetSummary {
       const degrees = [...new Set(s.flatMap((x) => x.diagrams.map((d) => d.degree)))].sort((a, b) => a - b);
       facts.push({ name: 'degrees', value: degrees.map((d) => `H${d}`).join(', ') });
       for (const degree of degrees) {
-        sizes.push(range(`H${degree} pairs per sample`, s.map((x) => x.diagrams.find((d) => d.degree === degree)?.births.length ?? 0)));
+        sizes.push(
+          range(
+            `H${degree} pairs per sample`,
+            s.map((x) => x.diagrams.find((d) => d.degree === degree)?.births.length ?? 0),
+          ),
+        );
       }
       let essential = 0;
-      for (const x of s) for (const d of x.diagrams) for (let i = 0; i < d.deaths.length; i++) if (d.deaths[i] === Infinity) essential++;
+      for (const x of s)
+        for (const d of x.diagrams)
+          for (let i = 0; i < d.deaths.length; i++) if (d.deaths[i] === Infinity) essential++;
       facts.push({ name: 'essential classes', value: String(essential) });
       break;
     }
@@ -124,7 +157,9 @@ export function formatSummary(summary: DatasetSummary): string {
     ['samples', String(summary.samples)],
     [
       'classes',
-      summary.classes.length === 0 ? 'none (unlabelled)' : `${summary.classes.length}: ${summary.classes.map((c) => `${c.label} ${c.count}`).join(', ')}`,
+      summary.classes.length === 0
+        ? 'none (unlabelled)'
+        : `${summary.classes.length}: ${summary.classes.map((c) => `${c.label} ${c.count}`).join(', ')}`,
     ],
   ];
   if (summary.unlabelled > 0) rows.push(['unlabelled', String(summary.unlabelled)]);
@@ -133,7 +168,11 @@ export function formatSummary(summary: DatasetSummary): string {
   const width = Math.max(...rows.map((r) => r[0].length));
   const lines = rows.map(([k, v]) => `${k.padEnd(width)}  ${v}`);
   const smallest = summary.classes.reduce((m, c) => Math.min(m, c.count), Infinity);
-  if (summary.classes.length === 1) lines.push('note: one class only; training and evaluation need at least two');
-  else if (smallest < 5 && summary.classes.length > 1) lines.push(`note: the smallest class has ${smallest} samples; 5-fold cross-validation needs at least 5 per class`);
+  if (summary.classes.length === 1)
+    lines.push('note: one class only; training and evaluation need at least two');
+  else if (smallest < 5 && summary.classes.length > 1)
+    lines.push(
+      `note: the smallest class has ${smallest} samples; 5-fold cross-validation needs at least 5 per class`,
+    );
   return lines.join('\n') + '\n';
 }

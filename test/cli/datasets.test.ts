@@ -1,4 +1,4 @@
-import { readFileSync, readdirSync, statSync } from 'node:fs';
+import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { runCli, tempDir } from '../helpers/cli.js';
@@ -46,6 +46,8 @@ describe('landform datasets', () => {
     expect(listFiles(dir)).toEqual(['pump.csv']);
     const bad = runCli(['datasets', '--out', dir, '--only', 'nothing']);
     expect(bad.code).toBe(2);
-    expect(bad.stderr).toMatch(/^landform: --only 'nothing' is not known; choose from lattice, pump, field\n$/);
+    expect(bad.stderr).toMatch(
+      /^landform: --only 'nothing' is not known; choose from lattice, pump, field\n$/,
+    );
   });
 });

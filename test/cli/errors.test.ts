@@ -1,6 +1,6 @@
+import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, readdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { spawnSync } from 'node:child_process';
 import { describe, expect, it } from 'vitest';
 import { runCli, tempDir } from '../helpers/cli.js';
 
@@ -26,15 +26,47 @@ describe('the error contract', () => {
     return path;
   };
   const cases: Array<[string, () => string[], RegExp]> = [
-    ['a missing file', () => ['inspect', join(dir, 'absent.csv')], /absent\.csv: file not found; check the path$/],
-    ['an unknown option', () => ['inspect', write('ok.csv', 'sample,label,x\na,r,1\na,r,2\n'), '--colour'], /unknown option '--colour'/],
-    ['an unknown kind', () => ['inspect', write('ok2.csv', 'sample,label,x\na,r,1\n'), '--kind', 'cloud'], /--kind 'cloud' is not known; choose from points, distances/],
-    ['a bad option value', () => ['datasets', '--out', dir, '--only', 'lattice,moon'], /--only 'moon' is not known; choose from lattice, pump, field/],
-    ['a non-numeric number', () => ['inspect', write('nan.csv', 'sample,label,x,y\na,r,1,2\na,r,1,two\n')], /nan\.csv:3: 'two' is not a number in column y/],
-    ['a non-finite number', () => ['inspect', write('inf.csv', 'sample,label,x,y\na,r,1,2\na,r,-inf,2\n')], /inf\.csv:3: '-inf' is not a finite number in column x/],
-    ['a ragged row', () => ['inspect', write('ragged.csv', 'sample,label,x,y\na,r,1,2\na,r,1\n')], /ragged\.csv:3: has 3 fields, the header has 4/],
+    [
+      'a missing file',
+      () => ['inspect', join(dir, 'absent.csv')],
+      /absent\.csv: file not found; check the path$/,
+    ],
+    [
+      'an unknown option',
+      () => ['inspect', write('ok.csv', 'sample,label,x\na,r,1\na,r,2\n'), '--colour'],
+      /unknown option '--colour'/,
+    ],
+    [
+      'an unknown kind',
+      () => ['inspect', write('ok2.csv', 'sample,label,x\na,r,1\n'), '--kind', 'cloud'],
+      /--kind 'cloud' is not known; choose from points, distances/,
+    ],
+    [
+      'a bad option value',
+      () => ['datasets', '--out', dir, '--only', 'lattice,moon'],
+      /--only 'moon' is not known; choose from lattice, pump, field/,
+    ],
+    [
+      'a non-numeric number',
+      () => ['inspect', write('nan.csv', 'sample,label,x,y\na,r,1,2\na,r,1,two\n')],
+      /nan\.csv:3: 'two' is not a number in column y/,
+    ],
+    [
+      'a non-finite number',
+      () => ['inspect', write('inf.csv', 'sample,label,x,y\na,r,1,2\na,r,-inf,2\n')],
+      /inf\.csv:3: '-inf' is not a finite number in column x/,
+    ],
+    [
+      'a ragged row',
+      () => ['inspect', write('ragged.csv', 'sample,label,x,y\na,r,1,2\na,r,1\n')],
+      /ragged\.csv:3: has 3 fields, the header has 4/,
+    ],
     ['an empty file', () => ['inspect', write('empty.csv', '')], /empty\.csv: empty file; expected a header/],
-    ['a header only', () => ['inspect', write('header.csv', 'sample,label,x,y\n')], /header\.csv:1: header only, no rows; add at least one sample/],
+    [
+      'a header only',
+      () => ['inspect', write('header.csv', 'sample,label,x,y\n')],
+      /header\.csv:1: header only, no rows; add at least one sample/,
+    ],
     [
       'labels.csv naming a missing file',
       () => {
@@ -86,7 +118,10 @@ describe('the error contract', () => {
       process.exitCode = await main(process.argv.slice(1));
     `;
     const run = (args: string[]) =>
-      spawnSync(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script, ...args], { encoding: 'utf8', cwd: root });
+      spawnSync(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script, ...args], {
+        encoding: 'utf8',
+        cwd: root,
+      });
     const r = run(['explode']);
     expect(r.status).toBe(1);
     const lines = r.stderr.split('\n').filter((l) => l !== '');

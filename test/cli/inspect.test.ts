@@ -41,7 +41,10 @@ describe('landform inspect', () => {
     expect(table.code, table.stderr).toBe(0);
     const summary = JSON.parse(table.stdout);
     expect(summary).toMatchObject({ kind: 'table', samples: 3, unlabelled: 1, options: { kind: null } });
-    expect(summary.classes).toEqual([{ label: 'x', count: 1 }, { label: 'y', count: 1 }]);
+    expect(summary.classes).toEqual([
+      { label: 'x', count: 1 },
+      { label: 'y', count: 1 },
+    ]);
     expect(typeof summary.version).toBe('string');
     const points = runCli(['inspect', file, '--kind', 'points']);
     expect(points.stdout).toMatch(/^kind\s+points$/m);

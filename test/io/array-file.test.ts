@@ -33,7 +33,7 @@ describe('whole-dataset .npy arrays', () => {
     expect(images.kind).toBe('image');
     expect((images.samples[1] as ImageSample).shape).toEqual([2, 2]);
     const points = await loadDataset(path, { kind: 'points' });
-    expect((points.samples[0] as PointSample)).toMatchObject({ count: 2, dim: 2 });
+    expect(points.samples[0] as PointSample).toMatchObject({ count: 2, dim: 2 });
     const distances = await loadDataset(path, { kind: 'distances' });
     expect(Array.from((distances.samples[1] as DistanceSample).matrix)).toEqual([0, 2, 2, 0]);
     await expect(loadDataset(path, { kind: 'signal' })).rejects.toThrow(/a signal array must be 2-D/);

@@ -1,4 +1,4 @@
-import { mkdirSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { temporaryName, writeFileAtomic, writeFilesAtomic, writeFolderAtomic } from '../../src/io/atomic.js';
@@ -52,7 +52,9 @@ describe('atomic writes', () => {
     writeFileSync(join(out, 'field'), 'in the way');
     const r = runCli(['datasets', '--out', out]);
     expect(r.code).toBe(2);
-    expect(r.stderr).toMatch(/^landform: .*field: is in the way \(a file where a folder is needed, or the reverse\)/);
+    expect(r.stderr).toMatch(
+      /^landform: .*field: is in the way \(a file where a folder is needed, or the reverse\)/,
+    );
     expect(readdirSync(out)).toEqual(['field']);
   });
 });

@@ -2,7 +2,13 @@ import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { provenance } from '../../src/core/version.js';
-import { columnsSidecarPath, formatFeatureCsv, readFeatureTable, samplesSidecarPath, writeFeatureTable } from '../../src/io/feature-table.js';
+import {
+  columnsSidecarPath,
+  formatFeatureCsv,
+  readFeatureTable,
+  samplesSidecarPath,
+  writeFeatureTable,
+} from '../../src/io/feature-table.js';
 import { loadDataset } from '../../src/io/load.js';
 import { parseNpy } from '../../src/io/npy.js';
 import { readProvenance } from '../../src/io/provenance-file.js';
@@ -36,12 +42,19 @@ describe('feature tables', () => {
     const dir = tempDir();
     const path = join(dir, 'features.npy');
     const written = writeFeatureTable(path, table, provenance('vectorize', {}), 'npy');
-    expect(written).toEqual([path, join(dir, 'features.samples.csv'), join(dir, 'features.columns.csv'), `${path}.provenance.json`]);
+    expect(written).toEqual([
+      path,
+      join(dir, 'features.samples.csv'),
+      join(dir, 'features.columns.csv'),
+      `${path}.provenance.json`,
+    ]);
     expect(samplesSidecarPath(path)).toBe(join(dir, 'features.samples.csv'));
     expect(columnsSidecarPath(path)).toBe(join(dir, 'features.columns.csv'));
     const array = parseNpy(readFileSync(path), path);
     expect(array.shape).toEqual([3, 2]);
-    expect(readFileSync(join(dir, 'features.samples.csv'), 'utf8')).toBe('sample,label\na,ring\n"b,2",disc\nc,\n');
+    expect(readFileSync(join(dir, 'features.samples.csv'), 'utf8')).toBe(
+      'sample,label\na,ring\n"b,2",disc\nc,\n',
+    );
     expect(readFileSync(join(dir, 'features.columns.csv'), 'utf8')).toBe('column\nH1 λ1 t=0.5\ntotal\n');
     const back = await readFeatureTable(path);
     expect(back).toEqual({ ...table, matrix: { ...table.matrix, data: back.matrix.data } });
@@ -63,7 +76,9 @@ describe('feature tables', () => {
     await expect(loadDataset(path)).rejects.toThrow(/sample 'a' appears twice/);
     const lonely = join(dir, 'lonely.npy');
     writeFileSync(lonely, readFileSync(path));
-    await expect(loadDataset(lonely)).rejects.toThrow(/no sample list beside it; write .*lonely\.samples\.csv/);
+    await expect(loadDataset(lonely)).rejects.toThrow(
+      /no sample list beside it; write .*lonely\.samples\.csv/,
+    );
     expect(existsSync(join(dir, 'lonely.samples.csv'))).toBe(false);
   });
 

@@ -31,12 +31,20 @@ describe('folder datasets', () => {
   it('reads point clouds from CSV (with or without a header) and .npy, one point being enough', async () => {
     const dir = folder(
       { 'a.csv': 'x,y\n0,0\n1,0\n0,1\n', 'b.csv': '2.5,-1\n', 'c.npy': formatNpy([2, 2], [1, 2, 3, 4]) },
-      [['a.csv', 'tri'], ['b.csv', 'dot'], ['c.npy', 'pair']],
+      [
+        ['a.csv', 'tri'],
+        ['b.csv', 'dot'],
+        ['c.npy', 'pair'],
+      ],
     );
     const d = await loadDataset(dir);
     expect(d.kind).toBe('points');
     const s = d.samples as PointSample[];
-    expect(s.map((x) => [x.id, x.label, x.count, x.dim])).toEqual([['a', 'tri', 3, 2], ['b', 'dot', 1, 2], ['c', 'pair', 2, 2]]);
+    expect(s.map((x) => [x.id, x.label, x.count, x.dim])).toEqual([
+      ['a', 'tri', 3, 2],
+      ['b', 'dot', 1, 2],
+      ['c', 'pair', 2, 2],
+    ]);
     expect(Array.from(s[1].coords)).toEqual([2.5, -1]);
     expect(Array.from(s[2].coords)).toEqual([1, 2, 3, 4]);
   });
@@ -44,7 +52,11 @@ describe('folder datasets', () => {
   it('detects distance matrices and checks symmetry, zero diagonal and signs within a tolerance', async () => {
     const good = '0,1,2\n1,0,1.5\n2,1.5,0\n';
     const nearly = '0,1,2\n1.0000000000001,0,1.5\n2,1.5,0\n';
-    const dir = folder({ 'm1.csv': good, 'm2.npy': formatNpy([2, 2], [0, 3, 3, 0]), 'm3.csv': nearly }, [['m1.csv', 'a'], ['m2.npy', 'b'], ['m3.csv', 'a']]);
+    const dir = folder({ 'm1.csv': good, 'm2.npy': formatNpy([2, 2], [0, 3, 3, 0]), 'm3.csv': nearly }, [
+      ['m1.csv', 'a'],
+      ['m2.npy', 'b'],
+      ['m3.csv', 'a'],
+    ]);
     const d = await loadDataset(dir);
     expect(d.kind).toBe('distances');
     expect((d.samples as DistanceSample[]).map((s) => s.size)).toEqual([3, 2, 3]);
@@ -62,12 +74,24 @@ describe('folder datasets', () => {
   it('reads images: PNG, PGM and .npy frames, and 3-D volumes', async () => {
     const frame = Float64Array.from({ length: 6 }, (_, i) => i * 40);
     const dir = folder(
-      { 'a.png': await formatPng([2, 3], frame), 'b.pgm': formatPgm([2, 3], frame), 'c.npy': formatNpy([2, 3], frame) },
-      [['a.png', 'x'], ['b.pgm', 'y'], ['c.npy', 'x']],
+      {
+        'a.png': await formatPng([2, 3], frame),
+        'b.pgm': formatPgm([2, 3], frame),
+        'c.npy': formatNpy([2, 3], frame),
+      },
+      [
+        ['a.png', 'x'],
+        ['b.pgm', 'y'],
+        ['c.npy', 'x'],
+      ],
     );
     const d = await loadDataset(dir, { kind: 'image' });
     const s = d.samples as ImageSample[];
-    expect(s.map((x) => x.shape)).toEqual([[2, 3], [2, 3], [2, 3]]);
+    expect(s.map((x) => x.shape)).toEqual([
+      [2, 3],
+      [2, 3],
+      [2, 3],
+    ]);
     for (const x of s) expect(Array.from(x.values)).toEqual(Array.from(frame));
     const pngOnly = folder({ 'a.png': await formatPng([2, 3], frame) }, [['a.png', 'x']]);
     expect((await loadDataset(pngOnly)).kind).toBe('image');
@@ -75,15 +99,27 @@ describe('folder datasets', () => {
     const v = await loadDataset(volumes);
     expect(v.kind).toBe('image');
     expect((v.samples[0] as ImageSample).shape).toEqual([2, 2, 2]);
-    const mixed = folder({ 'a.pgm': formatPgm([2, 3], frame), 'v.npy': formatNpy([2, 2, 2], [1, 2, 3, 4, 5, 6, 7, 8]) }, [['a.pgm', 'x'], ['v.npy', 'y']]);
+    const mixed = folder(
+      { 'a.pgm': formatPgm([2, 3], frame), 'v.npy': formatNpy([2, 2, 2], [1, 2, 3, 4, 5, 6, 7, 8]) },
+      [
+        ['a.pgm', 'x'],
+        ['v.npy', 'y'],
+      ],
+    );
     expect((await userError(loadDataset(mixed))).message).toMatch(/do not mix images and volumes/);
   });
 
   it('reads signals from 1-D .npy files and one-column CSV', async () => {
-    const dir = folder({ 's.npy': formatNpy([4], [1, 2, 3, 4]), 't.npy': formatNpy([2], [5, 6]) }, [['s.npy', 'a'], ['t.npy', 'b']]);
+    const dir = folder({ 's.npy': formatNpy([4], [1, 2, 3, 4]), 't.npy': formatNpy([2], [5, 6]) }, [
+      ['s.npy', 'a'],
+      ['t.npy', 'b'],
+    ]);
     const d = await loadDataset(dir);
     expect(d.kind).toBe('signal');
-    expect((d.samples as SignalSample[]).map((s) => Array.from(s.values))).toEqual([[1, 2, 3, 4], [5, 6]]);
+    expect((d.samples as SignalSample[]).map((s) => Array.from(s.values))).toEqual([
+      [1, 2, 3, 4],
+      [5, 6],
+    ]);
     const csv = folder({ 's.csv': 'value\n1\n2\n3\n' }, [['s.csv', 'a']]);
     const one = (await loadDataset(csv, { kind: 'signal' })).samples[0] as SignalSample;
     expect(Array.from(one.values)).toEqual([1, 2, 3]);
@@ -94,10 +130,17 @@ describe('folder datasets', () => {
     const e = await userError(loadDataset(ragged));
     expect(e.describe()).toMatch(/a\.csv:2: has 1 fields, the first row has 2/);
     const word = folder({ 'a.csv': '0,0\n1,zero\n' }, [['a.csv', 'x']]);
-    expect((await userError(loadDataset(word))).describe()).toMatch(/a\.csv:2: 'zero' is not a number in column 2/);
+    expect((await userError(loadDataset(word))).describe()).toMatch(
+      /a\.csv:2: 'zero' is not a number in column 2/,
+    );
     const other = folder({ 'a.tif': 'II*' }, [['a.tif', 'x']]);
-    expect((await userError(loadDataset(other))).describe()).toMatch(/labels\.csv:2: 'a\.tif' has an unknown file type '\.tif'/);
-    const dims = folder({ 'a.csv': '0,0\n', 'b.csv': '0,0,0\n' }, [['a.csv', 'x'], ['b.csv', 'x']]);
+    expect((await userError(loadDataset(other))).describe()).toMatch(
+      /labels\.csv:2: 'a\.tif' has an unknown file type '\.tif'/,
+    );
+    const dims = folder({ 'a.csv': '0,0\n', 'b.csv': '0,0,0\n' }, [
+      ['a.csv', 'x'],
+      ['b.csv', 'x'],
+    ]);
     expect((await userError(loadDataset(dims))).message).toMatch(/has 3 dimensions but a\.csv has 2/);
     const table = folder({ 'a.csv': '0,0\n' }, [['a.csv', 'x']]);
     expect((await userError(loadDataset(table, { kind: 'table' }))).message).toMatch(/not a folder/);
@@ -105,9 +148,17 @@ describe('folder datasets', () => {
   });
 
   it('reports progress once per file', async () => {
-    const dir = folder({ 'a.csv': '0,0\n', 'b.csv': '1,1\n', 'c.csv': '2,2\n' }, [['a.csv', 'x'], ['b.csv', 'x'], ['c.csv', 'y']]);
+    const dir = folder({ 'a.csv': '0,0\n', 'b.csv': '1,1\n', 'c.csv': '2,2\n' }, [
+      ['a.csv', 'x'],
+      ['b.csv', 'x'],
+      ['c.csv', 'y'],
+    ]);
     const calls: number[][] = [];
     await loadDataset(dir, { onProgress: (done, total) => calls.push([done, total]) });
-    expect(calls).toEqual([[1, 3], [2, 3], [3, 3]]);
+    expect(calls).toEqual([
+      [1, 3],
+      [2, 3],
+      [3, 3],
+    ]);
   });
 });

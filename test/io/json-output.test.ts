@@ -1,4 +1,4 @@
-import { readFileSync, readdirSync } from 'node:fs';
+import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { provenance } from '../../src/core/version.js';
@@ -10,7 +10,12 @@ describe('JSON outputs', () => {
     // Source: RFC 8259, "The JavaScript Object Notation (JSON) Data Interchange Format", 2017, section 6:
     // Infinity and NaN are not permitted as numbers, so they are written as strings here.
     const text = formatJsonOutput(
-      { deaths: Float64Array.from([0.5, Infinity]), gap: -Infinity, bad: Number.NaN, counts: Int32Array.from([1, 2]) },
+      {
+        deaths: Float64Array.from([0.5, Infinity]),
+        gap: -Infinity,
+        bad: Number.NaN,
+        counts: Int32Array.from([1, 2]),
+      },
       provenance('landscape', { depth: 5 }, 3),
     );
     const parsed = JSON.parse(text);

@@ -51,11 +51,15 @@ describe('labels.csv', () => {
     expect(link.line).toBe(2);
     expect(link.message).toMatch(/leads outside the dataset folder/);
     writeFileSync(join(dir, 'labels.csv'), 'file,label\nmissing.csv,x\n');
-    expect(caught(() => readLabelsFile(dir)).describe()).toMatch(/labels\.csv:2: 'missing\.csv' does not exist/);
+    expect(caught(() => readLabelsFile(dir)).describe()).toMatch(
+      /labels\.csv:2: 'missing\.csv' does not exist/,
+    );
     writeFileSync(join(dir, 'a.csv'), '1\n');
     writeFileSync(join(dir, 'a.npy'), '');
     writeFileSync(join(dir, 'labels.csv'), 'file,label\na.csv,x\na.npy,y\n');
-    expect(caught(() => readLabelsFile(dir)).describe()).toMatch(/labels\.csv:3: 'a\.npy' gives the sample id 'a' again \(first on line 2\)/);
+    expect(caught(() => readLabelsFile(dir)).describe()).toMatch(
+      /labels\.csv:3: 'a\.npy' gives the sample id 'a' again \(first on line 2\)/,
+    );
   });
 
   it('refuses a folder without labels.csv, an empty one, a bad header and header only', () => {
@@ -64,7 +68,9 @@ describe('labels.csv', () => {
     writeFileSync(join(dir, 'labels.csv'), '');
     expect(caught(() => readLabelsFile(dir)).message).toMatch(/empty file/);
     writeFileSync(join(dir, 'labels.csv'), 'name,class\n');
-    expect(caught(() => readLabelsFile(dir)).describe()).toMatch(/labels\.csv:1: the header must be file,label/);
+    expect(caught(() => readLabelsFile(dir)).describe()).toMatch(
+      /labels\.csv:1: the header must be file,label/,
+    );
     writeFileSync(join(dir, 'labels.csv'), 'file,label\n');
     expect(caught(() => readLabelsFile(dir)).message).toMatch(/header only/);
   });

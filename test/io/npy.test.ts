@@ -15,16 +15,64 @@ describe('NPY format version 1.0', () => {
     // dict padded with spaces and ended by \n so that 10 + header length is divisible by 64, then the data.
     const dict = "{'descr': '<f8', 'fortran_order': False, 'shape': (2, 3), }"; // 59 characters
     const expected = [
-      0x93, ...ascii('NUMPY'), 0x01, 0x00,
-      0x76, 0x00, // header length 118 = 128 − 10
-      ...ascii(dict), ...ascii(' '.repeat(58)), 0x0a,
+      0x93,
+      ...ascii('NUMPY'),
+      0x01,
+      0x00,
+      0x76,
+      0x00, // header length 118 = 128 − 10
+      ...ascii(dict),
+      ...ascii(' '.repeat(58)),
+      0x0a,
       // IEEE 754 binary64, little-endian: 1, 2, 3, 4, 5, 6.5
-      0, 0, 0, 0, 0, 0, 0xf0, 0x3f,
-      0, 0, 0, 0, 0, 0, 0x00, 0x40,
-      0, 0, 0, 0, 0, 0, 0x08, 0x40,
-      0, 0, 0, 0, 0, 0, 0x10, 0x40,
-      0, 0, 0, 0, 0, 0, 0x14, 0x40,
-      0, 0, 0, 0, 0, 0, 0x1a, 0x40,
+      0,
+      0,
+      0,
+      0,
+      0,
+      0,
+      0xf0,
+      0x3f,
+      0,
+      0,
+      0,
+      0,
+      0,
+      0,
+      0x00,
+      0x40,
+      0,
+      0,
+      0,
+      0,
+      0,
+      0,
+      0x08,
+      0x40,
+      0,
+      0,
+      0,
+      0,
+      0,
+      0,
+      0x10,
+      0x40,
+      0,
+      0,
+      0,
+      0,
+      0,
+      0,
+      0x14,
+      0x40,
+      0,
+      0,
+      0,
+      0,
+      0,
+      0,
+      0x1a,
+      0x40,
     ];
     const bytes = formatNpy([2, 3], [1, 2, 3, 4, 5, 6.5]);
     expect(bytes.length).toBe(128 + 48);
@@ -35,9 +83,21 @@ describe('NPY format version 1.0', () => {
     // Source: numpy/lib/format.py writes the shape as the repr of a Python tuple, so (3,) for one axis.
     const bytes = formatNpy([3], [0.5, -2, 1e300]);
     const dict = "{'descr': '<f8', 'fortran_order': False, 'shape': (3,), }";
-    expect(Array.from(bytes.subarray(0, 128))).toEqual([0x93, ...ascii('NUMPY'), 1, 0, 0x76, 0, ...ascii(dict), ...ascii(' '.repeat(60)), 0x0a]);
+    expect(Array.from(bytes.subarray(0, 128))).toEqual([
+      0x93,
+      ...ascii('NUMPY'),
+      1,
+      0,
+      0x76,
+      0,
+      ...ascii(dict),
+      ...ascii(' '.repeat(60)),
+      0x0a,
+    ]);
     // 0.5 = 0x3fe0000000000000, −2 = 0xc000000000000000, 1e300 = 0x7e37e43c8800759c (IEEE 754 binary64).
-    expect(Buffer.from(bytes.subarray(128)).toString('hex')).toBe('000000000000e03f00000000000000c09c7500883ce4377e');
+    expect(Buffer.from(bytes.subarray(128)).toString('hex')).toBe(
+      '000000000000e03f00000000000000c09c7500883ce4377e',
+    );
   });
 
   it('aligns every header to 64 bytes and reads back what it wrote (property)', () => {
@@ -47,7 +107,10 @@ describe('NPY format version 1.0', () => {
         fc.integer({ min: 0, max: 1000 }),
         (shape, seed) => {
           const count = shape.reduce((a, b) => a * b, 1);
-          const data = Float64Array.from({ length: count }, (_, i) => Math.sin(seed + i) * 10 ** ((i % 7) - 3));
+          const data = Float64Array.from(
+            { length: count },
+            (_, i) => Math.sin(seed + i) * 10 ** ((i % 7) - 3),
+          );
           const bytes = formatNpy(shape, data);
           const headerLength = bytes[8] | (bytes[9] << 8);
           expect((10 + headerLength) % 64).toBe(0);
@@ -83,14 +146,26 @@ describe('NPY format version 1.0', () => {
     // Source: NEP 1 (Kern, 2007): fortran_order True means the data are stored with the first axis fastest.
     const be = new Uint8Array(24);
     const dv = new DataView(be.buffer);
-    [0, 3, 1, 4, 2, 5].forEach((v, i) => dv.setInt32(4 * i, v, false));
-    const f = parseNpy(join2(header("{'descr': '>i4', 'fortran_order': True, 'shape': (2, 3), }"), be), 'f.npy');
+    for (const [i, v] of [0, 3, 1, 4, 2, 5].entries()) dv.setInt32(4 * i, v, false);
+    const f = parseNpy(
+      join2(header("{'descr': '>i4', 'fortran_order': True, 'shape': (2, 3), }"), be),
+      'f.npy',
+    );
     expect(f.shape).toEqual([2, 3]);
     expect(Array.from(f.data)).toEqual([0, 1, 2, 3, 4, 5]);
-    const u8 = parseNpy(join2(header("{'descr': '|u1', 'fortran_order': False, 'shape': (4,), }", 2), Uint8Array.from([0, 7, 128, 255])), 'u.npy');
+    const u8 = parseNpy(
+      join2(
+        header("{'descr': '|u1', 'fortran_order': False, 'shape': (4,), }", 2),
+        Uint8Array.from([0, 7, 128, 255]),
+      ),
+      'u.npy',
+    );
     expect(Array.from(u8.data)).toEqual([0, 7, 128, 255]);
     const f4 = new Float32Array([0.25, -1.5]);
-    const r4 = parseNpy(join2(header("{'descr': '<f4', 'fortran_order': False, 'shape': (2,), }"), new Uint8Array(f4.buffer)), 'f4.npy');
+    const r4 = parseNpy(
+      join2(header("{'descr': '<f4', 'fortran_order': False, 'shape': (2,), }"), new Uint8Array(f4.buffer)),
+      'f4.npy',
+    );
     expect(Array.from(r4.data)).toEqual([0.25, -1.5]);
   });
 

@@ -23,12 +23,32 @@ const edit = fc.record({
   at: fc.nat(),
   length: fc.integer({ min: 1, max: 6 }),
   text: fc.oneof(
-    fc.constantFrom(',', '"', '\n', '\r\n', ' ', 'inf', 'NaN', '-', 'e', '1e999', '\uFEFF', '\0', 'sample', '#', '\t', ',,'),
+    fc.constantFrom(
+      ',',
+      '"',
+      '\n',
+      '\r\n',
+      ' ',
+      'inf',
+      'NaN',
+      '-',
+      'e',
+      '1e999',
+      '\uFEFF',
+      '\0',
+      'sample',
+      '#',
+      '\t',
+      ',,',
+    ),
     fc.string({ maxLength: 4 }),
   ),
 });
 
-function mutate(text: string, edits: Array<{ op: string; at: number; length: number; text: string }>): string {
+function mutate(
+  text: string,
+  edits: Array<{ op: string; at: number; length: number; text: string }>,
+): string {
   let t = text;
   for (const e of edits) {
     const at = t.length === 0 ? 0 : e.at % (t.length + 1);
@@ -61,7 +81,8 @@ function checkDataset(d: Dataset): void {
     } else if (s.kind === 'signal' || s.kind === 'table') {
       for (const v of s.values) expect(Number.isFinite(v)).toBe(true);
     } else if (s.kind === 'diagrams') {
-      for (const g of s.diagrams) for (let i = 0; i < g.births.length; i++) expect(g.deaths[i]).toBeGreaterThanOrEqual(g.births[i]);
+      for (const g of s.diagrams)
+        for (let i = 0; i < g.births.length; i++) expect(g.deaths[i]).toBeGreaterThanOrEqual(g.births[i]);
     }
   }
 }
@@ -83,17 +104,21 @@ describe('the CSV reader under random mutations of valid files', () => {
     let valid = 0;
     let refused = 0;
     await fc.assert(
-      fc.asyncProperty(fc.constantFrom(...VALID), fc.array(edit, { minLength: 1, maxLength: 4 }), async (base, edits) => {
-        const file = join(dir, `m${n++}.csv`);
-        writeFileSync(file, mutate(base, edits));
-        try {
-          checkDataset(await loadDataset(file));
-          valid++;
-        } catch (error) {
-          checkUserError(error, file);
-          refused++;
-        }
-      }),
+      fc.asyncProperty(
+        fc.constantFrom(...VALID),
+        fc.array(edit, { minLength: 1, maxLength: 4 }),
+        async (base, edits) => {
+          const file = join(dir, `m${n++}.csv`);
+          writeFileSync(file, mutate(base, edits));
+          try {
+            checkDataset(await loadDataset(file));
+            valid++;
+          } catch (error) {
+            checkUserError(error, file);
+            refused++;
+          }
+        },
+      ),
       { numRuns: 300, seed: 20261202 },
     );
     // Both outcomes occur, so the property is not vacuous.
@@ -108,7 +133,14 @@ describe('the CSV reader under random mutations of valid files', () => {
       fc.asyncProperty(
         fc.constantFrom(...VALID),
         fc.array(edit, { maxLength: 2 }),
-        fc.constantFrom('points', 'signal', 'table', 'diagrams', 'image', 'distances') as fc.Arbitrary<'points'>,
+        fc.constantFrom(
+          'points',
+          'signal',
+          'table',
+          'diagrams',
+          'image',
+          'distances',
+        ) as fc.Arbitrary<'points'>,
         async (base, edits, kind) => {
           const file = join(dir, `k${n++}.csv`);
           writeFileSync(file, mutate(base, edits));
@@ -145,7 +177,10 @@ describe('the CSV reader under random mutations of valid files', () => {
     let n = 0;
     await fc.assert(
       fc.asyncProperty(
-        fc.array(fc.constantFrom('', '  ', 'a,r,1', 'b,s,2', 'c,r,3', 'a,r,4'), { minLength: 1, maxLength: 12 }),
+        fc.array(fc.constantFrom('', '  ', 'a,r,1', 'b,s,2', 'c,r,3', 'a,r,4'), {
+          minLength: 1,
+          maxLength: 12,
+        }),
         fc.constantFrom('\n', '\r\n'),
         async (rows, eol) => {
           const file = join(dir, `o${n++}.csv`);
@@ -153,7 +188,8 @@ describe('the CSV reader under random mutations of valid files', () => {
           writeFileSync(file, lines.join(eol) + eol);
           if (rows.every((r) => r.trim() === '')) return;
           const csv = await readSampleCsv(file);
-          for (const s of csv.samples) expect(s.firstLine).toBe(lines.findIndex((l) => l.startsWith(`${s.id},`)) + 1);
+          for (const s of csv.samples)
+            expect(s.firstLine).toBe(lines.findIndex((l) => l.startsWith(`${s.id},`)) + 1);
         },
       ),
       { numRuns: 100, seed: 11 },
@@ -167,7 +203,11 @@ describe('the CSV reader under random mutations of valid files', () => {
     expect(await readCsvHeader(file)).toEqual({ fields: ['sample', 'label', 'x', 'y'], line: 1 });
     const csv = await readSampleCsv(file);
     expect(csv.rowCount).toBe(5);
-    expect(csv.samples.map((s) => [s.id, s.rows, s.firstLine, s.secondLine])).toEqual([['a', 2, 2, 3], ['b', 2, 4, 6], ['c,1', 1, 5, 0]]);
+    expect(csv.samples.map((s) => [s.id, s.rows, s.firstLine, s.secondLine])).toEqual([
+      ['a', 2, 2, 3],
+      ['b', 2, 4, 6],
+      ['c,1', 1, 5, 0],
+    ]);
     // Buffers are trimmed to the rows read.
     expect(csv.samples[0].values.length).toBe(4);
   });
@@ -177,18 +217,22 @@ describe('binary readers under random bytes', () => {
   it('NPY and PGM parsers refuse garbage with the user error only', () => {
     const good = formatNpy([2, 2], [1, 2, 3, 4]);
     fc.assert(
-      fc.property(fc.array(fc.record({ at: fc.nat(), value: fc.integer({ min: 0, max: 255 }) }), { maxLength: 8 }), fc.nat(), (flips, cut) => {
-        const bytes = Uint8Array.from(good);
-        for (const f of flips) bytes[f.at % bytes.length] = f.value;
-        const sliced = bytes.subarray(0, cut % (bytes.length + 1));
-        for (const parse of [() => parseNpy(sliced, 'x.npy'), () => parsePgm(sliced, 'x.pgm')]) {
-          try {
-            parse();
-          } catch (error) {
-            if (!(error instanceof UserError)) throw error;
+      fc.property(
+        fc.array(fc.record({ at: fc.nat(), value: fc.integer({ min: 0, max: 255 }) }), { maxLength: 8 }),
+        fc.nat(),
+        (flips, cut) => {
+          const bytes = Uint8Array.from(good);
+          for (const f of flips) bytes[f.at % bytes.length] = f.value;
+          const sliced = bytes.subarray(0, cut % (bytes.length + 1));
+          for (const parse of [() => parseNpy(sliced, 'x.npy'), () => parsePgm(sliced, 'x.pgm')]) {
+            try {
+              parse();
+            } catch (error) {
+              if (!(error instanceof UserError)) throw error;
+            }
           }
-        }
-      }),
+        },
+      ),
       { numRuns: 400, seed: 3 },
     );
   });

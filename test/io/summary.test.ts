@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
+import { makeDiagram } from '../../src/homology/diagram.js';
 import type { Dataset } from '../../src/io/dataset.js';
 import { formatSummary, summarizeDataset } from '../../src/io/summary.js';
-import { makeDiagram } from '../../src/homology/diagram.js';
 
 describe('dataset summary', () => {
   it('counts classes, unlabelled samples and the median size', () => {
@@ -10,13 +10,30 @@ describe('dataset summary', () => {
       source: 'x.csv',
       samples: [
         { kind: 'points', id: 'a', label: 'u', dim: 2, count: 1, coords: Float64Array.from([0, 1]) },
-        { kind: 'points', id: 'b', label: 'u', dim: 2, count: 3, coords: Float64Array.from([0, 1, 2, 3, -4, 5]) },
+        {
+          kind: 'points',
+          id: 'b',
+          label: 'u',
+          dim: 2,
+          count: 3,
+          coords: Float64Array.from([0, 1, 2, 3, -4, 5]),
+        },
         { kind: 'points', id: 'c', label: 'v', dim: 2, count: 2, coords: Float64Array.from([0, 1, 2, 3]) },
-        { kind: 'points', id: 'd', label: '', dim: 2, count: 4, coords: Float64Array.from([0, 1, 2, 3, 4, 5, 6, 7.5]) },
+        {
+          kind: 'points',
+          id: 'd',
+          label: '',
+          dim: 2,
+          count: 4,
+          coords: Float64Array.from([0, 1, 2, 3, 4, 5, 6, 7.5]),
+        },
       ],
     };
     const s = summarizeDataset(d);
-    expect(s.classes).toEqual([{ label: 'u', count: 2 }, { label: 'v', count: 1 }]);
+    expect(s.classes).toEqual([
+      { label: 'u', count: 2 },
+      { label: 'v', count: 1 },
+    ]);
     expect(s.unlabelled).toBe(1);
     // Median of an even count is the mean of the middle two: (2 + 3) / 2.
     expect(s.sizes).toEqual([{ what: 'points per sample', min: 1, median: 2.5, max: 4 }]);
@@ -32,14 +49,33 @@ describe('dataset summary', () => {
       kind: 'diagrams',
       source: 'd.csv',
       samples: [
-        { kind: 'diagrams', id: 'a', label: 'x', diagrams: [makeDiagram(0, [[0, Infinity], [0, 1]]), makeDiagram(1, [[0.5, 0.7]])] },
-        { kind: 'diagrams', id: 'b', label: 'x', diagrams: [makeDiagram(0, [[0, Infinity]]), makeDiagram(1, [])] },
+        {
+          kind: 'diagrams',
+          id: 'a',
+          label: 'x',
+          diagrams: [
+            makeDiagram(0, [
+              [0, Infinity],
+              [0, 1],
+            ]),
+            makeDiagram(1, [[0.5, 0.7]]),
+          ],
+        },
+        {
+          kind: 'diagrams',
+          id: 'b',
+          label: 'x',
+          diagrams: [makeDiagram(0, [[0, Infinity]]), makeDiagram(1, [])],
+        },
       ],
     };
     const s = summarizeDataset(d);
     expect(s.facts).toContainEqual({ name: 'degrees', value: 'H0, H1' });
     expect(s.facts).toContainEqual({ name: 'essential classes', value: '2' });
-    expect(s.sizes.map((r) => [r.what, r.min, r.max])).toEqual([['H0 pairs per sample', 1, 2], ['H1 pairs per sample', 0, 1]]);
+    expect(s.sizes.map((r) => [r.what, r.min, r.max])).toEqual([
+      ['H0 pairs per sample', 1, 2],
+      ['H1 pairs per sample', 0, 1],
+    ]);
     expect(formatSummary(s)).toMatch(/one class only/);
   });
 });

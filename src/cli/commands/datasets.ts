@@ -30,9 +30,12 @@ export function defineDatasets(program: Command): Command {
         const own = scenario.files();
         for (const f of own) files.push({ path: join(options.out, f.path), data: f.data });
         const samples = scenario.samples();
-        lines.push(`${scenario.name.padEnd(8)} ${scenario.kind.padEnd(7)} ${String(samples.length).padStart(4)} samples  ${join(options.out, scenario.path)}`);
+        lines.push(
+          `${scenario.name.padEnd(8)} ${scenario.kind.padEnd(7)} ${String(samples.length).padStart(4)} samples  ${join(options.out, scenario.path)}`,
+        );
       }
-      if (chosen.length === names.length) files.push({ path: join(options.out, 'README.md'), data: datasetsReadme() });
+      if (chosen.length === names.length)
+        files.push({ path: join(options.out, 'README.md'), data: datasetsReadme() });
       writeFilesAtomic(files);
       process.stdout.write(`${lines.join('\n')}\n`);
     });

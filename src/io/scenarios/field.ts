@@ -71,14 +71,21 @@ export function generateField(seed: number, options: FieldOptions = {}): ImageSa
         // Each patch's profile is scaled so that its warmest point reaches 1, whatever its shape.
         for (const [px, py, outer, inner] of patches) {
           const d = Math.hypot(x + 0.5 - px, y + 0.5 - py);
-          const w = profile(d, outer, inner, edge) / profile(inner > 0 ? (inner + outer) / 2 : 0, outer, inner, edge);
+          const w =
+            profile(d, outer, inner, edge) / profile(inner > 0 ? (inner + outer) / 2 : 0, outer, inner, edge);
           if (w > warmth) warmth = w;
         }
         const v = base + gx * (x - size / 2) + gy * (y - size / 2) + peak * warmth + r.normal(0, noise);
         values[y * size + x] = Math.min(255, Math.max(0, Math.round(v)));
       }
     }
-    samples.push({ kind: 'image', id: `frame-${String(k + 1).padStart(3, '0')}`, label, shape: [size, size], values });
+    samples.push({
+      kind: 'image',
+      id: `frame-${String(k + 1).padStart(3, '0')}`,
+      label,
+      shape: [size, size],
+      values,
+    });
   }
   return samples;
 }

@@ -3,13 +3,13 @@ import type { Sample, SampleKind } from '../dataset.js';
 import { formatPgm } from '../image-file.js';
 import { formatLabelsCsv, formatPointsCsv, formatSignalCsv } from '../sample-writers.js';
 import { FIELD_CLASSES, generateField } from './field.js';
-import { LATTICE_CLASSES, generateLattice } from './lattice.js';
-import { PUMP_CLASSES, generatePump } from './pump.js';
+import { generateLattice, LATTICE_CLASSES } from './lattice.js';
+import { generatePump, PUMP_CLASSES } from './pump.js';
 
-export { generateField, generateLattice, generatePump, FIELD_CLASSES, LATTICE_CLASSES, PUMP_CLASSES };
 export type { FieldOptions } from './field.js';
 export type { LatticeOptions } from './lattice.js';
 export type { PumpOptions } from './pump.js';
+export { FIELD_CLASSES, generateField, generateLattice, generatePump, LATTICE_CLASSES, PUMP_CLASSES };
 
 /**
  * The shipped demo datasets: each a scenario of our own, made by a seeded generator. `landform datasets`
@@ -40,7 +40,8 @@ export const SCENARIOS: readonly Scenario[] = [
     path: 'lattice.csv',
     summary:
       'Synthetic. 2-D point clouds from an invented inspection line of printed lattice panels (2 × 2 square cells): intact, broken-strut (most of one outer strut missing), merged-cells (the four inner walls missing: the block becomes one cell twice as wide); random rotation, position, ±15% scale, 130–180 points, jitter, stray points in about a third of the panels. 25 panels per class.',
-    advice: 'Vietoris–Rips on the points, degrees 0 and 1; the classes differ in the number and size of H1 loops (4 cells, 3 and a short-lived one, 1 twice as wide).',
+    advice:
+      'Vietoris–Rips on the points, degrees 0 and 1; the classes differ in the number and size of H1 loops (4 cells, 3 and a short-lived one, 1 twice as wide).',
     samples: () => generateLattice(4101),
     files: () => [{ path: 'lattice.csv', data: formatPointsCsv(generateLattice(4101)) }],
   },
@@ -72,9 +73,15 @@ export const SCENARIOS: readonly Scenario[] = [
       const frames = generateField(4103);
       const files: Array<{ path: string; data: string | Uint8Array }> = [];
       for (const f of frames) {
-        files.push({ path: join('field', `${f.id}.pgm`), data: formatPgm([f.shape[0], f.shape[1]], f.values, 255) });
+        files.push({
+          path: join('field', `${f.id}.pgm`),
+          data: formatPgm([f.shape[0], f.shape[1]], f.values, 255),
+        });
       }
-      files.push({ path: join('field', 'labels.csv'), data: formatLabelsCsv(frames.map((f) => ({ file: `${f.id}.pgm`, label: f.label }))) });
+      files.push({
+        path: join('field', 'labels.csv'),
+        data: formatLabelsCsv(frames.map((f) => ({ file: `${f.id}.pgm`, label: f.label }))),
+      });
       return files;
     },
   },
@@ -96,7 +103,14 @@ export function datasetsReadme(): string {
     '',
   ];
   for (const s of SCENARIOS) {
-    lines.push(`## \`${s.path}\` (${s.kind}, seed ${s.seed}, classes ${s.classes.join(', ')})`, '', s.summary, '', `Suggested: ${s.advice}`, '');
+    lines.push(
+      `## \`${s.path}\` (${s.kind}, seed ${s.seed}, classes ${s.classes.join(', ')})`,
+      '',
+      s.summary,
+      '',
+      `Suggested: ${s.advice}`,
+      '',
+    );
   }
   return lines.join('\n');
 }

@@ -54,10 +54,12 @@ interface Segment {
 function segments(rows: number, columns: number): Segment[] {
   const out: Segment[] = [];
   for (let y = 0; y <= rows; y++) {
-    for (let x = 0; x < columns; x++) out.push({ x0: x, y0: y, x1: x + 1, y1: y, outer: y === 0 || y === rows });
+    for (let x = 0; x < columns; x++)
+      out.push({ x0: x, y0: y, x1: x + 1, y1: y, outer: y === 0 || y === rows });
   }
   for (let x = 0; x <= columns; x++) {
-    for (let y = 0; y < rows; y++) out.push({ x0: x, y0: y, x1: x, y1: y + 1, outer: x === 0 || x === columns });
+    for (let y = 0; y < rows; y++)
+      out.push({ x0: x, y0: y, x1: x, y1: y + 1, outer: x === 0 || x === columns });
   }
   return out;
 }
@@ -66,7 +68,13 @@ function segments(rows: number, columns: number): Segment[] {
  * The struts of one panel as [x0, y0, x1, y1] pieces in cell units; the broken strut keeps only its two ends.
  * Which strut breaks, or which inner node loses its walls, is drawn from `r`.
  */
-export function panelStruts(label: (typeof LATTICE_CLASSES)[number], rows: number, columns: number, gap: number, r: Random): number[][] {
+export function panelStruts(
+  label: (typeof LATTICE_CLASSES)[number],
+  rows: number,
+  columns: number,
+  gap: number,
+  r: Random,
+): number[][] {
   const all = segments(rows, columns);
   // Struts as [x0, y0, x1, y1] pieces; the broken strut keeps only its two ends.
   const pieces: number[][] = [];
@@ -153,7 +161,14 @@ export function generateLattice(seed: number, options: LatticeOptions = {}): Poi
       coords[2 * i] = round4(scale * (cos * (x - cx) - sin * (y - cy)) + shiftX);
       coords[2 * i + 1] = round4(scale * (sin * (x - cx) + cos * (y - cy)) + shiftY);
     }
-    samples.push({ kind: 'points', id: `panel-${String(k + 1).padStart(3, '0')}`, label, dim: 2, count: count + strays, coords });
+    samples.push({
+      kind: 'points',
+      id: `panel-${String(k + 1).padStart(3, '0')}`,
+      label,
+      dim: 2,
+      count: count + strays,
+      coords,
+    });
   }
   return samples;
 }

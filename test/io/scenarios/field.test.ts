@@ -32,7 +32,10 @@ function sameSamples<T extends { id: string; label: string }>(x: T[], y: T[]): b
     const a = (r.coords ?? r.values) as Float64Array;
     return Buffer.from(a.buffer, a.byteOffset, a.byteLength);
   };
-  return x.length === y.length && x.every((s, i) => s.id === y[i].id && s.label === y[i].label && bytes(s).equals(bytes(y[i])));
+  return (
+    x.length === y.length &&
+    x.every((s, i) => s.id === y[i].id && s.label === y[i].label && bytes(s).equals(bytes(y[i])))
+  );
 }
 
 describe('field scenario', () => {
@@ -51,14 +54,15 @@ describe('field scenario', () => {
         for (let x = 0; x < w; x++) {
           let s = 0;
           let n = 0;
-          for (let dy = -1; dy <= 1; dy++) for (let dx = -1; dx <= 1; dx++) {
-            const yy = y + dy;
-            const xx = x + dx;
-            if (yy >= 0 && yy < h && xx >= 0 && xx < w) {
-              s += f.values[yy * w + xx];
-              n++;
+          for (let dy = -1; dy <= 1; dy++)
+            for (let dx = -1; dx <= 1; dx++) {
+              const yy = y + dy;
+              const xx = x + dx;
+              if (yy >= 0 && yy < h && xx >= 0 && xx < w) {
+                s += f.values[yy * w + xx];
+                n++;
+              }
             }
-          }
           mask[y * w + x] = s / n > (low + high) / 2 ? 1 : 0;
         }
       }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../../src/core/random.js';
-import { LATTICE_CLASSES, generateLattice, panelStruts } from '../../../src/io/scenarios/lattice.js';
+import { generateLattice, LATTICE_CLASSES, panelStruts } from '../../../src/io/scenarios/lattice.js';
 
 /** First Betti number of the graph the strut pieces form: edges − vertices + components. */
 function cycleRank(pieces: number[][]): number {
@@ -26,7 +26,10 @@ function sameSamples<T extends { id: string; label: string }>(x: T[], y: T[]): b
     const a = (r.coords ?? r.values) as Float64Array;
     return Buffer.from(a.buffer, a.byteOffset, a.byteLength);
   };
-  return x.length === y.length && x.every((s, i) => s.id === y[i].id && s.label === y[i].label && bytes(s).equals(bytes(y[i])));
+  return (
+    x.length === y.length &&
+    x.every((s, i) => s.id === y[i].id && s.label === y[i].label && bytes(s).equals(bytes(y[i])))
+  );
 }
 
 describe('lattice scenario', () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { PUMP_CLASSES, generatePump } from '../../../src/io/scenarios/pump.js';
+import { generatePump, PUMP_CLASSES } from '../../../src/io/scenarios/pump.js';
 
 /** Power of the discrete Fourier transform at frequency bins 1 … n/2. */
 function spectrum(x: Float64Array): Float64Array {
@@ -26,7 +26,10 @@ function sameSamples<T extends { id: string; label: string }>(x: T[], y: T[]): b
     const a = (r.coords ?? r.values) as Float64Array;
     return Buffer.from(a.buffer, a.byteOffset, a.byteLength);
   };
-  return x.length === y.length && x.every((s, i) => s.id === y[i].id && s.label === y[i].label && bytes(s).equals(bytes(y[i])));
+  return (
+    x.length === y.length &&
+    x.every((s, i) => s.id === y[i].id && s.label === y[i].label && bytes(s).equals(bytes(y[i])))
+  );
 }
 
 describe('pump scenario', () => {
