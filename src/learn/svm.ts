@@ -63,7 +63,7 @@ export interface SvmJSON {
   probB: number[];
 }
 
-interface RawModel {
+export interface RawModel {
   labels: Int32Array;
   counts: Int32Array;
   support: Matrix;
@@ -558,8 +558,11 @@ function readModelMemory(
   return { labels, counts, support: { rows: total, cols: d, data: support }, coef, rho };
 }
 
-/** Reads class order, counts, offsets and dual coefficients from libsvm's model text; support rows from `x`. */
-function parseModelText(text: string, supportRows: number[], x: Matrix): RawModel {
+/**
+ * Reads class order, counts, offsets and dual coefficients from libsvm's model text (the fallback of
+ * readModelMemory; exported for its test); support rows from `x` by their row numbers.
+ */
+export function parseModelText(text: string, supportRows: number[], x: Matrix): RawModel {
   const header = new Map<string, string[]>();
   let at = 0;
   for (;;) {

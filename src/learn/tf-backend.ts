@@ -35,6 +35,11 @@ function quiet(original: (...args: unknown[]) => void): (...args: unknown[]) => 
   };
 }
 
+/** Runs one tiny op, so that a backend's first-use greeting is printed now, inside the filter. */
+function touch(tf: Tf): void {
+  tf.tidy(() => tf.scalar(0).dataSync());
+}
+
 export function loadTf(): Promise<TfRuntime> {
   if (!loading) loading = load();
   return loading;
@@ -49,7 +54,10 @@ export async function useBackend(name: 'wasm' | 'cpu' | 'tensorflow'): Promise<b
   console.log = quiet(originalLog);
   try {
     const ok = await runtime.tf.setBackend(name);
-    if (ok) runtime.backend = name;
+    if (ok) {
+      runtime.backend = name;
+      touch(runtime.tf);
+    }
     return ok;
   } finally {
     console.warn = originalWarn;
@@ -85,6 +93,7 @@ async function load(): Promise<TfRuntime> {
     }
     await tf.setBackend('cpu');
     await tf.ready();
+    touch(tf);
     return { tf, backend: 'cpu', note };
   } finally {
     console.warn = originalWarn;

@@ -3,7 +3,13 @@ import { Random } from '../../src/core/random.js';
 import { loadLibsvm } from '../../src/learn/libsvm.js';
 import { type Matrix, takeRows } from '../../src/learn/matrix.js';
 import { StandardScaler } from '../../src/learn/scaler.js';
-import { coupleProbabilities, SvmModel, sigmoidPredict, sigmoidTrain } from '../../src/learn/svm.js';
+import {
+  coupleProbabilities,
+  parseModelText,
+  SvmModel,
+  sigmoidPredict,
+  sigmoidTrain,
+} from '../../src/learn/svm.js';
 import { iris, stratifiedFolds } from './models-fixtures.js';
 
 function indicesWhere(fold: Int32Array, f: number, equal: boolean): number[] {
@@ -102,6 +108,44 @@ describe('SvmModel', () => {
       if (best === labels[r]) agree++;
     }
     expect(agree / z.rows).toBeGreaterThan(0.97);
+  });
+
+  it('reads the model from libsvm’s memory exactly as its model text says (to the text’s precision)', async () => {
+    // Reference: libsvm's own model text (Chang & Lin 2011; coefficients printed to 16 digits, offsets to 6).
+    const { x, y } = iris();
+    const z = new StandardScaler().fitTransform(x);
+    const ours = await new SvmModel({ kernel: 'rbf', C: 1, gamma: 0.25 }).fit(z, y, 3);
+    const Svm = await loadLibsvm();
+    const order = Array.from({ length: z.rows }, (_, i) => i).sort((a, b) => y[a] - y[b] || a - b);
+    const svm = new Svm({
+      type: Svm.SVM_TYPES.C_SVC,
+      kernel: Svm.KERNEL_TYPES.RBF,
+      cost: 1,
+      gamma: 0.25,
+      tolerance: 1e-3,
+      cacheSize: 64,
+      shrinking: true,
+      quiet: true,
+    });
+    svm.train(
+      order.map((r) => z.data.subarray(r * 4, (r + 1) * 4)),
+      order.map((r) => y[r]),
+    );
+    const text = svm.serializeModel();
+    const rows = svm.getSVIndices().map((k) => order[k]);
+    svm.free();
+    const parsed = parseModelText(text, rows, z);
+    const s = ours.state;
+    if (!s) throw new Error('not fitted');
+    expect(Array.from(parsed.labels)).toEqual(Array.from(s.labels));
+    expect(Array.from(parsed.counts)).toEqual(Array.from(s.counts));
+    expect(Array.from(parsed.support.data)).toEqual(Array.from(s.support.data));
+    for (let i = 0; i < s.coef.length; i++)
+      expect(Math.abs(parsed.coef[i] - s.coef[i])).toBeLessThanOrEqual(
+        1e-14 * Math.max(1, Math.abs(s.coef[i])),
+      );
+    for (let p = 0; p < s.rho.length; p++)
+      expect(Math.abs(parsed.rho[p] - s.rho[p])).toBeLessThanOrEqual(5e-6 * Math.abs(s.rho[p]) + 1e-12);
   });
 
   it('carries linear weights: sign(w·x + b) reproduces libsvm’s decision on every training point', async () => {
