@@ -391,6 +391,15 @@ class Reduction {
   private readonly c4: Float64Array;
   /** The added vertex of the cofacet found by the last oldest-cofacet scan. */
   private found = -1;
+  /**
+   * The working column holds only the cofacets of rank ≤ cap of the simplices added so far (the scratch
+   * column); when it runs dry, cap rises (its step doubling) and the cofacets in the new rank range are
+   * enumerated again for every added simplex. Most columns find their pivot long before the top ranks, so
+   * most cofacets are never pushed at all.
+   */
+  private cap = 0;
+  private capStep = 1;
+  private readonly topRank: number;
   private pivots = new PivotMap(16);
 
   constructor(
@@ -401,6 +410,7 @@ class Reduction {
     private readonly cleared: Uint8Array | undefined,
   ) {
     this.step = Math.max(1, Math.ceil(levels.length / 64));
+    this.topRank = levels.length - 1;
     this.c2 = table.row(2);
     this.c3 = table.row(3);
     this.c4 = table.row(4);
@@ -490,12 +500,14 @@ class Reduction {
           continue;
         }
       }
-      heap.clear(r, this.step);
+      heap.clear();
       this.scratchLength = 0;
-      this.addEdgeCofacets(i, j, r);
+      this.capStep = this.step;
+      this.cap = Math.min(this.topRank, r + this.capStep);
+      this.addEdgeCofacets(i, j, r, -1, this.cap);
       this.pushScratch(e);
       while (true) {
-        if (!heap.popPivot()) {
+        if (!this.nextPivot(1)) {
           births.push(levels[r]);
           deaths.push(Infinity);
           break;
@@ -532,12 +544,43 @@ class Reduction {
   private addEdge(f: number): void {
     const fj = edgeHighVertex(f);
     const fi = f - this.c2[fj];
-    this.addEdgeCofacets(fi, fj, this.rankOf[fi * this.n + fj]);
+    this.addEdgeCofacets(fi, fj, this.rankOf[fi * this.n + fj], -1, this.cap);
     this.pushScratch(f);
   }
 
-  /** Pushes every cofacet {i, j, k} inside the threshold of the edge (i < j) of rank r. */
-  private addEdgeCofacets(i: number, j: number, r: number): void {
+  /**
+   * The next pivot of the working column (heap.pivotRank, heap.pivotIndex), raising cap as needed; false
+   * when the column is zero. `degree` says whether the scratch column holds edges (1) or triangles (2).
+   */
+  private nextPivot(degree: 1 | 2): boolean {
+    const heap = this.heap;
+    // invariant: the heap holds the cofacets of rank ≤ cap of the scratch column, less cancelled pairs
+    while (!heap.popPivot()) {
+      if (this.cap >= this.topRank) return false;
+      const lo = this.cap;
+      this.capStep *= 2;
+      this.cap = Math.min(this.topRank, lo + this.capStep);
+      const v = this.vertices;
+      for (let s = 0; s < this.scratchLength; s++) {
+        const f = this.scratch[s];
+        if (degree === 1) {
+          const fj = edgeHighVertex(f);
+          const fi = f - this.c2[fj];
+          this.addEdgeCofacets(fi, fj, this.rankOf[fi * this.n + fj], lo, this.cap);
+        } else {
+          this.table.vertices(f, 3, v);
+          const a = v[0];
+          const b = v[1];
+          const c = v[2];
+          this.addTriangleCofacets(a, b, c, triangleRank(this.rankOf, this.n, a, b, c), lo, this.cap);
+        }
+      }
+    }
+    return true;
+  }
+
+  /** Pushes every cofacet {i, j, k} of the edge (i < j) of rank r whose rank lies in (lo, hi]. */
+  private addEdgeCofacets(i: number, j: number, r: number, lo: number, hi: number): void {
     const { n, rankOf, heap, c2, c3 } = this;
     const rowI = i * n;
     const rowJ = j * n;
@@ -548,6 +591,7 @@ class Reduction {
       if (rki === NO_EDGE || rkj === NO_EDGE) continue;
       let rk = rki > rkj ? rki : rkj;
       if (r > rk) rk = r;
+      if (rk <= lo || rk > hi) continue;
       heap.push(rk, k > j ? c3[k] + c2[j] + i : k > i ? c3[j] + c2[k] + i : c3[j] + c2[i] + k);
     }
   }
@@ -712,12 +756,15 @@ class Reduction {
           continue;
         }
       }
+      // Degree 2 pushes every cofacet at once and lets the heap defer the far ones to its rank ranges: a
+      // few columns here grow very long, and enumerating their cofacets again per range would cost more.
       heap.clear(r, this.step);
       this.scratchLength = 0;
-      this.addTriangleCofacets(a, b, c, r);
+      this.cap = this.topRank;
+      this.addTriangleCofacets(a, b, c, r, -1, this.cap);
       this.pushScratch(t);
       while (true) {
-        if (!heap.popPivot()) {
+        if (!this.nextPivot(2)) {
           births.push(levels[r]);
           deaths.push(Infinity);
           break;
@@ -756,12 +803,12 @@ class Reduction {
     const a = v[0];
     const b = v[1];
     const c = v[2];
-    this.addTriangleCofacets(a, b, c, triangleRank(this.rankOf, this.n, a, b, c));
+    this.addTriangleCofacets(a, b, c, triangleRank(this.rankOf, this.n, a, b, c), -1, this.cap);
     this.pushScratch(f);
   }
 
-  /** Pushes every cofacet inside the threshold of the triangle a > b > c of rank r. */
-  private addTriangleCofacets(a: number, b: number, c: number, r: number): void {
+  /** Pushes every cofacet of the triangle a > b > c of rank r whose rank lies in (lo, hi]. */
+  private addTriangleCofacets(a: number, b: number, c: number, r: number, lo: number, hi: number): void {
     const { n, rankOf, heap, c2, c3, c4 } = this;
     const rowA = a * n;
     const rowB = b * n;
@@ -775,6 +822,7 @@ class Reduction {
       let rk = ra > rb ? ra : rb;
       if (rc > rk) rk = rc;
       if (r > rk) rk = r;
+      if (rk <= lo || rk > hi) continue;
       heap.push(
         rk,
         k > a
