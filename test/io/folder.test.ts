@@ -1,5 +1,6 @@
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/core/errors.js';
 import type { DistanceSample, ImageSample, PointSample, SignalSample } from '../../src/io/dataset.js';
@@ -160,5 +161,67 @@ describe('folder datasets', () => {
       [2, 3],
       [3, 3],
     ]);
+  });
+  it('keeps the error contract under random mutations of labels.csv and of a sample file', async () => {
+    // Property testing (Claessen & Hughes, "QuickCheck", 2000): any input gives a dataset or the user error.
+    const dir = folder(
+      {
+        'a.csv': '0,0\n1,0\n0,1\n',
+        'b.csv': 'x,y\n2,2\n3,3\n',
+        'c.npy': formatNpy([2, 2], [1, 2, 3, 4]),
+        'd.pgm': formatPgm([2, 2], [1, 2, 3, 4]),
+      },
+      [
+        ['a.csv', 'tri'],
+        ['b.csv', 'pair'],
+        ['c.npy', 'pair'],
+      ],
+    );
+    const labels = 'file,label\na.csv,tri\nb.csv,pair\nc.npy,pair\n';
+    const pieces = fc.constantFrom(
+      ',',
+      '"',
+      '\n',
+      '/',
+      '..',
+      '../',
+      '/etc/passwd',
+      'd.pgm',
+      'a.csv',
+      '\0',
+      ' ',
+      'C:',
+      '\\',
+    );
+    await fc.assert(
+      fc.asyncProperty(
+        fc.array(
+          fc.record({
+            at: fc.nat(),
+            cut: fc.integer({ min: 0, max: 4 }),
+            text: fc.oneof(pieces, fc.string({ maxLength: 3 })),
+          }),
+          { minLength: 1, maxLength: 3 },
+        ),
+        fc.string({ maxLength: 6 }),
+        async (edits, junk) => {
+          let t = labels;
+          for (const e of edits) {
+            const at = e.at % (t.length + 1);
+            t = t.slice(0, at) + e.text + t.slice(at + e.cut);
+          }
+          writeFileSync(join(dir, 'labels.csv'), t);
+          writeFileSync(join(dir, 'a.csv'), `0,0\n1,${junk}\n`);
+          try {
+            const d = await loadDataset(dir);
+            expect(d.samples.length).toBeGreaterThan(0);
+          } catch (error) {
+            if (!(error instanceof UserError)) throw error;
+            expect(error.describe()).not.toContain('\n');
+          }
+        },
+      ),
+      { numRuns: 200, seed: 5 },
+    );
   });
 });
