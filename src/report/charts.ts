@@ -272,7 +272,7 @@ export function weightMapChart(degree: number, curves: readonly WeightCurve[], y
           x: { field: 't', type: 'quantitative', title: `filtration scale t (data units) — H${degree}` },
           y: { field: 'value', type: 'quantitative', title: yTitle },
           color: { field: 'layer', type: 'nominal', title: 'layer', scale: classColour(layers) },
-          strokeDash: { field: 'layer', type: 'nominal', legend: null, scale: { domain: layers, range: [[1, 0], [6, 3], [2, 2], [8, 3, 2, 3]] } },
+          strokeDash: { field: 'layer', type: 'nominal', title: 'layer', scale: { domain: layers, range: [[1, 0], [6, 3], [2, 2], [8, 3, 2, 3]] } },
         },
       },
     ],
@@ -319,6 +319,8 @@ export function diagramChart(diagrams: readonly Diagram[], title: string): Chart
   low = Math.min(0, low);
   if (!(top > low)) top = low + 1;
   const ceiling = top + 0.08 * (top - low);
+  // A little room below and left so points born at the lowest value do not sit on the axis.
+  low -= 0.04 * (top - low);
   const values: Array<Record<string, unknown>> = [];
   for (const d of diagrams) {
     for (let i = 0; i < d.births.length; i++) {

@@ -310,10 +310,33 @@ figure.chart svg{display:block;max-width:100%;height:auto}
 figure.chart figcaption{font-size:12.5px;color:var(--muted);max-width:560px;margin-top:4px}
 .tiles{display:flex;flex-wrap:wrap;gap:6px 26px}
 span.key{display:inline-block;width:10px;height:10px;border-radius:50%;margin:0 4px 0 6px;vertical-align:0}
+section.glance{background:var(--paper);border:1px solid var(--rule);border-radius:8px;margin:18px 0;padding:6px 28px 16px}
+section.glance h2{font-size:18px;margin:14px 0 2px}
+section.glance td.say{color:var(--muted);font-size:13px;max-width:520px}
+section.glance a{color:var(--accent);text-decoration:none;font-weight:600}
+span.sd{color:var(--muted);font-size:12px}
 footer{color:var(--muted);font-size:12.5px;padding:8px 28px 40px}
 footer h2{font-size:15px;color:var(--ink)}
 @media print{html{background:#fff}section.dataset{border:none;padding:0}header.top{background:#fff;color:#000}}
 `;
+
+/** Best accuracy per feature set for every dataset, and the first finding: the page at a glance. */
+function glance(datasets: readonly DatasetReport[]): string {
+  const sets = [...new Set(datasets.flatMap((d) => d.accuracy.map((a) => a.features)))];
+  const head = `<tr><th>dataset</th>${sets.map((s) => `<th class="num">${escapeHtml(s)}</th>`).join('')}<th>in a sentence</th></tr>`;
+  const rows = datasets
+    .map((d, i) => {
+      const cells = sets.map((s) => {
+        const rows = d.accuracy.filter((a) => a.features === s);
+        if (rows.length === 0) return '<td class="num">—</td>';
+        const top = rows.reduce((m, r) => (r.mean > m.mean ? r : m));
+        return `<td class="num">${fixed(top.mean, 2)} <span class="sd">± ${fixed(top.std, 2)}</span></td>`;
+      });
+      return `<tr><td><a href="#d${i + 1}-${slug(d.name)}">${escapeHtml(d.name)}</a></td>${cells.join('')}<td class="say">${escapeHtml(d.findings?.[0] ?? '')}</td></tr>`;
+    })
+    .join('');
+  return `<section class="glance" data-part="glance"><h2>At a glance</h2><p class="how">Best cross-validated accuracy per feature set (mean ± sd over outer folds, best model of each set).</p><table class="grid">${head}${rows}</table></section>`;
+}
 
 /** Renders the whole report page. */
 export async function renderReport(input: ReportInput): Promise<string> {
@@ -329,7 +352,7 @@ export async function renderReport(input: ReportInput): Promise<string> {
     input.lead ? `<p>${escapeHtml(input.lead)}</p>` : ''
   }<div class="meta">${meta}</div></div></header>
 <main><div class="caution" role="note" data-part="caution"><strong>Caution.</strong> ${escapeHtml(CAUTION_TEXT)}</div>
-${input.datasets.length > 1 ? `<nav class="toc">Datasets: ${toc}</nav>` : ''}
+${input.datasets.length > 1 ? `<nav class="toc">Datasets: ${toc}</nav>${glance(input.datasets)}` : ''}
 ${sections.join('\n')}
 </main>
 <footer><h2>How these numbers were made</h2><p>Persistent homology per sample; persistence landscapes (Bubenik, 2015) vectorised on a grid learned inside each training fold; models chosen by inner cross-validation and scored on outer folds. Class means use every sample; their bands are simultaneous multiplier-bootstrap bands (Chazal et al., 2015); contrasts are permutation tests (Robinson and Turner, 2017) with Holm's correction (Holm, 1979).</p></footer>
