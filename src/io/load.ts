@@ -26,7 +26,8 @@ import { readCsvHeader, readSampleCsv, type SampleCsv } from './sample-csv.js';
  *        some sample id appears on more than one row            → points (one point per row)
  *        every sample id appears once                           → table (one feature row per sample)
  * A wide signal CSV (`sample,label,v1,v2,…`, one row per sample) is read with `kind: 'signal'`; a point
- * cloud file where every cloud has a single point needs `kind: 'points'`.
+ * cloud file where every cloud has a single point needs `kind: 'points'`. A folder goes to `folder.ts`, a
+ * `.npy` array to `array-file.ts`, an Arrow file (`.arrow`, `.feather`) to `arrow.ts`.
  */
 export interface LoadOptions {
   /** Force the sample kind instead of detecting it. */
@@ -56,7 +57,23 @@ export async function loadDataset(path: string, options: LoadOptions = {}): Prom
     const { loadFolder } = await import('./folder.js');
     return loadFolder(path, options);
   }
-  if (extname(path).toLowerCase() === '.npy') return loadArrayFile(path, options);
+  const extension = extname(path).toLowerCase();
+  if (extension === '.npy') return loadArrayFile(path, options);
+  if (extension === '.arrow' || extension === '.feather') {
+    // Arrow IPC files (diagrams or a feature table) carry their kind in the schema (src/io/arrow.ts).
+    const { loadArrowDataset } = await import('./arrow.js');
+    const dataset = await loadArrowDataset(path);
+    if (options.kind !== undefined && options.kind !== dataset.kind) {
+      throw new UserError(
+        `is an Arrow ${dataset.kind} file, not ${options.kind}; drop --kind or give another file`,
+        {
+          file: path,
+        },
+      );
+    }
+    options.onProgress?.(1, 1);
+    return dataset;
+  }
   return loadCsvFile(path, options);
 }
 

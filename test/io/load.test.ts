@@ -234,3 +234,29 @@ describe('loadDataset: CSV files', () => {
     expect(calls[calls.length - 1]).toEqual([Buffer.byteLength(text), Buffer.byteLength(text)]);
   });
 });
+
+describe('loadDataset: other whole-dataset files', () => {
+  it('routes Arrow files to the Arrow reader and checks a forced kind against the file', async () => {
+    const { writeFeatureArrow } = await import('../../src/io/arrow.js');
+    const { provenance } = await import('../../src/core/version.js');
+    const dir = tempDir();
+    const path = join(dir, 'features.arrow');
+    await writeFeatureArrow(
+      path,
+      {
+        ids: ['a', 'b'],
+        labels: ['x', 'y'],
+        names: ['f1'],
+        matrix: { rows: 2, cols: 1, data: Float64Array.from([0.5, 2]) },
+      },
+      provenance('vectorize', {}),
+    );
+    const d = await loadDataset(path);
+    expect(d.kind).toBe('table');
+    expect((d.samples as TableSample[]).map((s) => [s.id, s.label, Array.from(s.values)])).toEqual([
+      ['a', 'x', [0.5]],
+      ['b', 'y', [2]],
+    ]);
+    await expect(loadDataset(path, { kind: 'points' })).rejects.toThrow(/is an Arrow table file, not points/);
+  });
+});
