@@ -72,7 +72,7 @@ export interface DenseJSON {
 }
 
 /**
- * A small CPU-only network in TensorFlow.js: inputs → dense ReLU (hidden units) → [dropout] → dense
+ * A small CPU-only network in TensorFlow.js: inputs → dense ReLU (hidden units) → [dropout in training] → dense
  * softmax over the classes, trained with Adam on softmax cross-entropy + L2, with early stopping on a
  * stratified inner validation split (the weights of the best validation epoch are kept). Initial weights
  * come from seeded He-normal / Glorot-uniform initialisers (He et al., "Delving deep into rectifiers", 2015;
@@ -132,9 +132,15 @@ export class DenseNetwork {
     yAll.dispose();
     const optimizer = tf.train.adam(o.learningRate);
     const kernels = model.trainableWeights.filter((w) => w.name.includes('kernel')).map((w) => w.read());
+    const [hiddenLayer, outputLayer] = model.layers;
+    // Dropout is applied here, with a fresh seed from our Random at every step (a seeded dropout layer
+    // would draw the same mask at every step); the saved model has no dropout layer, as inference needs none.
+    let dropoutSeed = 0;
     const lossOf = (xs: Tensor, ys: Tensor, training: boolean): import('@tensorflow/tfjs').Scalar =>
       tf.tidy(() => {
-        const logits = model.apply(xs, { training }) as Tensor;
+        let hidden = hiddenLayer.apply(xs) as Tensor;
+        if (training && o.dropout > 0) hidden = tf.dropout(hidden, o.dropout, undefined, dropoutSeed);
+        const logits = outputLayer.apply(hidden) as Tensor;
         let loss = tf.losses.softmaxCrossEntropy(ys, logits);
         if (o.l2 > 0) for (const k of kernels) loss = loss.add(tf.sum(tf.square(k)).mul(o.l2));
         return loss as import('@tensorflow/tfjs').Scalar;
@@ -151,6 +157,7 @@ export class DenseNetwork {
         // Invariant: every training row appears once per epoch, in the seeded order.
         for (let start = 0; start < n; start += o.batchSize) {
           const end = Math.min(n, start + o.batchSize);
+          dropoutSeed = random.nextUint32();
           tf.tidy(() => {
             const idx = tf.tensor1d(order.subarray(start, end), 'int32');
             const xb = tf.gather(xTrain, idx);
@@ -170,6 +177,9 @@ export class DenseNetwork {
         }
       }
       if (snapshot) model.setWeights(snapshot);
+    } catch (error) {
+      model.dispose();
+      throw error;
     } finally {
       if (snapshot) for (const t of snapshot) t.dispose();
       optimizer.dispose();
@@ -295,7 +305,6 @@ function buildModel(tf: Tf, features: number, classCount: number, o: Required<De
       biasInitializer: 'zeros',
     }),
   );
-  if (o.dropout > 0) model.add(tf.layers.dropout({ rate: o.dropout, seed: o.seed + 2 }));
   // Linear output: the softmax is applied in the loss (softmax cross-entropy on logits) and in prediction.
   model.add(
     tf.layers.dense({
