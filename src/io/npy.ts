@@ -95,7 +95,10 @@ function parseDescr(descr: string, file: string): Dtype {
   return { littleEndian: m[1] !== '>', kind, size };
 }
 
-/** Parses the bytes of a `.npy` file; a malformed file is the user's one-line error naming `file`. */
+/**
+ * Parses the bytes of a `.npy` file; a malformed file is the user's one-line error naming `file`. For C-order
+ * little-endian float64 the returned data is a view on `bytes` (no copy); copy it before changing `bytes`.
+ */
 export function parseNpy(bytes: Uint8Array, file: string): NpyArray {
   if (bytes.length < 10 || MAGIC.some((b, i) => bytes[i] !== b)) {
     throw new UserError('not a .npy file (the magic bytes \\x93NUMPY are missing); save it with numpy.save', {
@@ -152,8 +155,13 @@ export function parseNpy(bytes: Uint8Array, file: string): NpyArray {
       { file },
     );
   }
-  const raw = new Float64Array(count);
-  readValues(view, offset, dtype, raw);
+  // Little-endian float64 at an 8-byte-aligned address (the header pads to 64 bytes) is used in place, without
+  // a copy: the result then shares memory with `bytes`. Anything else is converted value by value.
+  const start8 = bytes.byteOffset + offset;
+  const inPlace =
+    dtype.kind === 'f' && dtype.size === 8 && dtype.littleEndian && start8 % 8 === 0 && littleEndianHost();
+  const raw = inPlace ? new Float64Array(bytes.buffer, start8, count) : new Float64Array(count);
+  if (!inPlace) readValues(view, offset, dtype, raw);
   for (let i = 0; i < count; i++) {
     if (!Number.isFinite(raw[i])) {
       throw new UserError(`value ${i} (flat index) is ${raw[i]}; every value must be a finite number`, {
@@ -185,6 +193,10 @@ function readValues(view: DataView, offset: number, t: Dtype, out: Float64Array)
     for (let i = 0; i < n; i++) out[i] = view.getInt32(offset + 4 * i, le);
   else if (t.kind === 'u') for (let i = 0; i < n; i++) out[i] = Number(view.getBigUint64(offset + 8 * i, le));
   else for (let i = 0; i < n; i++) out[i] = Number(view.getBigInt64(offset + 8 * i, le));
+}
+
+function littleEndianHost(): boolean {
+  return new Uint8Array(Float64Array.of(1).buffer)[7] === 0x3f;
 }
 
 /** Reorders a Fortran-order (first index fastest) array into C order (last index fastest). */

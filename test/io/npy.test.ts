@@ -169,6 +169,19 @@ describe('NPY format version 1.0', () => {
     expect(Array.from(r4.data)).toEqual([0.25, -1.5]);
   });
 
+  it('reads little-endian float64 in place and converts everything else', () => {
+    const bytes = formatNpy([2, 2], [1, 2, 3, 4]);
+    const back = parseNpy(bytes, 'a.npy');
+    expect(back.data.buffer).toBe(bytes.buffer);
+    expect(back.data.byteOffset).toBe(128);
+    // Shifted by one byte, the same values are no longer 8-byte aligned and are copied.
+    const shifted = new Uint8Array(bytes.length + 1);
+    shifted.set(bytes, 1);
+    const copy = parseNpy(shifted.subarray(1), 'b.npy');
+    expect(copy.data.buffer).not.toBe(shifted.buffer);
+    expect(Array.from(copy.data)).toEqual([1, 2, 3, 4]);
+  });
+
   it('refuses broken files with a one-line user error naming the file', () => {
     const good = formatNpy([2], [1, 2]);
     const cases: Array<[Uint8Array, RegExp]> = [
