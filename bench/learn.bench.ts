@@ -141,6 +141,7 @@ export async function run(): Promise<void> {
   const quick = process.env.LANDFORM_BENCH_LEARN_QUICK === '1';
   const data = clouds(quick ? 50 : 200, 150, 11);
   const folds = quick ? 3 : 5;
+  const c0 = cpuSeconds();
   const t0 = performance.now();
   const diagrams = await computeDiagramsParallel(data.samples, { degrees: [0, 1] }, {});
   const diagramMs = performance.now() - t0;
@@ -163,6 +164,7 @@ export async function run(): Promise<void> {
     },
   });
   const studyMs = performance.now() - t2;
+  const studyCpu = cpuSeconds() - c0;
   // The baseline runs after the study, so both run with libsvm and the network stack already loaded.
   const t1 = performance.now();
   const rawOnly = await runEvaluation(data, { diagrams, folds, featureSets: ['raw'], models: ['pca-svm'] });
@@ -175,7 +177,13 @@ export async function run(): Promise<void> {
       { name: 'study, every feature set and model', value: studyMs / 1000, unit: 's' },
       ...timings.map((f, i) => ({ ...f, name: `  ${full.results[i].features} + ${full.results[i].model}` })),
       { name: 'total (diagrams + study)', value: totalS, unit: 's', goal: '≤ 120 s', met: totalS <= 120 },
-      { name: 'process CPU time so far, all threads (whole benchmark)', value: cpuSeconds(), unit: 's' },
+      {
+        name: 'CPU time of diagrams + study, all threads',
+        value: studyCpu,
+        unit: 's',
+        goal: '≤ 120 s',
+        met: studyCpu <= 120,
+      },
       { name: 'baseline: raw + pca-svm study alone, same run', value: rawMs / 1000, unit: 's' },
       { name: 'study / raw pca-svm baseline', value: studyMs / rawMs, unit: '×' },
       ...full.results.map((r) => ({

@@ -194,10 +194,10 @@ export function checkStudy(
   dataset: Dataset,
   options: EvaluationOptions = {},
 ): { classes: string[]; y: Int32Array; featureSets: FeatureSetName[] } {
-  const labelled = dataset.samples.filter((s) => s.label === '');
-  if (labelled.length > 0) {
+  const unlabelled = dataset.samples.filter((s) => s.label === '');
+  if (unlabelled.length > 0) {
     throw new UserError(
-      `sample '${labelled[0].id}' has no label; every sample of a study needs its class label`,
+      `sample '${unlabelled[0].id}' has no label; every sample of a study needs its class label`,
       { file: dataset.source },
     );
   }

@@ -1,5 +1,5 @@
 import { Random } from '../core/random.js';
-import { type FeatureData, FeatureExtractor, usesLandscape } from '../features/combined.js';
+import { type FeatureData, type FeatureExtractor, usesLandscape } from '../features/combined.js';
 import type { Classifier, Hyperparameters, ModelName } from './classifier.js';
 import { stratifiedFolds } from './folds.js';
 import type { Matrix } from './matrix.js';
@@ -79,22 +79,11 @@ interface LabelsDirectly {
   predictLabels(x: Matrix): Int32Array | Promise<Int32Array>;
 }
 
-/** Like fitAndPredict, but only the labels, through `predictLabels` when the classifier has it. */
-async function fitAndLabel(
-  extractor: FeatureExtractor,
-  data: FeatureData,
-  y: Int32Array,
-  classCount: number,
-  train: ArrayLike<number>,
-  test: ArrayLike<number>,
-  classifier: Classifier,
-): Promise<Int32Array> {
-  extractor.fit(data, train);
-  await classifier.fit(extractor.transform(data, train), pick(y, train), classCount);
-  const xTest = extractor.transform(data, test);
+/** Predicted class indices, through `predictLabels` when the classifier has it. */
+async function labelsOf(classifier: Classifier, x: Matrix): Promise<Int32Array> {
   const direct = classifier as Partial<LabelsDirectly>;
-  if (typeof direct.predictLabels === 'function') return await direct.predictLabels(xTest);
-  return argmaxRows(await classifier.predictScores(xTest));
+  if (typeof direct.predictLabels === 'function') return await direct.predictLabels(x);
+  return argmaxRows(await classifier.predictScores(x));
 }
 
 export function pick(y: Int32Array, indices: ArrayLike<number>): Int32Array {
@@ -131,7 +120,7 @@ export async function selectHyperparameters(
   const firstFeatures = base.withLandscape(landscapeCandidates[0] ?? {});
   const shape = {
     samples: Math.floor((train.length * (innerFolds - 1)) / Math.max(1, innerFolds)),
-    features: featureCountOf(firstFeatures, data, train),
+    features: firstFeatures.fit(data, train).featureNames().length,
   };
   const modelCandidates = factory.candidates(model, shape);
   if (modelCandidates.length === 0) throw new Error(`no hyperparameter candidates for ${model}`);
@@ -147,32 +136,50 @@ export async function selectHyperparameters(
     };
   }
   const inner = stratifiedFolds(yTrain, classCount, { folds: innerFolds, repeats: 1, seed });
+  const innerRows = inner.map((f) => ({
+    train: mapIndices(train, f.train),
+    test: mapIndices(train, f.test),
+  }));
+  // Feature matrices of each inner fold per (K, G): the model candidates of stage 2 share them.
+  const matrices = new Map<
+    string,
+    Array<{ xTrain: Matrix; xTest: Matrix; yTrain: Int32Array; yTest: Int32Array }>
+  >();
+  const featuresOf = (landscape: LandscapeCandidate | undefined) => {
+    const key = landscape ? `${landscape.depth}/${landscape.gridSize}` : '-';
+    let cached = matrices.get(key);
+    if (!cached) {
+      const extractor = base.withLandscape(landscape ?? {});
+      cached = innerRows.map((rows) => {
+        extractor.fit(data, rows.train);
+        return {
+          xTrain: extractor.transform(data, rows.train),
+          xTest: extractor.transform(data, rows.test),
+          yTrain: pick(y, rows.train),
+          yTest: pick(y, rows.test),
+        };
+      });
+      matrices.set(key, cached);
+    }
+    return cached;
+  };
   const score = async (
     landscape: LandscapeCandidate | undefined,
     hyper: Hyperparameters,
   ): Promise<number> => {
-    const extractor = base.withLandscape(landscape ?? {});
+    const folds = featuresOf(landscape);
     let sum = 0;
-    for (let f = 0; f < inner.length; f++) {
-      const innerTrain = mapIndices(train, inner[f].train);
-      const innerTest = mapIndices(train, inner[f].test);
+    for (let f = 0; f < folds.length; f++) {
       const classifier = factory.create(model, hyper, (seed + 7919 * (f + 1)) >>> 0);
       try {
-        const predicted = await fitAndLabel(
-          extractor,
-          data,
-          y,
-          classCount,
-          innerTrain,
-          innerTest,
-          classifier,
-        );
-        sum += balancedAccuracy(confusionMatrix(pick(y, innerTest), predicted, classCount));
+        await classifier.fit(folds[f].xTrain, folds[f].yTrain, classCount);
+        const predicted = await labelsOf(classifier, folds[f].xTest);
+        sum += balancedAccuracy(confusionMatrix(folds[f].yTest, predicted, classCount));
       } finally {
         classifier.dispose();
       }
     }
-    const s = sum / inner.length;
+    const s = sum / folds.length;
     tried.push({ ...(landscape ? { landscape } : {}), model: hyper, score: s });
     return s;
   };
@@ -190,12 +197,20 @@ export async function selectHyperparameters(
   } else {
     bestScore = await score(undefined, modelCandidates[0]);
   }
+  // Stage 2: the model's candidates for the chosen (K, G)'s feature count (a grid may scale with it).
+  let secondStage = modelCandidates;
+  if (bestLandscape && bestLandscape !== landscapeCandidates[0]) {
+    const features = base.withLandscape(bestLandscape).fit(data, train).featureNames().length;
+    secondStage = factory.candidates(model, { samples: shape.samples, features });
+  }
   let bestModel = modelCandidates[0];
-  for (let m = 1; m < modelCandidates.length; m++) {
-    const s = await score(bestLandscape, modelCandidates[m]);
+  const firstKey = JSON.stringify(modelCandidates[0]);
+  for (let m = 0; m < secondStage.length; m++) {
+    if (JSON.stringify(secondStage[m]) === firstKey) continue;
+    const s = await score(bestLandscape, secondStage[m]);
     if (s > bestScore) {
       bestScore = s;
-      bestModel = modelCandidates[m];
+      bestModel = secondStage[m];
     }
   }
   return {
@@ -210,24 +225,6 @@ function mapIndices(outer: ArrayLike<number>, inner: Int32Array): Int32Array {
   const out = new Int32Array(inner.length);
   for (let i = 0; i < inner.length; i++) out[i] = outer[inner[i]];
   return out;
-}
-
-function featureCountOf(extractor: FeatureExtractor, data: FeatureData, train: ArrayLike<number>): number {
-  let count = 0;
-  if (extractor.landscape) count += extractor.landscape.featureCount;
-  if (extractor.raw) {
-    const probe = new FeatureExtractor('raw', {
-      raw: {
-        bins: extractor.raw.bins,
-        upperQuantile: extractor.raw.upperQuantile,
-        signalLength: extractor.raw.signalLength,
-        ...(extractor.raw.imageSize !== undefined ? { imageSize: extractor.raw.imageSize } : {}),
-      },
-    });
-    probe.fit(data, Array.prototype.slice.call(train, 0, Math.min(train.length, 2)));
-    count += probe.raw!.featureCount;
-  }
-  return count;
 }
 
 /** A seed for one unit of work, derived from the run's seed and the unit's coordinates. */

@@ -227,7 +227,6 @@ export async function parseStudy(
       kind: dataset.kind,
       samples: dataset.samples.length,
       diagrams: diagramRecord(dataset.kind, parsed.diagramOptions),
-      infinite: describeInfinitePolicy(infinite),
     },
   };
   return { dataset, options, featureSets, models, parsed };
