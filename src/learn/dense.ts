@@ -244,7 +244,7 @@ export class DenseNetwork {
 
   static async fromJSON(json: unknown): Promise<DenseNetwork> {
     const j = json as Partial<DenseJSON> | null;
-    if (!j || j.kind !== 'landform.dense')
+    if (j?.kind !== 'landform.dense')
       throw new UserError(
         'not a saved dense network (kind tag missing or different): save the model again with this version',
       );
@@ -392,7 +392,7 @@ export class DenseClassifier implements Classifier {
 
   static async fromJSON(json: unknown): Promise<DenseClassifier> {
     const j = json as Partial<DenseClassifierJSON> | null;
-    if (!j || j.kind !== 'landform.classifier' || j.model !== 'dense')
+    if (j?.kind !== 'landform.classifier' || j.model !== 'dense')
       throw new UserError('not a saved dense classifier: train and save the model again');
     if (j.format !== 1)
       throw new UserError(

@@ -49,7 +49,7 @@ export function candidateHyperparameters(
 /** Rebuilds a classifier saved with `toJSON()`; checks its kind tag and format version. */
 export async function classifierFromJSON(json: unknown): Promise<Classifier> {
   const j = json as { kind?: unknown; model?: unknown } | null;
-  if (!j || j.kind !== 'landform.classifier')
+  if (j?.kind !== 'landform.classifier')
     throw new UserError(
       'not a saved landform classifier (kind tag missing or different): train and save the model again',
     );

@@ -115,7 +115,7 @@ export class PcaSvmClassifier implements Classifier {
 
   static fromJSON(json: unknown): PcaSvmClassifier {
     const j = json as Partial<PcaSvmJSON> | null;
-    if (!j || j.kind !== 'landform.classifier' || j.model !== 'pca-svm')
+    if (j?.kind !== 'landform.classifier' || j.model !== 'pca-svm')
       throw new UserError('not a saved pca-svm classifier: save the model again with this version');
     if (j.format !== 1)
       throw new UserError(

@@ -63,7 +63,7 @@ export class Pca {
     if (x.rows < 2) throw new UserError('PCA needs at least two training samples: give more samples');
     const d = x.cols;
     const { mean, eigenvalues, vectors } = d <= x.rows ? covarianceRoute(x) : gramRoute(x);
-    const values = eigenvalues.map((v) => (v > 0 ? v : 0));
+    const values = eigenvalues.map((v) => Math.max(v, 0));
     const total = values.reduce((a, b) => a + b, 0);
     const explained = new Float64Array(d);
     for (let c = 0; c < values.length; c++) explained[c] = total > 0 ? values[c] / total : 0;
@@ -137,7 +137,7 @@ export class Pca {
 
   static fromJSON(json: unknown): Pca {
     const j = json as Partial<PcaJSON> | null;
-    if (!j || j.kind !== 'landform.pca')
+    if (j?.kind !== 'landform.pca')
       throw new UserError(
         'not a saved PCA (kind tag missing or different): save the model again with this version',
       );

@@ -106,7 +106,7 @@ export class StandardScaler {
 
   static fromJSON(json: unknown): StandardScaler {
     const j = json as Partial<StandardScalerJSON> | null;
-    if (!j || j.kind !== 'landform.standard-scaler')
+    if (j?.kind !== 'landform.standard-scaler')
       throw new UserError(
         'not a saved standard scaler (kind tag missing or different): save the model again with this version',
       );

@@ -295,7 +295,7 @@ export class SvmModel {
 
   static fromJSON(json: unknown): SvmModel {
     const j = json as Partial<SvmJSON> | null;
-    if (!j || j.kind !== 'landform.svm')
+    if (j?.kind !== 'landform.svm')
       throw new UserError(
         'not a saved SVM (kind tag missing or different): save the model again with this version',
       );
