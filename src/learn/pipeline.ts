@@ -158,7 +158,7 @@ export class Pipeline {
   ): Promise<Pipeline> {
     const m = manifest as Partial<PipelineManifest>;
     const again = "train the model again with 'landform train … --save'";
-    if (!m.pipeline || m.pipeline.kind !== 'landform.pipeline') {
+    if (m.pipeline?.kind !== 'landform.pipeline') {
       throw new UserError(
         `the model folder holds no landform pipeline; ${again}`,
         where ? { file: where } : {},

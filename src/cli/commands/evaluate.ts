@@ -10,7 +10,6 @@ import {
 import type { LandscapeVectorizerOptions } from '../../features/landscape-vectorizer.js';
 import type { DiagramOptions } from '../../homology/compute.js';
 import type { DiagramSet } from '../../homology/diagram.js';
-import { describeInfinitePolicy } from '../../homology/diagram.js';
 import { METRICS, type Metric } from '../../homology/metric.js';
 import { writeFilesAtomic } from '../../io/atomic.js';
 import type { Dataset, SampleKind } from '../../io/dataset.js';
@@ -301,7 +300,10 @@ Example:
         { path: join(o.out, 'metrics.json'), data: formatMetricsJson(result) },
       ];
       const { evaluationReportHtml } = await import('../../report/study.js');
-      outputs.push({ path: join(o.out, 'report.html'), data: await evaluationReportHtml(input, study.dataset, result, study.options.landscape) });
+      outputs.push({
+        path: join(o.out, 'report.html'),
+        data: await evaluationReportHtml(input, study.dataset, result, study.options.landscape),
+      });
       writeFilesAtomic(outputs);
       for (const r of result.results) {
         process.stdout.write(
