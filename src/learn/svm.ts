@@ -358,10 +358,13 @@ export class SvmModel {
       smallest = Math.min(smallest, n);
     }
     const folds = Math.min(this.options.probabilityFolds ?? 5, smallest);
-    const record = (sample: number, model: SvmState, dec: Float64Array): void => {
-      const c = position[y[sample]];
+    const positions = (model: SvmState): Int32Array => {
       const local = new Int32Array(full.classCount).fill(-1);
       for (let i = 0; i < model.labels.length; i++) local[model.labels[i]] = i;
+      return local;
+    };
+    const record = (sample: number, model: SvmState, local: Int32Array, dec: Float64Array): void => {
+      const c = position[y[sample]];
       const mm = model.labels.length;
       for (let other = 0; other < m; other++) {
         if (other === c) continue;
@@ -384,7 +387,7 @@ export class SvmModel {
       const dec = new Float64Array(pairCount);
       for (let r = 0; r < x.rows; r++) {
         decide(full, x.data, r * x.cols, kv, dec);
-        record(r, full, dec);
+        record(r, full, position, dec);
       }
       return { decisions, targets };
     }
@@ -411,12 +414,13 @@ export class SvmModel {
         this.options.tolerance ?? 1e-3,
       );
       const model: SvmState = { ...full, ...raw };
+      const local = positions(model);
       const mm = raw.labels.length;
       const kv = new Float64Array(raw.support.rows);
       const dec = new Float64Array((mm * (mm - 1)) / 2);
       for (const r of test) {
         decide(model, x.data, r * x.cols, kv, dec);
-        record(r, model, dec);
+        record(r, model, local, dec);
       }
     }
     return { decisions, targets };
