@@ -2,10 +2,16 @@ import { UserError } from '../core/errors.js';
 import type { Sample } from '../io/dataset.js';
 import { cubicalPersistence } from './cubical.js';
 import { type Diagram, type DiagramSet, emptyDiagram } from './diagram.js';
+import {
+  checkFiltrationApplies,
+  cloudFiltrationDiagrams,
+  type Filtration,
+  matrixFiltrationDiagrams,
+  subsampleForFiltration,
+} from './filtration.js';
 import { condenseMatrix, type Metric, pairwiseDistances } from './metric.js';
 import { ripsPersistence } from './rips.js';
 import { type DelayEmbedding, delayEmbedding, signalPersistence } from './signal.js';
-import { checkFiltrationApplies, cloudFiltrationDiagrams, type Filtration, matrixFiltrationDiagrams, subsampleForFiltration } from './filtration.js';
 import type { SubsampleSpec } from './subsample.js';
 
 /** What to compute for each sample. Defaults are written beside each field. */
@@ -27,17 +33,28 @@ export interface DiagramOptions {
 }
 
 /** The diagrams of one sample, one per requested degree in increasing order. */
-export function computeDiagrams(sample: Sample, options: DiagramOptions): DiagramSet & { coveringRadius?: number } {
+export function computeDiagrams(
+  sample: Sample,
+  options: DiagramOptions,
+): DiagramSet & { coveringRadius?: number } {
   const degrees = checkDegrees(options.degrees);
   const maxDegree = degrees[degrees.length - 1];
   let diagrams: Diagram[];
   let coveringRadius: number | undefined;
-  if (sample.kind === 'image' || (sample.kind === 'signal' && !options.embed)) checkFiltrationApplies(sample.kind, options.filtration, sample.id, options.subsample);
+  if (sample.kind === 'image' || (sample.kind === 'signal' && !options.embed))
+    checkFiltrationApplies(sample.kind, options.filtration, sample.id, options.subsample);
   switch (sample.kind) {
     case 'points': {
       const cut = subsampleForFiltration(sample, options.subsample);
       coveringRadius = cut.coveringRadius;
-      diagrams = cloudDiagrams(cut.sample.coords, cut.sample.count, cut.sample.dim, maxDegree, options, sample.id);
+      diagrams = cloudDiagrams(
+        cut.sample.coords,
+        cut.sample.count,
+        cut.sample.dim,
+        maxDegree,
+        options,
+        sample.id,
+      );
       break;
     }
     case 'distances': {
@@ -48,8 +65,16 @@ export function computeDiagrams(sample: Sample, options: DiagramOptions): Diagra
       const filtration = options.filtration ?? 'rips';
       diagrams =
         filtration === 'rips'
-          ? ripsPersistence(size, condenseMatrix(matrix, size), { maxDegree: maxDegree as 0 | 1 | 2, maxScale: options.maxScale })
-          : matrixFiltrationDiagrams(matrix, size, { filtration, maxDegree, maxScale: options.maxScale, id: sample.id });
+          ? ripsPersistence(size, condenseMatrix(matrix, size), {
+              maxDegree: maxDegree as 0 | 1 | 2,
+              maxScale: options.maxScale,
+            })
+          : matrixFiltrationDiagrams(matrix, size, {
+              filtration,
+              maxDegree,
+              maxScale: options.maxScale,
+              id: sample.id,
+            });
       break;
     }
     case 'signal':
@@ -57,7 +82,14 @@ export function computeDiagrams(sample: Sample, options: DiagramOptions): Diagra
         const cloud = delayEmbedding(sample.values, options.embed);
         const cut = subsampleForFiltration({ ...sample, kind: 'points', ...cloud }, options.subsample);
         coveringRadius = cut.coveringRadius;
-        diagrams = cloudDiagrams(cut.sample.coords, cut.sample.count, cut.sample.dim, maxDegree, options, sample.id);
+        diagrams = cloudDiagrams(
+          cut.sample.coords,
+          cut.sample.count,
+          cut.sample.dim,
+          maxDegree,
+          options,
+          sample.id,
+        );
       } else {
         if (maxDegree > 0) {
           throw new UserError(
@@ -74,14 +106,19 @@ export function computeDiagrams(sample: Sample, options: DiagramOptions): Diagra
           `sample '${sample.id}': an image with ${axes} axes has degrees 0 to ${axes - 1}; lower --degrees`,
         );
       }
-      diagrams = cubicalPersistence(sample.values, sample.shape, { superlevel: options.superlevel, maxDegree });
+      diagrams = cubicalPersistence(sample.values, sample.shape, {
+        superlevel: options.superlevel,
+        maxDegree,
+      });
       break;
     }
     case 'diagrams':
       diagrams = sample.diagrams;
       break;
     case 'table':
-      throw new UserError(`sample '${sample.id}' is a table of features; it has no shape to compute diagrams of`);
+      throw new UserError(
+        `sample '${sample.id}' is a table of features; it has no shape to compute diagrams of`,
+      );
   }
   return {
     sample: sample.id,
@@ -92,14 +129,30 @@ export function computeDiagrams(sample: Sample, options: DiagramOptions): Diagra
 }
 
 /** Point clouds (and embedded signals): the filtration branch lives here. */
-function cloudDiagrams(coords: Float64Array, count: number, dim: number, maxDegree: number, options: DiagramOptions, id = ''): Diagram[] {
+function cloudDiagrams(
+  coords: Float64Array,
+  count: number,
+  dim: number,
+  maxDegree: number,
+  options: DiagramOptions,
+  id = '',
+): Diagram[] {
   for (let i = 0; i < coords.length; i++) {
     if (!Number.isFinite(coords[i])) {
-      throw new UserError(`point ${Math.floor(i / dim) + 1} has coordinate ${coords[i]}; coordinates must be finite numbers`);
+      throw new UserError(
+        `point ${Math.floor(i / dim) + 1} has coordinate ${coords[i]}; coordinates must be finite numbers`,
+      );
     }
   }
   const filtration = options.filtration ?? 'rips';
-  if (filtration !== 'rips') return cloudFiltrationDiagrams(coords, count, dim, { filtration, maxDegree, maxScale: options.maxScale, metric: options.metric, id });
+  if (filtration !== 'rips')
+    return cloudFiltrationDiagrams(coords, count, dim, {
+      filtration,
+      maxDegree,
+      maxScale: options.maxScale,
+      metric: options.metric,
+      id,
+    });
   const edges = pairwiseDistances(coords, count, dim, options.metric ?? 'euclidean');
   return ripsPersistence(count, edges, { maxDegree: maxDegree as 0 | 1 | 2, maxScale: options.maxScale });
 }
@@ -107,15 +160,22 @@ function cloudDiagrams(coords: Float64Array, count: number, dim: number, maxDegr
 function checkDegrees(degrees: number[]): number[] {
   if (degrees.length === 0) throw new UserError('no homology degrees requested; pass e.g. --degrees 0,1');
   for (const d of degrees) {
-    if (!Number.isInteger(d) || d < 0 || d > 2) throw new UserError(`degree ${d} is not computed; choose degrees from 0, 1, 2`);
+    if (!Number.isInteger(d) || d < 0 || d > 2)
+      throw new UserError(`degree ${d} is not computed; choose degrees from 0, 1, 2`);
   }
   return [...new Set(degrees)].sort((a, b) => a - b);
 }
 
 function checkDistanceMatrix(m: Float64Array, size: number, id: string): void {
-  if (m.length !== size * size) throw new UserError(`sample '${id}': a ${size} × ${size} matrix needs ${size * size} values, got ${m.length}`);
+  if (m.length !== size * size)
+    throw new UserError(
+      `sample '${id}': a ${size} × ${size} matrix needs ${size * size} values, got ${m.length}`,
+    );
   for (let i = 0; i < size; i++) {
-    if (m[i * size + i] !== 0) throw new UserError(`sample '${id}': diagonal entry ${i + 1} is ${m[i * size + i]}; a distance matrix has zeros there`);
+    if (m[i * size + i] !== 0)
+      throw new UserError(
+        `sample '${id}': diagonal entry ${i + 1} is ${m[i * size + i]}; a distance matrix has zeros there`,
+      );
     for (let j = i + 1; j < size; j++) {
       const a = m[i * size + j];
       const b = m[j * size + i];

@@ -25,17 +25,25 @@ export interface CubicalOptions {
   maxDegree?: number;
 }
 
-export function cubicalPersistence(values: Float64Array, shape: number[], options: CubicalOptions = {}): Diagram[] {
-  if (shape.length < 1 || shape.length > 3) throw new UserError(`an image has 1 to 3 axes, got shape [${shape.join(', ')}]`);
+export function cubicalPersistence(
+  values: Float64Array,
+  shape: number[],
+  options: CubicalOptions = {},
+): Diagram[] {
+  if (shape.length < 1 || shape.length > 3)
+    throw new UserError(`an image has 1 to 3 axes, got shape [${shape.join(', ')}]`);
   let total = 1;
   for (const s of shape) {
-    if (!Number.isInteger(s) || s < 1) throw new UserError(`image shape [${shape.join(', ')}] must be whole numbers ≥ 1`);
+    if (!Number.isInteger(s) || s < 1)
+      throw new UserError(`image shape [${shape.join(', ')}] must be whole numbers ≥ 1`);
     total *= s;
   }
-  if (values.length !== total) throw new UserError(`image shape [${shape.join(', ')}] needs ${total} values, got ${values.length}`);
+  if (values.length !== total)
+    throw new UserError(`image shape [${shape.join(', ')}] needs ${total} values, got ${values.length}`);
   const f = options.superlevel ? values.map((v) => 0 - v) : Float64Array.from(values);
   for (let p = 0; p < total; p++) {
-    if (!Number.isFinite(f[p])) throw new UserError(`pixel ${p + 1} is ${values[p]}; pixel values must be finite numbers`);
+    if (!Number.isFinite(f[p]))
+      throw new UserError(`pixel ${p + 1} is ${values[p]}; pixel values must be finite numbers`);
   }
   const top = shape.length - 1;
   const maxDegree = Math.min(options.maxDegree ?? top, top);
@@ -95,9 +103,12 @@ class Grid {
     for (let z = 0; z < D; z++)
       for (let y = 0; y < H; y++)
         for (let x = 0; x < W; x++) {
-          if (x + 1 < W && y + 1 < H) sv[this.sxy(z, y, x)] = Math.max(ev[this.ex(z, y, x)], ev[this.ex(z, y + 1, x)]);
-          if (x + 1 < W && z + 1 < D) sv[this.sxz(z, y, x)] = Math.max(ev[this.ex(z, y, x)], ev[this.ex(z + 1, y, x)]);
-          if (y + 1 < H && z + 1 < D) sv[this.syz(z, y, x)] = Math.max(ev[this.ey(z, y, x)], ev[this.ey(z + 1, y, x)]);
+          if (x + 1 < W && y + 1 < H)
+            sv[this.sxy(z, y, x)] = Math.max(ev[this.ex(z, y, x)], ev[this.ex(z, y + 1, x)]);
+          if (x + 1 < W && z + 1 < D)
+            sv[this.sxz(z, y, x)] = Math.max(ev[this.ex(z, y, x)], ev[this.ex(z + 1, y, x)]);
+          if (y + 1 < H && z + 1 < D)
+            sv[this.syz(z, y, x)] = Math.max(ev[this.ey(z, y, x)], ev[this.ey(z + 1, y, x)]);
           if (x + 1 < W && y + 1 < H && z + 1 < D) {
             this.cubeValues[this.cube(z, y, x)] = Math.max(sv[this.sxy(z, y, x)], sv[this.sxy(z + 1, y, x)]);
           }
@@ -245,7 +256,10 @@ class Grid {
         out[1] = cubeOf(z, y, x);
       }
     });
-    return { diagram: { degree: 2, births: result.births, deaths: result.deaths }, killers: result.cycleCells };
+    return {
+      diagram: { degree: 2, births: result.births, deaths: result.deaths },
+      killers: result.cycleCells,
+    };
   }
 
   /** H1 of a volume: reduce the boundaries of the loop-killing squares (Z/2, rows = edges by filtration rank). */
@@ -341,7 +355,8 @@ function dualUnionFind(
   };
   // Later in filtration order (value, then cell number) is older in the reverse pass; outside is oldest.
   const later = (a: number, b: number): boolean =>
-    a === outside || (b !== outside && (cellValues[a] > cellValues[b] || (cellValues[a] === cellValues[b] && a > b)));
+    a === outside ||
+    (b !== outside && (cellValues[a] > cellValues[b] || (cellValues[a] === cellValues[b] && a > b)));
   const order = argsortValues(lowerValues);
   const cycleCells = new Uint8Array(lowerValues.length);
   const births: number[] = [];

@@ -7,8 +7,16 @@ export const METRICS: readonly Metric[] = ['euclidean', 'manhattan', 'chebyshev'
  * Pairwise distances of `count` points in `dim` dimensions (row-major `coords`), condensed: the distance
  * between i < j sits at j(j−1)/2 + i.
  */
-export function pairwiseDistances(coords: Float64Array, count: number, dim: number, metric: Metric = 'euclidean'): Float64Array {
-  if (coords.length !== count * dim) throw new RangeError(`coords has ${coords.length} numbers; ${count} points in ${dim} dimensions need ${count * dim}`);
+export function pairwiseDistances(
+  coords: Float64Array,
+  count: number,
+  dim: number,
+  metric: Metric = 'euclidean',
+): Float64Array {
+  if (coords.length !== count * dim)
+    throw new RangeError(
+      `coords has ${coords.length} numbers; ${count} points in ${dim} dimensions need ${count * dim}`,
+    );
   const out = new Float64Array((count * (count - 1)) / 2);
   let e = 0;
   for (let j = 1; j < count; j++) {

@@ -21,7 +21,11 @@ export interface ParallelRun {
  * The compiled worker is worker.js beside this file; from TypeScript sources (tests, tsx) the worker runs
  * worker.ts through tsx.
  */
-export async function computeDiagramsParallel(samples: Sample[], options: DiagramOptions, run: ParallelRun = {}): Promise<DiagramSet[]> {
+export async function computeDiagramsParallel(
+  samples: Sample[],
+  options: DiagramOptions,
+  run: ParallelRun = {},
+): Promise<DiagramSet[]> {
   const total = samples.length;
   const wanted = Math.max(1, Math.floor(run.workers ?? availableParallelism()));
   const workerCount = Math.min(wanted, total);
@@ -56,7 +60,9 @@ export async function computeDiagramsParallel(samples: Sample[], options: Diagra
             failed = true;
             const where = `sample '${samples[reply.index].id}'`;
             if (reply.user) {
-              const message = reply.message.startsWith('sample ') ? reply.message : `${where}: ${reply.message}`;
+              const message = reply.message.startsWith('sample ')
+                ? reply.message
+                : `${where}: ${reply.message}`;
               reject(new UserError(message, { file: reply.file, line: reply.line }));
             } else {
               const e = new Error(`${where}: ${reply.message}`);

@@ -351,6 +351,8 @@ function checkSize(
   limit?: number,
 ): void {
   const budget = limit ?? Math.max(2 ** 30, 0.8 * freemem());
+  // Without degree 2, every edge kept is a cheap upper bound; count exactly only when it does not fit.
+  if (maxDegree < 2 && 4 * n * n + 48 * condensedLength(n) <= budget) return;
   const { bytes, edges, triangles } = estimateRipsBytes(n, values, threshold, maxDegree);
   if (bytes > budget) {
     const mb = (x: number): string => `${Math.round(x / 2 ** 20)} MB`;

@@ -15,7 +15,8 @@ export function signalPersistence(values: Float64Array, options: { superlevel?: 
   const m = values.length;
   const f = options.superlevel ? values.map((v) => 0 - v) : values;
   for (let p = 0; p < m; p++) {
-    if (!Number.isFinite(f[p])) throw new UserError(`signal value ${p + 1} is ${values[p]}; values must be finite numbers`);
+    if (!Number.isFinite(f[p]))
+      throw new UserError(`signal value ${p + 1} is ${values[p]}; values must be finite numbers`);
   }
   const order = argsortValues(f);
   const uf = new UnionFind(m);
@@ -63,7 +64,10 @@ export interface DelayEmbedding {
  * The delay (sliding-window) embedding: point t is (x[s], x[s + delay], …, x[s + (dimension−1)·delay]) with
  * s = t·stride, for every s whose window fits in the signal.
  */
-export function delayEmbedding(values: Float64Array, embed: DelayEmbedding): { coords: Float64Array; count: number; dim: number } {
+export function delayEmbedding(
+  values: Float64Array,
+  embed: DelayEmbedding,
+): { coords: Float64Array; count: number; dim: number } {
   const { dimension, delay } = embed;
   const stride = embed.stride ?? 1;
   for (const [name, v] of [
@@ -71,7 +75,8 @@ export function delayEmbedding(values: Float64Array, embed: DelayEmbedding): { c
     ['delay', delay],
     ['stride', stride],
   ] as const) {
-    if (!Number.isInteger(v) || v < 1) throw new UserError(`embedding ${name} ${v} must be a whole number ≥ 1`);
+    if (!Number.isInteger(v) || v < 1)
+      throw new UserError(`embedding ${name} ${v} must be a whole number ≥ 1`);
   }
   const span = (dimension - 1) * delay;
   if (values.length <= span) {

@@ -10,7 +10,8 @@
 
 /** Index of the edge {i, j} (i ≠ j) in the condensed edge array: j(j−1)/2 + i for i < j (column-wise lower triangle). */
 export function condensedIndex(i: number, j: number, n: number): number {
-  if (i === j || i < 0 || j < 0 || i >= n || j >= n) throw new RangeError(`no edge between ${i} and ${j} among ${n} vertices`);
+  if (i === j || i < 0 || j < 0 || i >= n || j >= n)
+    throw new RangeError(`no edge between ${i} and ${j} among ${n} vertices`);
   return i < j ? (j * (j - 1)) / 2 + i : (i * (i - 1)) / 2 + j;
 }
 

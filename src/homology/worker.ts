@@ -12,7 +12,15 @@ export interface WorkerTask {
 
 export type WorkerReply =
   | { index: number; ok: true; set: ReturnType<typeof computeDiagrams> }
-  | { index: number; ok: false; user: boolean; message: string; file?: string; line?: number; stack?: string };
+  | {
+      index: number;
+      ok: false;
+      user: boolean;
+      message: string;
+      file?: string;
+      line?: number;
+      stack?: string;
+    };
 
 const port = parentPort;
 if (port) {
@@ -21,7 +29,8 @@ if (port) {
       const set = computeDiagrams(task.sample, task.options);
       const transfer: ArrayBuffer[] = [];
       for (const d of set.diagrams) {
-        if (d.births.buffer !== d.deaths.buffer) transfer.push(d.births.buffer as ArrayBuffer, d.deaths.buffer as ArrayBuffer);
+        if (d.births.buffer !== d.deaths.buffer)
+          transfer.push(d.births.buffer as ArrayBuffer, d.deaths.buffer as ArrayBuffer);
       }
       const reply: WorkerReply = { index: task.index, ok: true, set };
       port.postMessage(reply, task.sample.kind === 'diagrams' ? [] : transfer);

@@ -12,7 +12,9 @@ function ringsCsv(): string {
     for (let i = 0; i < 40; i++) {
       const a = (2 * Math.PI * i) / 40;
       const r = ring ? 1 : 0.1;
-      lines.push(`strut-${c},${ring ? 'hollow' : 'solid'},${r * Math.cos(a)},${r * Math.sin(a) + 0.001 * (i % 3)}`);
+      lines.push(
+        `strut-${c},${ring ? 'hollow' : 'solid'},${r * Math.cos(a)},${r * Math.sin(a) + 0.001 * (i % 3)}`,
+      );
     }
   }
   return lines.join('\n') + '\n';
@@ -59,7 +61,18 @@ describe('landform diagrams', () => {
     expect(bad.code).toBe(2);
     expect(bad.stderr).toMatch(/^landform: .*--embed/);
     expect(existsSync(out)).toBe(false);
-    const ok = runCli(['diagrams', input, '--degrees', '1', '--embed', '2:7', '--workers', '1', '--out', out]);
+    const ok = runCli([
+      'diagrams',
+      input,
+      '--degrees',
+      '1',
+      '--embed',
+      '2:7',
+      '--workers',
+      '1',
+      '--out',
+      out,
+    ]);
     expect(ok.code).toBe(0);
     const [set] = parseDiagramCsv(readFileSync(out, 'utf8'), out);
     const h1 = set.diagrams[0];
@@ -71,7 +84,18 @@ describe('landform diagrams', () => {
     const input = join(dir, 'struts.csv');
     writeFileSync(input, ringsCsv());
     const out = join(dir, 'd.csv');
-    const r = runCli(['diagrams', input, '--filtration', 'dtm:4', '--subsample', 'maxmin:20', '--workers', '1', '--out', out]);
+    const r = runCli([
+      'diagrams',
+      input,
+      '--filtration',
+      'dtm:4',
+      '--subsample',
+      'maxmin:20',
+      '--workers',
+      '1',
+      '--out',
+      out,
+    ]);
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     const prov = JSON.parse(readFileSync(`${out}.provenance.json`, 'utf8'));

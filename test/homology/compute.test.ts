@@ -5,7 +5,14 @@ import type { DistanceSample, PointSample } from '../../src/io/dataset.js';
 
 function square(): PointSample {
   // The unit square's corners: H1 born at the side 1, dies at the diagonal √2 (worked by hand).
-  return { kind: 'points', id: 's', label: 'a', dim: 2, count: 4, coords: Float64Array.from([0, 0, 1, 0, 1, 1, 0, 1]) };
+  return {
+    kind: 'points',
+    id: 's',
+    label: 'a',
+    dim: 2,
+    count: 4,
+    coords: Float64Array.from([0, 0, 1, 0, 1, 1, 0, 1]),
+  };
 }
 
 describe('computeDiagrams', () => {
@@ -40,7 +47,13 @@ describe('computeDiagrams', () => {
   });
 
   it('refuses an asymmetric distance matrix and a non-zero diagonal', () => {
-    const bad: DistanceSample = { kind: 'distances', id: 'm', label: '', size: 2, matrix: Float64Array.from([0, 1, 2, 0]) };
+    const bad: DistanceSample = {
+      kind: 'distances',
+      id: 'm',
+      label: '',
+      size: 2,
+      matrix: Float64Array.from([0, 1, 2, 0]),
+    };
     expect(() => computeDiagrams(bad, { degrees: [0] })).toThrow(/equal both ways/);
     bad.matrix = Float64Array.from([1, 1, 1, 0]);
     expect(() => computeDiagrams(bad, { degrees: [0] })).toThrow(/diagonal/);
@@ -55,7 +68,13 @@ describe('computeDiagrams', () => {
   });
 
   it('computes images by cubical persistence and refuses degrees beyond their axes', () => {
-    const img = { kind: 'image' as const, id: 'i', label: '', shape: [3, 3], values: Float64Array.from([1, 1, 1, 1, 0, 1, 1, 1, 1]) };
+    const img = {
+      kind: 'image' as const,
+      id: 'i',
+      label: '',
+      shape: [3, 3],
+      values: Float64Array.from([1, 1, 1, 1, 0, 1, 1, 1, 1]),
+    };
     const set = computeDiagrams(img, { degrees: [0, 1], superlevel: true });
     expect(Array.from(set.diagrams[1].births)).toEqual([-1]);
     expect(Array.from(set.diagrams[1].deaths)).toEqual([0]);

@@ -6,7 +6,8 @@ import { type NaiveCell, naiveReduce } from './naive-reduction.js';
 
 function finiteOf(d: Diagram): Array<[number, number]> {
   const out: Array<[number, number]> = [];
-  for (let i = 0; i < d.births.length; i++) if (d.deaths[i] !== Infinity) out.push([d.births[i], d.deaths[i]]);
+  for (let i = 0; i < d.births.length; i++)
+    if (d.deaths[i] !== Infinity) out.push([d.births[i], d.deaths[i]]);
   return out.sort((a, b) => a[0] - b[0] || a[1] - b[1]);
 }
 
@@ -29,7 +30,8 @@ function explicitComplex(values: Float64Array, D: number, H: number, W: number):
                 let value = -Infinity;
                 for (let a = 0; a <= dz; a++)
                   for (let b = 0; b <= dy; b++)
-                    for (let c = 0; c <= dx; c++) value = Math.max(value, values[((z + a) * H + y + b) * W + x + c]);
+                    for (let c = 0; c <= dx; c++)
+                      value = Math.max(value, values[((z + a) * H + y + b) * W + x + c]);
                 const faces: number[] = [];
                 const ext = [dz, dy, dx];
                 const at = [z, y, x];
@@ -106,7 +108,8 @@ describe('cubicalPersistence on images with known answers', () => {
     // A 7 × 7 dark image with a bright square ring (value 10) around a dark centre (textbook fact: an
     // annulus has one 1-dimensional hole).
     const v = new Float64Array(49);
-    for (let y = 1; y <= 5; y++) for (let x = 1; x <= 5; x++) if (y === 1 || y === 5 || x === 1 || x === 5) v[y * 7 + x] = 10;
+    for (let y = 1; y <= 5; y++)
+      for (let x = 1; x <= 5; x++) if (y === 1 || y === 5 || x === 1 || x === 5) v[y * 7 + x] = 10;
     const [h0, h1] = cubicalPersistence(v, [7, 7], { superlevel: true });
     // Negated scale: the ring appears at −10 and its hole is filled when the dark centre (0) enters.
     expect(finiteOf(h1)).toEqual([[-10, 0]]);
@@ -123,7 +126,8 @@ describe('cubicalPersistence on images with known answers', () => {
     const n = 5;
     const v = new Float64Array(n * n * n);
     for (let z = 1; z <= 3; z++)
-      for (let y = 1; y <= 3; y++) for (let x = 1; x <= 3; x++) if (!(z === 2 && y === 2 && x === 2)) v[(z * n + y) * n + x] = 1;
+      for (let y = 1; y <= 3; y++)
+        for (let x = 1; x <= 3; x++) if (!(z === 2 && y === 2 && x === 2)) v[(z * n + y) * n + x] = 1;
     const [, h1, h2] = cubicalPersistence(v, [n, n, n], { superlevel: true });
     expect(finiteOf(h2)).toEqual([[-1, 0]]);
     expect(h1.births.length).toBe(0);

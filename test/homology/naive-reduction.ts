@@ -28,7 +28,8 @@ export function naiveRips(
     if (prefix.length > 0) {
       let value = 0;
       for (const v of prefix) value = Math.max(value, vv[v]);
-      for (let a = 0; a < prefix.length; a++) for (let b = a + 1; b < prefix.length; b++) value = Math.max(value, distance(prefix[a], prefix[b]));
+      for (let a = 0; a < prefix.length; a++)
+        for (let b = a + 1; b < prefix.length; b++) value = Math.max(value, distance(prefix[a], prefix[b]));
       if (value > maxScale) return; // every coface is at least as large
       simplices.push({ vertices: prefix.slice(), value });
     }
@@ -43,11 +44,14 @@ export function naiveRips(
   simplices.sort((x, y) => {
     if (x.value !== y.value) return x.value - y.value;
     if (x.vertices.length !== y.vertices.length) return x.vertices.length - y.vertices.length;
-    for (let k = 0; k < x.vertices.length; k++) if (x.vertices[k] !== y.vertices[k]) return x.vertices[k] - y.vertices[k];
+    for (let k = 0; k < x.vertices.length; k++)
+      if (x.vertices[k] !== y.vertices[k]) return x.vertices[k] - y.vertices[k];
     return 0;
   });
   const position = new Map<string, number>();
-  simplices.forEach((s, i) => position.set(s.vertices.join(','), i));
+  simplices.forEach((s, i) => {
+    position.set(s.vertices.join(','), i);
+  });
   // Boundary columns as sets of row positions.
   const columns: Set<number>[] = simplices.map((s) => {
     const col = new Set<number>();
@@ -79,7 +83,8 @@ export function naiveRips(
       paired.add(l);
       paired.add(j);
       const degree = simplices[l].vertices.length - 1;
-      if (degree <= maxDegree && simplices[j].value > simplices[l].value) finite[degree].push([simplices[l].value, simplices[j].value]);
+      if (degree <= maxDegree && simplices[j].value > simplices[l].value)
+        finite[degree].push([simplices[l].value, simplices[j].value]);
     }
   }
   const essential = new Array<number>(maxDegree + 1).fill(0);

@@ -18,7 +18,11 @@ describe('computeDiagramsParallel', () => {
   it('matches the one-thread result, in order, on two workers', async () => {
     const samples = clouds(12);
     const seen: number[] = [];
-    const got = await computeDiagramsParallel(samples, { degrees: [0, 1] }, { workers: 2, onProgress: (d) => seen.push(d) });
+    const got = await computeDiagramsParallel(
+      samples,
+      { degrees: [0, 1] },
+      { workers: 2, onProgress: (d) => seen.push(d) },
+    );
     const want = samples.map((s) => computeDiagrams(s, { degrees: [0, 1] }));
     expect(got.map((s) => s.sample)).toEqual(samples.map((s) => s.id));
     for (let k = 0; k < samples.length; k++) {
@@ -28,9 +32,11 @@ describe('computeDiagramsParallel', () => {
     expect(seen[seen.length - 1]).toBe(12);
   }, 30000);
 
-  it('passes a user mistake in one sample back as that sample\'s message', async () => {
+  it("passes a user mistake in one sample back as that sample's message", async () => {
     const samples = clouds(3);
     samples[1] = { ...samples[1], coords: samples[1].coords.map((v, i) => (i === 3 ? Number.NaN : v)) };
-    await expect(computeDiagramsParallel(samples, { degrees: [0] }, { workers: 2 })).rejects.toThrow(/sample 'c1'.*finite/);
+    await expect(computeDiagramsParallel(samples, { degrees: [0] }, { workers: 2 })).rejects.toThrow(
+      /sample 'c1'.*finite/,
+    );
   }, 30000);
 });

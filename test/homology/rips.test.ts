@@ -8,7 +8,8 @@ import { naiveRips } from './naive-reduction.js';
 
 function finiteOf(d: Diagram): Array<[number, number]> {
   const out: Array<[number, number]> = [];
-  for (let i = 0; i < d.births.length; i++) if (d.deaths[i] !== Infinity) out.push([d.births[i], d.deaths[i]]);
+  for (let i = 0; i < d.births.length; i++)
+    if (d.deaths[i] !== Infinity) out.push([d.births[i], d.deaths[i]]);
   return out.sort((a, b) => a[0] - b[0] || a[1] - b[1]);
 }
 function essentialOf(d: Diagram): number {
@@ -18,7 +19,13 @@ function essentialOf(d: Diagram): number {
 }
 
 /** Checks the engine against the naive reduction, degree by degree, pair for pair. */
-function agree(coords: Float64Array, count: number, dim: number, maxDegree: 0 | 1 | 2, extra: { maxScale?: number; vertexValues?: number[] } = {}): void {
+function agree(
+  coords: Float64Array,
+  count: number,
+  dim: number,
+  maxDegree: 0 | 1 | 2,
+  extra: { maxScale?: number; vertexValues?: number[] } = {},
+): void {
   const edges = pairwiseDistances(coords, count, dim, 'euclidean');
   const got = ripsPersistence(count, edges, {
     maxDegree,
@@ -90,7 +97,8 @@ describe('ripsPersistence against the naive reduction', () => {
     for (let x = 0; x < 2; x++) for (let y = 0; y < 2; y++) for (let z = 0; z < 3; z++) grid3.push(x, y, z);
     agree(Float64Array.from(grid3), 12, 3, 2);
     const ring: number[] = [];
-    for (let x = 0; x < 4; x++) for (let y = 0; y < 4; y++) if (x === 0 || y === 0 || x === 3 || y === 3) ring.push(x, y);
+    for (let x = 0; x < 4; x++)
+      for (let y = 0; y < 4; y++) if (x === 0 || y === 0 || x === 3 || y === 3) ring.push(x, y);
     agree(Float64Array.from(ring), 12, 2, 2);
   });
 
@@ -154,7 +162,20 @@ describe('ripsPersistence basics', () => {
   it('refuses a complex that would not fit in the memory limit, naming --max-scale', () => {
     const rng = new Random(3);
     const c = cloud(rng, 200, 3);
-    expect(() => ripsPersistence(200, pairwiseDistances(c, 200, 3), { maxDegree: 2, memoryLimit: 1e6 })).toThrow(/--max-scale/);
+    expect(() =>
+      ripsPersistence(200, pairwiseDistances(c, 200, 3), { maxDegree: 2, memoryLimit: 1e6 }),
+    ).toThrow(/--max-scale/);
+    expect(() =>
+      ripsPersistence(200, pairwiseDistances(c, 200, 3), { maxDegree: 1, memoryLimit: 1e5 }),
+    ).toThrow(/200 points up to scale .* edges, needing about/);
+    // A scale cut small enough brings the same cloud within the limit.
+    expect(
+      ripsPersistence(200, pairwiseDistances(c, 200, 3), {
+        maxDegree: 1,
+        maxScale: 0.05,
+        memoryLimit: 4e5,
+      })[0].births.length,
+    ).toBeGreaterThan(0);
   });
 });
 
@@ -274,7 +295,8 @@ describe('ripsPersistence is stable', () => {
       }
       const da = ripsPersistence(count, pairwiseDistances(base, count, 2), { maxDegree: 2 });
       const db = ripsPersistence(count, pairwiseDistances(moved, count, 2), { maxDegree: 2 });
-      for (let d = 0; d <= 2; d++) expect(bottleneckDistance(da[d], db[d])).toBeLessThanOrEqual(2 * delta + 1e-12);
+      for (let d = 0; d <= 2; d++)
+        expect(bottleneckDistance(da[d], db[d])).toBeLessThanOrEqual(2 * delta + 1e-12);
     }
   });
 });

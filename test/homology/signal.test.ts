@@ -39,7 +39,9 @@ describe('delayEmbedding', () => {
   });
 
   it('refuses a signal shorter than one window', () => {
-    expect(() => delayEmbedding(Float64Array.from([1, 2, 3]), { dimension: 3, delay: 2 })).toThrow(/too short/);
+    expect(() => delayEmbedding(Float64Array.from([1, 2, 3]), { dimension: 3, delay: 2 })).toThrow(
+      /too short/,
+    );
   });
 
   it('turns a sampled sine into a loop (sliding windows of a periodic signal)', async () => {

@@ -10,8 +10,8 @@ import type { SampleKind } from '../../io/dataset.js';
 import { formatDiagramCsv } from '../../io/diagram-csv.js';
 import { expectKind, loadDataset, parseKind } from '../../io/load.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
-import { parseChoiceOption, parseDegreesOption, parseIntegerOption, parseNumberOption } from '../options.js';
 import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
+import { parseChoiceOption, parseDegreesOption, parseIntegerOption, parseNumberOption } from '../options.js';
 import { startProgress } from '../progress.js';
 
 interface DiagramsCommandOptions {
@@ -34,11 +34,14 @@ const INPUT_KINDS = ['points', 'distances', 'signal', 'image'] as const;
 export function parseEmbedOption(text: string, option = '--embed'): DelayEmbedding {
   const parts = text.split(':');
   if (parts.length < 2 || parts.length > 3) {
-    throw new UserError(`${option} '${text}' must look like DIM:DELAY or DIM:DELAY:STRIDE, e.g. 3:4 or 3:4:2`);
+    throw new UserError(
+      `${option} '${text}' must look like DIM:DELAY or DIM:DELAY:STRIDE, e.g. 3:4 or 3:4:2`,
+    );
   }
   const dimension = parseIntegerOption(parts[0], `${option} DIM`, 1, 1000);
   const delay = parseIntegerOption(parts[1], `${option} DELAY`, 1, 1_000_000);
-  const stride = parts.length === 3 ? parseIntegerOption(parts[2], `${option} STRIDE`, 1, 1_000_000) : undefined;
+  const stride =
+    parts.length === 3 ? parseIntegerOption(parts[2], `${option} STRIDE`, 1, 1_000_000) : undefined;
   return stride === undefined ? { dimension, delay } : { dimension, delay, stride };
 }
 
@@ -50,14 +53,22 @@ export function defineDiagrams(program: Command): Command {
   const command = program.command('diagrams');
   addFiltrationOptions(command);
   return command
-    .description('persistence diagrams of every sample: Vietoris–Rips for clouds and matrices, cubical for images, sublevel sets or delay embeddings for signals')
-    .argument('<input>', 'dataset: points CSV (sample,label,x,y,…), long signal CSV (sample,label,value), or any format the loader reads')
+    .description(
+      'persistence diagrams of every sample: Vietoris–Rips for clouds and matrices, cubical for images, sublevel sets or delay embeddings for signals',
+    )
+    .argument(
+      '<input>',
+      'dataset: points CSV (sample,label,x,y,…), long signal CSV (sample,label,value), or any format the loader reads',
+    )
     .option('--kind <kind>', `sample kind: ${INPUT_KINDS.join(', ')} (default: detected from the file)`)
     .option('--degrees <list>', 'homology degrees, from 0, 1, 2', '0,1')
     .option('--max-scale <r>', 'largest Rips scale kept; classes alive there get death inf (default: none)')
     .option('--metric <name>', `distance between points: ${METRICS.join(', ')}`, 'euclidean')
     .option('--embed <DIM:DELAY[:STRIDE]>', 'turn each signal into a cloud of delay windows before Rips')
-    .option('--superlevel', 'images and signals: superlevel sets (bright first), reported on the negated scale')
+    .option(
+      '--superlevel',
+      'images and signals: superlevel sets (bright first), reported on the negated scale',
+    )
     .option('--workers <n>', 'worker threads (default: every core)')
     .option('--out <file>', 'the diagram CSV to write (a FILE.provenance.json sidecar is written beside it)')
     .addHelpText(
@@ -72,13 +83,20 @@ Example:
   landform diagrams pump-vibration.csv --embed 3:5 --degrees 0,1 --max-scale 2 --out pump-diagrams.csv`,
     )
     .action(async (input: string, options: DiagramsCommandOptions) => {
-      if (options.out === undefined) throw new UserError('no --out FILE given; name the diagram CSV to write');
+      if (options.out === undefined)
+        throw new UserError('no --out FILE given; name the diagram CSV to write');
       const degrees = parseDegreesOption(options.degrees, '--degrees', 2);
       const metric = parseChoiceOption(options.metric, '--metric', METRICS) as Metric;
-      const maxScale = options.maxScale === undefined ? undefined : parseNumberOption(options.maxScale, '--max-scale', { positive: true });
+      const maxScale =
+        options.maxScale === undefined
+          ? undefined
+          : parseNumberOption(options.maxScale, '--max-scale', { positive: true });
       const embed = options.embed === undefined ? undefined : parseEmbedOption(options.embed);
       const choice = parseFiltrationOptions(options);
-      const workers = options.workers === undefined ? availableParallelism() : parseIntegerOption(options.workers, '--workers', 1, 1024);
+      const workers =
+        options.workers === undefined
+          ? availableParallelism()
+          : parseIntegerOption(options.workers, '--workers', 1, 1024);
       let kind: SampleKind | undefined;
       if (options.kind !== undefined) {
         kind = parseKind(options.kind);
@@ -86,9 +104,13 @@ Example:
       }
       const dataset = expectKind(await loadDataset(input, { kind }), INPUT_KINDS, 'landform diagrams');
       if (embed !== undefined && dataset.kind !== 'signal') {
-        throw new UserError(`--embed applies to signals, but this is a ${dataset.kind} dataset; drop --embed`, { file: input });
+        throw new UserError(
+          `--embed applies to signals, but this is a ${dataset.kind} dataset; drop --embed`,
+          { file: input },
+        );
       }
-      if (dataset.samples.length === 0) throw new UserError('has no samples; nothing to compute', { file: input });
+      if (dataset.samples.length === 0)
+        throw new UserError('has no samples; nothing to compute', { file: input });
       const computeOptions: DiagramOptions = { degrees, metric, filtration: choice.filtration };
       if (choice.subsample !== undefined) computeOptions.subsample = choice.subsample;
       if (maxScale !== undefined) computeOptions.maxScale = maxScale;
