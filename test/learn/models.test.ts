@@ -1,3 +1,4 @@
+import { createRequire } from 'node:module';
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
 import type { Classifier } from '../../src/learn/classifier.js';
@@ -112,6 +113,19 @@ describe('pca-svm classifier', () => {
     expect(rbf.length).toBe(9);
     expect(new Set(rbf.map((h) => h.gamma))).toEqual(new Set([0.1 / 50, 1 / 50, 10 / 50]));
     expect(grid[0]).toEqual({ kernel: 'linear', C: 0.1 });
+  });
+
+  it('trains, saves and reloads pca-svm without loading the neural-network stack', async () => {
+    // Project rule (common practice, no source): heavy libraries load only inside the functions that need
+    // them. CommonJS modules, tfjs among them, are listed in the module cache once loaded.
+    const cache = (createRequire(import.meta.url) as unknown as { cache: Record<string, unknown> }).cache;
+    const tfLoaded = (): boolean => Object.keys(cache).some((k) => k.includes('@tensorflow'));
+    const { x, y } = iris();
+    createClassifier('dense', { hidden: 4 }, 1); // constructing validates options only
+    const model = createClassifier('pca-svm', { kernel: 'linear' }, 1);
+    await model.fit(x, y, 3);
+    await classifierFromJSON(await model.toJSON());
+    expect(tfLoaded()).toBe(false);
   });
 
   it('handles a training fold that holds a single class', async () => {
