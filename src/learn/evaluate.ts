@@ -7,10 +7,10 @@ import {
   type FeatureSetName,
   featureSetsFor,
 } from '../features/combined.js';
-import type { LandscapeVectorizerOptions } from '../features/landscape-vectorizer.js';
-import type { RawFeaturesOptions } from '../features/raw-features.js';
+import { LandscapeVectorizer, type LandscapeVectorizerOptions } from '../features/landscape-vectorizer.js';
+import { RawFeatures, type RawFeaturesOptions } from '../features/raw-features.js';
 import type { DiagramOptions } from '../homology/compute.js';
-import type { DiagramSet } from '../homology/diagram.js';
+import { type DiagramSet, describeInfinitePolicy } from '../homology/diagram.js';
 import { classesOf, type Dataset } from '../io/dataset.js';
 import type { Grid } from '../landscape/grid.js';
 import { type Hyperparameters, MODEL_NAMES, type ModelName } from './classifier.js';
@@ -333,7 +333,7 @@ export async function runEvaluation(
     landscapeCandidates: usesAnyLandscape(featureSets)
       ? landscapeCandidates.map((c) => ({ depth: c.depth, gridSize: c.gridSize }))
       : [],
-    landscape: usesAnyLandscape(featureSets) ? landscapeRecord(base0(options)) : null,
+    landscape: usesAnyLandscape(featureSets) ? landscapeRecord(options.landscape) : null,
     raw: featureSets.includes('raw') || featureSets.includes('combined') ? rawRecord(options.raw) : null,
     ...(options.record ?? {}),
   };
@@ -355,15 +355,12 @@ function usesAnyLandscape(sets: readonly FeatureSetName[]): boolean {
   return sets.some((s) => s !== 'raw');
 }
 
-function base0(options: EvaluationOptions): FeatureExtractor {
-  return new FeatureExtractor('landscape', options.landscape ? { landscape: options.landscape } : {});
-}
-
-function landscapeRecord(e: FeatureExtractor): Record<string, unknown> {
-  const v = e.landscape!;
+/** The vectoriser options metrics.json records (what the inner CV does not choose). */
+function landscapeRecord(options: LandscapeVectorizerOptions | undefined): Record<string, unknown> {
+  const v = new LandscapeVectorizer(options);
   return {
     degrees: v.degrees,
-    infinite: v.infinite.mode === 'drop' ? 'drop' : `clip:${v.infinite.value}`,
+    infinite: describeInfinitePolicy(v.infinite),
     range: v.range ? { start: v.range.start, stop: v.range.stop } : 'learned',
     upperQuantile: v.upperQuantile,
     standardize: v.standardize,
@@ -371,7 +368,7 @@ function landscapeRecord(e: FeatureExtractor): Record<string, unknown> {
 }
 
 function rawRecord(raw: RawFeaturesOptions | undefined): Record<string, unknown> {
-  const e = new FeatureExtractor('raw', raw ? { raw } : {}).raw!;
+  const e = new RawFeatures(raw);
   return {
     bins: e.bins,
     upperQuantile: e.upperQuantile,

@@ -1,7 +1,7 @@
 import { Random } from '../core/random.js';
 import { type FeatureData, type FeatureExtractor, usesLandscape } from '../features/combined.js';
 import type { Classifier, Hyperparameters, ModelName } from './classifier.js';
-import { stratifiedFolds } from './folds.js';
+import { classCounts, stratifiedFolds } from './folds.js';
 import type { Matrix } from './matrix.js';
 import { argmaxRows, balancedAccuracy, confusionMatrix } from './metrics.js';
 
@@ -65,13 +65,13 @@ export async function fitAndPredict(
   train: ArrayLike<number>,
   test: ArrayLike<number>,
   classifier: Classifier,
-): Promise<{ predicted: Int32Array; scores: Matrix; trainFeatures: Matrix }> {
+): Promise<{ predicted: Int32Array; scores: Matrix }> {
   extractor.fit(data, train);
   const xTrain = extractor.transform(data, train);
   const xTest = extractor.transform(data, test);
   await classifier.fit(xTrain, pick(y, train), classCount);
   const scores = await classifier.predictScores(xTest);
-  return { predicted: argmaxRows(scores), scores, trainFeatures: xTrain };
+  return { predicted: argmaxRows(scores), scores };
 }
 
 /** Classifiers that can label without their probability step (faster for scoring candidates). */
@@ -112,8 +112,8 @@ export async function selectHyperparameters(
     : [];
   const yTrain = pick(y, train);
   let smallest = Number.POSITIVE_INFINITY;
-  const counts = new Int32Array(classCount);
-  for (let i = 0; i < yTrain.length; i++) counts[yTrain[i]]++;
+  const counts = classCounts(yTrain, classCount);
+  // Fewer inner folds when a class of the training rows is smaller than asked; below 2, no search.
   for (let k = 0; k < classCount; k++) if (counts[k] > 0 && counts[k] < smallest) smallest = counts[k];
   const innerFolds = Math.min(options.innerFolds ?? DEFAULT_SELECTION_OPTIONS.innerFolds, smallest);
 
