@@ -23,8 +23,10 @@ function naivePermutation(a: LandscapeStack, b: LandscapeStack, permutations: nu
   const rows: number[][] = [];
   for (let i = 0; i < a.samples; i++) rows.push(Array.from(a.values.subarray(i * width, (i + 1) * width)));
   for (let i = 0; i < b.samples; i++) rows.push(Array.from(b.values.subarray(i * width, (i + 1) * width)));
-  const mean = (group: number[][]) => group[0].map((_, j) => group.reduce((s, r) => s + r[j], 0) / group.length);
-  const distance = (x: number[], y: number[]) => sampledNorm(Float64Array.from(x.map((v, j) => v - y[j])), a.depth, a.grid, 2);
+  const mean = (group: number[][]) =>
+    group[0].map((_, j) => group.reduce((s, r) => s + r[j], 0) / group.length);
+  const distance = (x: number[], y: number[]) =>
+    sampledNorm(Float64Array.from(x.map((v, j) => v - y[j])), a.depth, a.grid, 2);
   const observed = distance(mean(rows.slice(0, a.samples)), mean(rows.slice(a.samples)));
   const random = new Random(seed);
   let exceed = 0;
@@ -39,7 +41,9 @@ function naivePermutation(a: LandscapeStack, b: LandscapeStack, permutations: nu
 
 function naiveBand(s: LandscapeStack, draws: number, seed: number): number {
   const width = s.depth * s.grid.count;
-  const rows = Array.from({ length: s.samples }, (_, i) => Array.from(s.values.subarray(i * width, (i + 1) * width)));
+  const rows = Array.from({ length: s.samples }, (_, i) =>
+    Array.from(s.values.subarray(i * width, (i + 1) * width)),
+  );
   const mean = rows[0].map((_, j) => rows.reduce((acc, r) => acc + r[j], 0) / rows.length);
   const random = new Random(seed);
   const theta: number[] = [];
@@ -68,11 +72,18 @@ export async function run(): Promise<void> {
   const slowBand = await time(() => naiveBand(band, 1000, 1), 2, 0);
 
   const { meanBandChart, renderSvg } = await import('../src/report/charts.js');
-  const classes = ['intact', 'broken-strut', 'merged-cells'].map((label) => ({ label, band: multiplierBand(stack(random, 25, depth, grid), { draws: 200 }) }));
+  const classes = ['intact', 'broken-strut', 'merged-cells'].map((label) => ({
+    label,
+    band: multiplierBand(stack(random, 25, depth, grid), { draws: 200 }),
+  }));
   const chart = await time(() => renderSvg(meanBandChart(1, classes, 4)), 5);
 
   report('report statistics and charts', [
-    { name: 'permutation test, 2 × 40 samples, 5 × 100 values, 999 relabellings', value: fast.ms, unit: 'ms' },
+    {
+      name: 'permutation test, 2 × 40 samples, 5 × 100 values, 999 relabellings',
+      value: fast.ms,
+      unit: 'ms',
+    },
     { name: '  re-summing group A per relabelling (method direct)', value: direct.ms, unit: 'ms' },
     { name: '  naive (full shuffle, arrays of rows, means from scratch)', value: slow.ms, unit: 'ms' },
     { name: '  Gram scoring over re-summing', value: direct.ms / fast.ms, unit: '×' },

@@ -25,7 +25,12 @@ export interface BandOptions {
   scope?: 'layer' | 'all';
 }
 
-export const DEFAULT_BAND_OPTIONS: Required<BandOptions> = { level: 0.95, draws: 1000, seed: 1, scope: 'layer' };
+export const DEFAULT_BAND_OPTIONS: Required<BandOptions> = {
+  level: 0.95,
+  draws: 1000,
+  seed: 1,
+  scope: 'layer',
+};
 
 export interface SampledBand {
   samples: number;
@@ -45,7 +50,8 @@ export interface SampledBand {
 export function multiplierBand(stack: LandscapeStack, options: BandOptions = {}): SampledBand {
   const { level, draws, seed, scope } = { ...DEFAULT_BAND_OPTIONS, ...options };
   if (!(level > 0 && level < 1)) throw new Error(`multiplierBand: level ${level} must be in (0, 1)`);
-  if (!(Number.isInteger(draws) && draws >= 1)) throw new Error(`multiplierBand: draws ${draws} must be a whole number ≥ 1`);
+  if (!(Number.isInteger(draws) && draws >= 1))
+    throw new Error(`multiplierBand: draws ${draws} must be a whole number ≥ 1`);
   const n = stack.samples;
   const count = stack.grid.count;
   const depth = stack.depth;

@@ -1,7 +1,15 @@
 import type { TopLevelSpec } from 'vega-lite';
 import type { Diagram } from '../homology/diagram.js';
-import { CATEGORY_COLOURS, DIVERGING_COLOURS, FONT_STACK, INK, MUTED_INK, RULE, SEQUENTIAL_RAMP } from './palette.js';
 import type { SampledBand } from './bands.js';
+import {
+  CATEGORY_COLOURS,
+  DIVERGING_COLOURS,
+  FONT_STACK,
+  INK,
+  MUTED_INK,
+  RULE,
+  SEQUENTIAL_RAMP,
+} from './palette.js';
 
 /**
  * The report's charts: each is a vega-lite spec built from plain data, compiled to vega and rendered to an
@@ -31,7 +39,14 @@ export function chartConfig(): Record<string, unknown> {
     background: '#ffffff',
     view: { stroke: RULE, strokeWidth: 1 },
     axis: AXIS,
-    legend: { labelColor: INK, titleColor: INK, labelFontSize: 11, titleFontSize: 12, titleFontWeight: 600, labelLimit: 220 },
+    legend: {
+      labelColor: INK,
+      titleColor: INK,
+      labelFontSize: 11,
+      titleFontSize: 12,
+      titleFontWeight: 600,
+      labelLimit: 220,
+    },
     header: { labelColor: INK, titleColor: INK, labelFontSize: 12, labelFontWeight: 600, titleFontSize: 12 },
     title: { color: INK, fontSize: 13, fontWeight: 600, anchor: 'start', offset: 8 },
     range: { category: [...CATEGORY_COLOURS] },
@@ -43,7 +58,10 @@ let idCounter = 0;
 /** Compiles a vega-lite spec and renders it to SVG text. */
 export async function renderSvg(spec: ChartSpec): Promise<string> {
   const [vl, vega] = await Promise.all([import('vega-lite'), import('vega')]);
-  const compiled = vl.compile({ ...spec, config: { ...chartConfig(), ...(spec.config ?? {}) } } as TopLevelSpec).spec;
+  const compiled = vl.compile({
+    ...spec,
+    config: { ...chartConfig(), ...(spec.config ?? {}) },
+  } as TopLevelSpec).spec;
   // A loader that refuses every external resource: the charts are built from inline data only.
   const loader = vega.loader();
   loader.load = async (uri: string) => {
@@ -52,7 +70,8 @@ export async function renderSvg(spec: ChartSpec): Promise<string> {
   const view = new vega.View(vega.parse(compiled), { renderer: 'none', loader });
   try {
     let svg = await view.toSVG();
-    if (/<script|<foreignObject|\son\w+\s*=|javascript:/i.test(svg)) throw new Error('charts: rendered SVG contains active content');
+    if (/<script|<foreignObject|\son\w+\s*=|javascript:/i.test(svg))
+      throw new Error('charts: rendered SVG contains active content');
     // Give clip paths and gradients ids unique to this chart so many charts can live on one page.
     const prefix = `c${++idCounter}-`;
     svg = svg.replace(/\bid="([^"]+)"/g, `id="${prefix}$1"`).replace(/url\(#([^)]+)\)/g, `url(#${prefix}$1)`);
@@ -75,7 +94,11 @@ function round(v: number, digits = 5): number {
 }
 
 /** Colours of H0, H1, H2 in the diagram charts (also used for the key in the page text). */
-export const DEGREE_COLOURS: readonly string[] = [CATEGORY_COLOURS[6], CATEGORY_COLOURS[0], CATEGORY_COLOURS[1]];
+export const DEGREE_COLOURS: readonly string[] = [
+  CATEGORY_COLOURS[6],
+  CATEGORY_COLOURS[0],
+  CATEGORY_COLOURS[1],
+];
 
 export interface AccuracyRow {
   features: string;
@@ -109,7 +132,12 @@ export function accuracyChart(rows: readonly AccuracyRow[], chance: number): Cha
         encoding: {
           y,
           yOffset: { field: 'model', type: 'nominal' },
-          x: { field: 'low', type: 'quantitative', scale: { domain: [0, 1] }, title: 'cross-validated accuracy (mean ± 1 sd over folds; dashed: chance)' },
+          x: {
+            field: 'low',
+            type: 'quantitative',
+            scale: { domain: [0, 1] },
+            title: 'cross-validated accuracy (mean ± 1 sd over folds; dashed: chance)',
+          },
           x2: { field: 'high' },
           color: { field: 'model', type: 'nominal', title: 'model' },
         },
@@ -129,12 +157,21 @@ export function accuracyChart(rows: readonly AccuracyRow[], chance: number): Cha
 }
 
 /** A confusion matrix as a heat map of row-normalised rates with the counts written in each cell. */
-export function confusionChart(classes: readonly string[], matrix: readonly (readonly number[])[], title: string): ChartSpec {
+export function confusionChart(
+  classes: readonly string[],
+  matrix: readonly (readonly number[])[],
+  title: string,
+): ChartSpec {
   const values: Array<Record<string, unknown>> = [];
   for (let i = 0; i < classes.length; i++) {
     const total = matrix[i].reduce((s, v) => s + v, 0);
     for (let j = 0; j < classes.length; j++) {
-      values.push({ truth: classes[i], predicted: classes[j], count: matrix[i][j], rate: total > 0 ? round(matrix[i][j] / total, 4) : 0 });
+      values.push({
+        truth: classes[i],
+        predicted: classes[j],
+        count: matrix[i][j],
+        rate: total > 0 ? round(matrix[i][j] / total, 4) : 0,
+      });
     }
   }
   const size = Math.max(90, Math.min(220, 48 * classes.length));
@@ -145,7 +182,13 @@ export function confusionChart(classes: readonly string[], matrix: readonly (rea
     height: size,
     data: { values },
     encoding: {
-      x: { field: 'predicted', type: 'nominal', sort: order, title: 'predicted class', axis: { labelAngle: -30, labelLimit: 110 } },
+      x: {
+        field: 'predicted',
+        type: 'nominal',
+        sort: order,
+        title: 'predicted class',
+        axis: { labelAngle: -30, labelLimit: 110 },
+      },
       y: { field: 'truth', type: 'nominal', sort: order, title: 'true class', axis: { labelLimit: 110 } },
     },
     layer: [
@@ -173,12 +216,21 @@ export function confusionChart(classes: readonly string[], matrix: readonly (rea
 
 /** The degree's name in words, for titles. */
 export function degreeName(degree: number): string {
-  return degree === 0 ? 'H0 · connected pieces' : degree === 1 ? 'H1 · loops' : degree === 2 ? 'H2 · voids' : `H${degree}`;
+  return degree === 0
+    ? 'H0 · connected pieces'
+    : degree === 1
+      ? 'H1 · loops'
+      : degree === 2
+        ? 'H2 · voids'
+        : `H${degree}`;
 }
 
 /** A colour scale that gives each class the same colour in every chart of the page. */
 function classColour(classes: readonly string[]): Record<string, unknown> {
-  return { domain: [...classes], range: classes.map((_, i) => CATEGORY_COLOURS[i % CATEGORY_COLOURS.length]) };
+  return {
+    domain: [...classes],
+    range: classes.map((_, i) => CATEGORY_COLOURS[i % CATEGORY_COLOURS.length]),
+  };
 }
 
 /**
@@ -214,7 +266,14 @@ export function meanBandChart(
   return {
     title: { text: degreeName(degree) },
     data: { values },
-    facet: { column: { field: 'layer', type: 'nominal', title: null, header: { labelAnchor: 'start', labelFontWeight: 600 } } },
+    facet: {
+      column: {
+        field: 'layer',
+        type: 'nominal',
+        title: null,
+        header: { labelAnchor: 'start', labelFontWeight: 600 },
+      },
+    },
     resolve: { scale: { y: 'independent' } },
     spacing: 18,
     spec: {
@@ -251,7 +310,12 @@ export interface WeightCurve {
 }
 
 /** A discriminative map for one degree: signed curves on the landscape's own axis, one per layer. */
-export function weightMapChart(degree: number, curves: readonly WeightCurve[], yTitle: string, title?: string): ChartSpec {
+export function weightMapChart(
+  degree: number,
+  curves: readonly WeightCurve[],
+  yTitle: string,
+  title?: string,
+): ChartSpec {
   const layers = [...new Set(curves.filter((c) => c.degree === degree).map((c) => `λ${c.layer}`))];
   const values: Array<Record<string, unknown>> = [];
   for (const c of curves) {
@@ -265,14 +329,31 @@ export function weightMapChart(degree: number, curves: readonly WeightCurve[], y
     height: 170,
     data: { values },
     layer: [
-      { data: { values: [{ zero: 0 }] }, mark: { type: 'rule', color: DIVERGING_COLOURS.zero }, encoding: { y: { field: 'zero', type: 'quantitative' } } },
+      {
+        data: { values: [{ zero: 0 }] },
+        mark: { type: 'rule', color: DIVERGING_COLOURS.zero },
+        encoding: { y: { field: 'zero', type: 'quantitative' } },
+      },
       {
         mark: { type: 'line', strokeWidth: 1.6 },
         encoding: {
           x: { field: 't', type: 'quantitative', title: `filtration scale t (data units) — H${degree}` },
           y: { field: 'value', type: 'quantitative', title: yTitle },
           color: { field: 'layer', type: 'nominal', title: 'layer', scale: classColour(layers) },
-          strokeDash: { field: 'layer', type: 'nominal', title: 'layer', scale: { domain: layers, range: [[1, 0], [6, 3], [2, 2], [8, 3, 2, 3]] } },
+          strokeDash: {
+            field: 'layer',
+            type: 'nominal',
+            title: 'layer',
+            scale: {
+              domain: layers,
+              range: [
+                [1, 0],
+                [6, 3],
+                [2, 2],
+                [8, 3, 2, 3],
+              ],
+            },
+          },
         },
       },
     ],
@@ -287,7 +368,12 @@ export interface ImportanceRow {
 
 /** Permutation importance per group (degree and layer): mean drop in accuracy ± one standard deviation. */
 export function importanceChart(rows: readonly ImportanceRow[], title?: string): ChartSpec {
-  const values = rows.map((r) => ({ group: r.group, mean: round(r.mean), low: round(r.mean - r.std), high: round(r.mean + r.std) }));
+  const values = rows.map((r) => ({
+    group: r.group,
+    mean: round(r.mean),
+    low: round(r.mean - r.std),
+    high: round(r.mean + r.std),
+  }));
   const y = { field: 'group', type: 'nominal', sort: null, title: 'feature group' } as const;
   return {
     ...(title ? { title: { text: title } } : {}),
@@ -295,8 +381,17 @@ export function importanceChart(rows: readonly ImportanceRow[], title?: string):
     height: { step: 20 },
     data: { values },
     layer: [
-      { mark: { type: 'bar', color: CATEGORY_COLOURS[0], opacity: 0.85 }, encoding: { y, x: { field: 'mean', type: 'quantitative', title: 'drop in accuracy when the group is shuffled' } } },
-      { mark: { type: 'rule', color: INK }, encoding: { y, x: { field: 'low', type: 'quantitative' }, x2: { field: 'high' } } },
+      {
+        mark: { type: 'bar', color: CATEGORY_COLOURS[0], opacity: 0.85 },
+        encoding: {
+          y,
+          x: { field: 'mean', type: 'quantitative', title: 'drop in accuracy when the group is shuffled' },
+        },
+      },
+      {
+        mark: { type: 'rule', color: INK },
+        encoding: { y, x: { field: 'low', type: 'quantitative' }, x2: { field: 'high' } },
+      },
     ],
   } as ChartSpec;
 }
@@ -325,7 +420,12 @@ export function diagramChart(diagrams: readonly Diagram[], title: string): Chart
   for (const d of diagrams) {
     for (let i = 0; i < d.births.length; i++) {
       const essential = !Number.isFinite(d.deaths[i]);
-      values.push({ degree: `H${d.degree}`, birth: round(d.births[i]), death: round(essential ? ceiling : d.deaths[i]), kind: essential ? 'essential (∞)' : 'finite' });
+      values.push({
+        degree: `H${d.degree}`,
+        birth: round(d.births[i]),
+        death: round(essential ? ceiling : d.deaths[i]),
+        kind: essential ? 'essential (∞)' : 'finite',
+      });
     }
   }
   const domain = [round(low), round(ceiling)];
@@ -350,8 +450,19 @@ export function diagramChart(diagrams: readonly Diagram[], title: string): Chart
         encoding: {
           x: { field: 'birth', type: 'quantitative', scale: { domain, nice: false }, title: 'birth' },
           y: { field: 'death', type: 'quantitative', scale: { domain, nice: false }, title: 'death' },
-          color: { field: 'degree', type: 'nominal', legend: null, scale: { domain: ['H0', 'H1', 'H2'], range: [...DEGREE_COLOURS] } },
-          shape: { field: 'kind', type: 'nominal', title: null, scale: { domain: ['finite', 'essential (∞)'], range: ['circle', 'triangle-up'] }, legend: null },
+          color: {
+            field: 'degree',
+            type: 'nominal',
+            legend: null,
+            scale: { domain: ['H0', 'H1', 'H2'], range: [...DEGREE_COLOURS] },
+          },
+          shape: {
+            field: 'kind',
+            type: 'nominal',
+            title: null,
+            scale: { domain: ['finite', 'essential (∞)'], range: ['circle', 'triangle-up'] },
+            legend: null,
+          },
         },
       },
     ],

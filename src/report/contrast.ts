@@ -26,7 +26,12 @@ export interface ContrastOptions {
   onProgress?: (done: number, total: number) => void;
 }
 
-export const DEFAULT_CONTRAST_OPTIONS = { degrees: [1], depth: 5, gridCount: 200, ...DEFAULT_PERMUTATION_OPTIONS } as const;
+export const DEFAULT_CONTRAST_OPTIONS = {
+  degrees: [1],
+  depth: 5,
+  gridCount: 200,
+  ...DEFAULT_PERMUTATION_OPTIONS,
+} as const;
 
 export interface ContrastResult {
   classes: string[];
@@ -43,7 +48,13 @@ export function contrastDiagrams(sets: readonly DiagramSet[], options: ContrastO
   const grids = degrees.map((degree) => ({ degree, ...sharedGrid(sets, degree, gridCount, infinite) }));
   const stacks = grids.map((g) => ({
     degree: g.degree,
-    classes: classStacks(sets, g.degree, { start: g.start, stop: g.stop, count: g.count }, depth, infinite).map(({ label, stack }) => ({ label, stack })),
+    classes: classStacks(
+      sets,
+      g.degree,
+      { start: g.start, stop: g.stop, count: g.count },
+      depth,
+      infinite,
+    ).map(({ label, stack }) => ({ label, stack })),
   }));
   const tests = contrastAll(stacks, {
     permutations: options.permutations,
@@ -61,7 +72,14 @@ function num(v: number): number {
 
 /** The JSON contract: {"tests":[{"a","b","degree","statistic","p","pAdjusted"}]} plus provenance fields. */
 export function contrastJson(result: ContrastResult, extra: Record<string, unknown> = {}): string {
-  const tests = result.tests.map((t) => ({ a: t.a, b: t.b, degree: t.degree, statistic: num(t.statistic), p: num(t.p), pAdjusted: num(t.pAdjusted) }));
+  const tests = result.tests.map((t) => ({
+    a: t.a,
+    b: t.b,
+    degree: t.degree,
+    statistic: num(t.statistic),
+    p: num(t.p),
+    pAdjusted: num(t.pAdjusted),
+  }));
   return `${JSON.stringify({ ...extra, classes: result.classes, tests }, null, 2)}\n`;
 }
 
@@ -80,7 +98,11 @@ export function contrastText(result: ContrastResult, permutations: number): stri
     t.pAdjusted <= 0.05 ? 'differ at 5%' : '',
   ]);
   const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
-  const line = (cells: string[]) => cells.map((c, i) => (i >= 3 && i <= 7 ? c.padStart(widths[i]) : c.padEnd(widths[i]))).join('  ').trimEnd();
+  const line = (cells: string[]) =>
+    cells
+      .map((c, i) => (i >= 3 && i <= 7 ? c.padStart(widths[i]) : c.padEnd(widths[i])))
+      .join('  ')
+      .trimEnd();
   const floor = (result.tests.length / (1 + permutations)).toPrecision(2);
   return [
     line(header),

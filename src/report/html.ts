@@ -2,9 +2,9 @@ import type { Diagram } from '../homology/diagram.js';
 import type { SampledBand } from './bands.js';
 import {
   type AccuracyRow,
-  DEGREE_COLOURS,
   accuracyChart,
   confusionChart,
+  DEGREE_COLOURS,
   diagramChart,
   type ImportanceRow,
   importanceChart,
@@ -37,7 +37,12 @@ export interface DatasetReport {
   /** The options of the analysis, as shown to the reader. */
   options: Record<string, unknown>;
   accuracy: ReadonlyArray<AccuracyRow & { balancedAccuracy?: number; macroF1?: number }>;
-  confusions: ReadonlyArray<{ features: string; model: string; classes: readonly string[]; matrix: readonly (readonly number[])[] }>;
+  confusions: ReadonlyArray<{
+    features: string;
+    model: string;
+    classes: readonly string[];
+    matrix: readonly (readonly number[])[];
+  }>;
   /** Per degree: each class's mean landscape with its band (all on one grid). */
   means: ReadonlyArray<{ degree: number; classes: ReadonlyArray<{ label: string; band: SampledBand }> }>;
   contrasts: readonly ContrastTest[];
@@ -68,7 +73,13 @@ export const CAUTION_TEXT =
   '(repeated measurements of one part, one patient, one run). Before these results feed a clinical, safety or quality decision, validate on ' +
   'independent data collected for that purpose and defer to the standards of your field.';
 
-const ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' };
+const ESCAPES: Record<string, string> = {
+  '&': '&amp;',
+  '<': '&lt;',
+  '>': '&gt;',
+  '"': '&quot;',
+  "'": '&#39;',
+};
 
 /** Escapes text for HTML element content and quoted attribute values. */
 export function escapeHtml(text: unknown): string {
@@ -77,7 +88,10 @@ export function escapeHtml(text: unknown): string {
 
 /** A safe fragment id from any text. */
 export function slug(text: string): string {
-  const base = text.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '');
+  const base = text
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, '-')
+    .replace(/^-+|-+$/g, '');
   return base === '' ? 'x' : base;
 }
 
@@ -109,7 +123,9 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
   const pieces: string[] = [];
 
   // Summary and options.
-  const classRows = ds.summary.classes.map((c) => `<tr><td>${escapeHtml(c.label)}</td><td class="num">${c.count}</td></tr>`).join('');
+  const classRows = ds.summary.classes
+    .map((c) => `<tr><td>${escapeHtml(c.label)}</td><td class="num">${c.count}</td></tr>`)
+    .join('');
   const facts = [
     ['sample kind', ds.summary.kind],
     ['samples', String(ds.summary.samples)],
@@ -164,7 +180,13 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
     const charts: string[] = [];
     for (const c of ds.confusions) {
       const svg = await renderSvg(confusionChart(c.classes, c.matrix, `${c.features} · ${c.model}`));
-      charts.push(figure(svg, `Counts pooled over the outer folds; colour is the share of the true class.`, 'confusion'));
+      charts.push(
+        figure(
+          svg,
+          `Counts pooled over the outer folds; colour is the share of the true class.`,
+          'confusion',
+        ),
+      );
     }
     pieces.push(
       part(
@@ -342,7 +364,9 @@ function glance(datasets: readonly DatasetReport[]): string {
 export async function renderReport(input: ReportInput): Promise<string> {
   const sections: string[] = [];
   for (let i = 0; i < input.datasets.length; i++) sections.push(await datasetSection(input.datasets[i], i));
-  const toc = input.datasets.map((d, i) => `<a href="#d${i + 1}-${slug(d.name)}">${escapeHtml(d.name)}</a>`).join('');
+  const toc = input.datasets
+    .map((d, i) => `<a href="#d${i + 1}-${slug(d.name)}">${escapeHtml(d.name)}</a>`)
+    .join('');
   const meta = `landform ${escapeHtml(input.version)} · ${escapeHtml(input.command)}${input.seed === undefined ? '' : ` · seed ${input.seed}`}`;
   return `<!DOCTYPE html>
 <html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">

@@ -23,8 +23,12 @@ export interface FeatureLocation {
  * Groups weights by (degree, layer) and sorts each group by t. Columns whose location is undefined (raw
  * features of a combined set) are skipped.
  */
-export function weightCurves(weights: ArrayLike<number>, locations: ReadonlyArray<FeatureLocation | undefined>): WeightCurve[] {
-  if (weights.length !== locations.length) throw new Error(`weightCurves: ${weights.length} weights for ${locations.length} features`);
+export function weightCurves(
+  weights: ArrayLike<number>,
+  locations: ReadonlyArray<FeatureLocation | undefined>,
+): WeightCurve[] {
+  if (weights.length !== locations.length)
+    throw new Error(`weightCurves: ${weights.length} weights for ${locations.length} features`);
   const groups = new Map<string, { degree: number; layer: number; points: Array<[number, number]> }>();
   for (let j = 0; j < locations.length; j++) {
     const at = locations[j];
@@ -41,7 +45,12 @@ export function weightCurves(weights: ArrayLike<number>, locations: ReadonlyArra
     .sort((a, b) => a.degree - b.degree || a.layer - b.layer)
     .map((g) => {
       g.points.sort((p, q) => p[0] - q[0]);
-      return { degree: g.degree, layer: g.layer, t: Float64Array.from(g.points, (p) => p[0]), value: Float64Array.from(g.points, (p) => p[1]) };
+      return {
+        degree: g.degree,
+        layer: g.layer,
+        t: Float64Array.from(g.points, (p) => p[0]),
+        value: Float64Array.from(g.points, (p) => p[1]),
+      };
     });
 }
 
@@ -53,7 +62,8 @@ export function weightCurves(weights: ArrayLike<number>, locations: ReadonlyArra
 export function combinePairWeights(weights: Matrix): { values: Float64Array; signed: boolean } {
   if (weights.rows === 1) return { values: weights.data.slice(0, weights.cols), signed: true };
   const values = new Float64Array(weights.cols);
-  for (let r = 0; r < weights.rows; r++) for (let j = 0; j < weights.cols; j++) values[j] += weights.data[r * weights.cols + j] ** 2;
+  for (let r = 0; r < weights.rows; r++)
+    for (let j = 0; j < weights.cols; j++) values[j] += weights.data[r * weights.cols + j] ** 2;
   for (let j = 0; j < weights.cols; j++) values[j] = Math.sqrt(values[j] / Math.max(1, weights.rows));
   return { values, signed: false };
 }
@@ -64,7 +74,10 @@ export interface FeatureGroup {
 }
 
 /** Groups the located columns by degree and layer ("H1 λ2"), in degree then layer order. */
-export function groupsByDegreeLayer(locations: ReadonlyArray<FeatureLocation | undefined>, rawName = 'raw features'): FeatureGroup[] {
+export function groupsByDegreeLayer(
+  locations: ReadonlyArray<FeatureLocation | undefined>,
+  rawName = 'raw features',
+): FeatureGroup[] {
   const groups = new Map<string, { degree: number; layer: number; columns: number[] }>();
   const raw: number[] = [];
   locations.forEach((at, j) => {
@@ -102,7 +115,8 @@ function accuracyOf(scores: Matrix, y: Int32Array): number {
   let correct = 0;
   for (let i = 0; i < scores.rows; i++) {
     let best = 0;
-    for (let c = 1; c < scores.cols; c++) if (scores.data[i * scores.cols + c] > scores.data[i * scores.cols + best]) best = c;
+    for (let c = 1; c < scores.cols; c++)
+      if (scores.data[i * scores.cols + c] > scores.data[i * scores.cols + best]) best = c;
     if (best === y[i]) correct++;
   }
   return scores.rows === 0 ? 0 : correct / scores.rows;
@@ -137,7 +151,8 @@ export async function permutationImportance(
       drops.push(baseline - accuracyOf(await model.predictScores(shuffled), y));
     }
     const mean = drops.reduce((s, v) => s + v, 0) / drops.length;
-    const variance = drops.length > 1 ? drops.reduce((s, v) => s + (v - mean) ** 2, 0) / (drops.length - 1) : 0;
+    const variance =
+      drops.length > 1 ? drops.reduce((s, v) => s + (v - mean) ** 2, 0) / (drops.length - 1) : 0;
     out.push({ group: group.name, mean, std: Math.sqrt(variance) });
   }
   return { baseline, groups: out };

@@ -1,17 +1,21 @@
 /** Readable features: class means with bands, permutation tests, discriminative maps, the HTML report, the demo study. */
-export { bandCovers, type BandOptions, DEFAULT_BAND_OPTIONS, multiplierBand, type SampledBand } from './bands.js';
-export { holmAdjust, holmRejects } from './holm.js';
 export {
-  type ContrastTest,
-  contrastAll,
-  DEFAULT_PERMUTATION_OPTIONS,
-  type PermutationOptions,
-  type PermutationResult,
-  permutationTest,
-} from './permutation.js';
-export { type GridSpec, type LandscapeStack, sampledDistance, sampledNorm, stackLandscapes, stackMean } from './stack.js';
-export { type ClassMean, classMeans, type ClassMeansOptions, classStacks, type DegreeMeans, sharedGrid } from './means.js';
-export { type ContrastOptions, type ContrastResult, contrastDiagrams, contrastJson, contrastText } from './contrast.js';
+  type BandOptions,
+  bandCovers,
+  DEFAULT_BAND_OPTIONS,
+  multiplierBand,
+  type SampledBand,
+} from './bands.js';
+export { renderSvg, type WeightCurve } from './charts.js';
+export {
+  type ContrastOptions,
+  type ContrastResult,
+  contrastDiagrams,
+  contrastJson,
+  contrastText,
+} from './contrast.js';
+export { holmAdjust, holmRejects } from './holm.js';
+export { CAUTION_TEXT, type DatasetReport, escapeHtml, type ReportInput, renderReport } from './html.js';
 export {
   combinePairWeights,
   type FeatureGroup,
@@ -20,8 +24,30 @@ export {
   permutationImportance,
   weightCurves,
 } from './importance.js';
-export { CAUTION_TEXT, type DatasetReport, escapeHtml, renderReport, type ReportInput } from './html.js';
-export { renderSvg, type WeightCurve } from './charts.js';
+export {
+  type ClassMean,
+  type ClassMeansOptions,
+  classMeans,
+  classStacks,
+  type DegreeMeans,
+  sharedGrid,
+} from './means.js';
+export {
+  type ContrastTest,
+  contrastAll,
+  DEFAULT_PERMUTATION_OPTIONS,
+  type PermutationOptions,
+  type PermutationResult,
+  permutationTest,
+} from './permutation.js';
+export {
+  type GridSpec,
+  type LandscapeStack,
+  sampledDistance,
+  sampledNorm,
+  stackLandscapes,
+  stackMean,
+} from './stack.js';
 export {
   buildDatasetReport,
   DEMO_DATASETS,

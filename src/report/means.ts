@@ -1,6 +1,13 @@
 import { type DiagramSet, diagramOfDegree, finitePairs, type InfinitePolicy } from '../homology/diagram.js';
 import { classesOf } from '../io/dataset.js';
-import { coveringGrid, type ExactLandscape, exactLandscape, type Grid, meanLandscape, sampleLandscape } from '../landscape/index.js';
+import {
+  coveringGrid,
+  type ExactLandscape,
+  exactLandscape,
+  type Grid,
+  meanLandscape,
+  sampleLandscape,
+} from '../landscape/index.js';
 import { type BandOptions, multiplierBand, type SampledBand } from './bands.js';
 import type { LandscapeStack } from './stack.js';
 
@@ -22,7 +29,12 @@ export interface ClassMeansOptions {
   exact?: boolean;
 }
 
-export const DEFAULT_CLASS_MEANS_OPTIONS = { degrees: [0, 1], depth: 5, gridCount: 100, exact: true } as const;
+export const DEFAULT_CLASS_MEANS_OPTIONS = {
+  degrees: [0, 1],
+  depth: 5,
+  gridCount: 100,
+  exact: true,
+} as const;
 
 export interface ClassMean {
   label: string;
@@ -38,7 +50,12 @@ export interface DegreeMeans {
 }
 
 /** The grid of `count` points spanning the finite pairs of degree `degree` in every set ([0, 1] when there are none). */
-export function sharedGrid(sets: readonly DiagramSet[], degree: number, count: number, infinite: InfinitePolicy = { mode: 'drop' }): Grid {
+export function sharedGrid(
+  sets: readonly DiagramSet[],
+  degree: number,
+  count: number,
+  infinite: InfinitePolicy = { mode: 'drop' },
+): Grid {
   const diagrams = sets.map((s) => finitePairs(diagramOfDegree(s, degree), infinite));
   return coveringGrid(diagrams, count) ?? { start: 0, stop: 1, count };
 }
@@ -56,7 +73,13 @@ export function classStacks(
     const members = sets.filter((s) => s.label === label);
     const values = new Float64Array(members.length * width);
     for (let i = 0; i < members.length; i++) {
-      sampleLandscape(finitePairs(diagramOfDegree(members[i], degree), infinite), grid, depth, values, i * width);
+      sampleLandscape(
+        finitePairs(diagramOfDegree(members[i], degree), infinite),
+        grid,
+        depth,
+        values,
+        i * width,
+      );
     }
     return { label, members, stack: { samples: members.length, depth, grid, values } };
   });
@@ -75,7 +98,13 @@ export function classMeans(sets: readonly DiagramSet[], options: ClassMeansOptio
       samples: stack.samples,
       band: multiplierBand(stack, options.band),
       ...(exact
-        ? { exact: meanLandscape(members.map((m) => exactLandscape(finitePairs(diagramOfDegree(m, degree), infinite), { maxDepth: depth }))) }
+        ? {
+            exact: meanLandscape(
+              members.map((m) =>
+                exactLandscape(finitePairs(diagramOfDegree(m, degree), infinite), { maxDepth: depth }),
+              ),
+            ),
+          }
         : {}),
     }));
     return { degree, grid, classes };

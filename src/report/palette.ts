@@ -4,7 +4,16 @@
  * hue), plus the sequential ramp of the confusion matrices and the font stack (system fonts only, so the
  * page fetches nothing).
  */
-export const CATEGORY_COLOURS: readonly string[] = ['#1f5fa8', '#e08a1b', '#23907f', '#b8437a', '#7463bf', '#8a6a2c', '#4d4d4d', '#5fb0d6'];
+export const CATEGORY_COLOURS: readonly string[] = [
+  '#1f5fa8',
+  '#e08a1b',
+  '#23907f',
+  '#b8437a',
+  '#7463bf',
+  '#8a6a2c',
+  '#4d4d4d',
+  '#5fb0d6',
+];
 
 /** Light to dark, one hue: low counts nearly white, high counts deep blue. */
 export const SEQUENTIAL_RAMP: readonly string[] = ['#f5f7fa', '#c9d9ec', '#7fa6d3', '#2f68ab', '#163c6e'];

@@ -37,16 +37,27 @@ export interface PermutationResult {
   exceed: number;
 }
 
-export function permutationTest(a: LandscapeStack, b: LandscapeStack, options: PermutationOptions = {}): PermutationResult {
+export function permutationTest(
+  a: LandscapeStack,
+  b: LandscapeStack,
+  options: PermutationOptions = {},
+): PermutationResult {
   const permutations = options.permutations ?? DEFAULT_PERMUTATION_OPTIONS.permutations;
   const p = options.p ?? DEFAULT_PERMUTATION_OPTIONS.p;
   const seed = options.seed ?? DEFAULT_PERMUTATION_OPTIONS.seed;
   if (!(p >= 1)) throw new Error(`permutationTest: p ${p} must be ≥ 1`);
-  if (!(Number.isInteger(permutations) && permutations >= 1)) throw new Error(`permutationTest: permutations ${permutations} must be ≥ 1`);
-  if (a.depth !== b.depth || a.grid.count !== b.grid.count || a.grid.start !== b.grid.start || a.grid.stop !== b.grid.stop) {
+  if (!(Number.isInteger(permutations) && permutations >= 1))
+    throw new Error(`permutationTest: permutations ${permutations} must be ≥ 1`);
+  if (
+    a.depth !== b.depth ||
+    a.grid.count !== b.grid.count ||
+    a.grid.start !== b.grid.start ||
+    a.grid.stop !== b.grid.stop
+  ) {
     throw new Error('permutationTest: the two groups are not on the same grid and depth');
   }
-  if (a.samples === 0 || b.samples === 0) throw new Error('permutationTest: each group needs at least one sample');
+  if (a.samples === 0 || b.samples === 0)
+    throw new Error('permutationTest: each group needs at least one sample');
   // The statistic is symmetric in the groups: let group A be the smaller one, whose members are re-summed.
   const [first, second] = a.samples <= b.samples ? [a, b] : [b, a];
   const nA = first.samples;
@@ -62,7 +73,9 @@ export function permutationTest(a: LandscapeStack, b: LandscapeStack, options: P
   const method = options.method ?? 'auto';
   if (method === 'gram' && p !== 2) throw new Error("permutationTest: method 'gram' needs p = 2");
   const useGram = method === 'gram' || (method === 'auto' && p === 2 && nA < width);
-  const score = useGram ? gramScorer(all, total, n, nA, nB, a.depth, a.grid) : directScorer(all, total, nA, nB, a.depth, a.grid, p);
+  const score = useGram
+    ? gramScorer(all, total, n, nA, nB, a.depth, a.grid)
+    : directScorer(all, total, nA, nB, a.depth, a.grid, p);
 
   const indices = new Int32Array(n);
   for (let i = 0; i < n; i++) indices[i] = i;
@@ -81,10 +94,13 @@ export function permutationTest(a: LandscapeStack, b: LandscapeStack, options: P
       indices[j] = t;
     }
     if (score.of(indices) >= threshold) exceed++;
-    if (options.onProgress && ((r + 1) % every === 0 || r + 1 === permutations)) options.onProgress(r + 1, permutations);
+    if (options.onProgress && ((r + 1) % every === 0 || r + 1 === permutations))
+      options.onProgress(r + 1, permutations);
   }
   // The reported statistic is always computed directly from the two means.
-  const statistic = directScorer(all, total, nA, nB, a.depth, a.grid, p).of(Int32Array.from({ length: n }, (_, i) => i));
+  const statistic = directScorer(all, total, nA, nB, a.depth, a.grid, p).of(
+    Int32Array.from({ length: n }, (_, i) => i),
+  );
   return { statistic, p: (1 + exceed) / (1 + permutations), permutations, exceed };
 }
 
@@ -96,7 +112,15 @@ interface Scorer {
 }
 
 /** ‖mean_A − mean_B‖_p by re-summing group A's rows. */
-function directScorer(all: Float64Array, total: Float64Array, nA: number, nB: number, depth: number, grid: LandscapeStack['grid'], p: number): Scorer {
+function directScorer(
+  all: Float64Array,
+  total: Float64Array,
+  nA: number,
+  nB: number,
+  depth: number,
+  grid: LandscapeStack['grid'],
+  p: number,
+): Scorer {
   const width = total.length;
   const sumA = new Float64Array(width);
   const diff = new Float64Array(width);
@@ -120,12 +144,21 @@ function directScorer(all: Float64Array, total: Float64Array, nA: number, nB: nu
  * trapezoid weights, mean_A − mean_B = c·s_A − d·total, so
  *   ‖·‖² = c² Σ_{i,k∈A} G_ik − 2cd Σ_{i∈A} g_i + d² T,   G = X W Xᵀ, g = X W total, T = totalᵀ W total.
  */
-function gramScorer(all: Float64Array, total: Float64Array, n: number, nA: number, nB: number, depth: number, grid: LandscapeStack['grid']): Scorer {
+function gramScorer(
+  all: Float64Array,
+  total: Float64Array,
+  n: number,
+  nA: number,
+  nB: number,
+  depth: number,
+  grid: LandscapeStack['grid'],
+): Scorer {
   const width = total.length;
   const count = grid.count;
   const h = gridStep(grid);
   const w = new Float64Array(width);
-  for (let k = 0; k < depth; k++) for (let j = 0; j < count; j++) w[k * count + j] = (j === 0 || j === count - 1 ? 0.5 : 1) * h;
+  for (let k = 0; k < depth; k++)
+    for (let j = 0; j < count; j++) w[k * count + j] = (j === 0 || j === count - 1 ? 0.5 : 1) * h;
   const gram = new Float64Array(n * n);
   const g = new Float64Array(n);
   let big = 0;
@@ -189,10 +222,15 @@ export function contrastAll(
   options: PermutationOptions = {},
 ): ContrastTest[] {
   const seed = options.seed ?? DEFAULT_PERMUTATION_OPTIONS.seed;
-  const jobs: Array<{ degree: number; a: { label: string; stack: LandscapeStack }; b: { label: string; stack: LandscapeStack } }> = [];
+  const jobs: Array<{
+    degree: number;
+    a: { label: string; stack: LandscapeStack };
+    b: { label: string; stack: LandscapeStack };
+  }> = [];
   for (const d of stacks) {
     for (let i = 0; i < d.classes.length; i++) {
-      for (let j = i + 1; j < d.classes.length; j++) jobs.push({ degree: d.degree, a: d.classes[i], b: d.classes[j] });
+      for (let j = i + 1; j < d.classes.length; j++)
+        jobs.push({ degree: d.degree, a: d.classes[i], b: d.classes[j] });
     }
   }
   const permutations = options.permutations ?? DEFAULT_PERMUTATION_OPTIONS.permutations;
@@ -201,7 +239,9 @@ export function contrastAll(
     permutationTest(job.a.stack, job.b.stack, {
       ...options,
       seed: (seed * 7919 + index * 104729 + 1) >>> 0,
-      onProgress: options.onProgress ? (done) => options.onProgress?.(index * permutations + done, total) : undefined,
+      onProgress: options.onProgress
+        ? (done) => options.onProgress?.(index * permutations + done, total)
+        : undefined,
     }),
   );
   const adjusted = holmAdjust(raw.map((r) => r.p));

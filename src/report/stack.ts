@@ -19,12 +19,17 @@ export interface LandscapeStack {
 }
 
 /** Stacks per-sample value arrays (each depth × grid.count, layer-major) into one block. */
-export function stackLandscapes(rows: ReadonlyArray<ArrayLike<number>>, grid: GridSpec, depth: number): LandscapeStack {
+export function stackLandscapes(
+  rows: ReadonlyArray<ArrayLike<number>>,
+  grid: GridSpec,
+  depth: number,
+): LandscapeStack {
   const width = depth * grid.count;
   const values = new Float64Array(rows.length * width);
   for (let i = 0; i < rows.length; i++) {
     const r = rows[i];
-    if (r.length !== width) throw new Error(`stackLandscapes: row ${i} has ${r.length} values, expected ${width}`);
+    if (r.length !== width)
+      throw new Error(`stackLandscapes: row ${i} has ${r.length} values, expected ${width}`);
     for (let j = 0; j < width; j++) values[i * width + j] = r[j];
   }
   return { samples: rows.length, depth, grid, values };
@@ -93,7 +98,13 @@ export function sampledNorm(values: ArrayLike<number>, depth: number, grid: Grid
 }
 
 /** ‖a − b‖_p for two sampled functions of the same layout (see `sampledNorm`). */
-export function sampledDistance(a: ArrayLike<number>, b: ArrayLike<number>, depth: number, grid: GridSpec, p = 2): number {
+export function sampledDistance(
+  a: ArrayLike<number>,
+  b: ArrayLike<number>,
+  depth: number,
+  grid: GridSpec,
+  p = 2,
+): number {
   const width = depth * grid.count;
   const diff = new Float64Array(width);
   for (let j = 0; j < width; j++) diff[j] = a[j] - b[j];

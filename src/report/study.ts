@@ -1,19 +1,28 @@
 import { resolve } from 'node:path';
 import { packageRoot, version } from '../core/version.js';
 import { FeatureExtractor } from '../features/combined.js';
-import { type LandscapeVectorizerOptions, parseLandscapeFeatureName } from '../features/landscape-vectorizer.js';
+import {
+  type LandscapeVectorizerOptions,
+  parseLandscapeFeatureName,
+} from '../features/landscape-vectorizer.js';
 import type { RawFeaturesOptions } from '../features/raw-features.js';
 import type { DiagramOptions } from '../homology/compute.js';
 import type { DiagramSet, InfinitePolicy } from '../homology/diagram.js';
 import { classesOf, type Dataset, type SampleKind } from '../io/dataset.js';
 import type { Hyperparameters, ModelName } from '../learn/classifier.js';
 import type { EvaluationResult, StudyResult } from '../learn/evaluate.js';
-import type { ModelFactory } from '../learn/select.js';
 import type { Matrix } from '../learn/matrix.js';
+import type { ModelFactory } from '../learn/select.js';
 import type { WeightCurve } from './charts.js';
 import { contrastDiagrams } from './contrast.js';
 import type { DatasetReport, ReportInput } from './html.js';
-import { combinePairWeights, type FeatureLocation, groupsByDegreeLayer, permutationImportance, weightCurves } from './importance.js';
+import {
+  combinePairWeights,
+  type FeatureLocation,
+  groupsByDegreeLayer,
+  permutationImportance,
+  weightCurves,
+} from './importance.js';
 import { classMeans, type DegreeMeans } from './means.js';
 import type { ContrastTest } from './permutation.js';
 
@@ -42,7 +51,15 @@ export interface ReportOptions {
   infinite?: InfinitePolicy;
 }
 
-export const DEFAULT_REPORT_OPTIONS = { depth: 5, gridCount: 100, level: 0.95, draws: 1000, permutations: 999, importanceRepeats: 5, seed: 1 } as const;
+export const DEFAULT_REPORT_OPTIONS = {
+  depth: 5,
+  gridCount: 100,
+  level: 0.95,
+  draws: 1000,
+  permutations: 999,
+  importanceRepeats: 5,
+  seed: 1,
+} as const;
 
 export interface ReportPieces {
   report: DatasetReport;
@@ -69,7 +86,10 @@ export function sampleFacts(dataset: Dataset): Array<[string, string]> {
       facts.push(['values per signal', range(s.map((x) => (x.kind === 'signal' ? x.values.length : 0)))]);
       break;
     case 'image':
-      facts.push(['image shape', [...new Set(s.map((x) => (x.kind === 'image' ? x.shape.join(' × ') : '')))].join(', ')]);
+      facts.push([
+        'image shape',
+        [...new Set(s.map((x) => (x.kind === 'image' ? x.shape.join(' × ') : '')))].join(', '),
+      ]);
       break;
     case 'distances':
       facts.push(['matrix size', range(s.map((x) => (x.kind === 'distances' ? x.size : 0)))]);
@@ -93,7 +113,8 @@ function complement(n: number, test: ArrayLike<number>): Int32Array {
 
 function take(m: Matrix, rows: ArrayLike<number>): Matrix {
   const data = new Float64Array(rows.length * m.cols);
-  for (let k = 0; k < rows.length; k++) data.set(m.data.subarray(rows[k] * m.cols, (rows[k] + 1) * m.cols), k * m.cols);
+  for (let k = 0; k < rows.length; k++)
+    data.set(m.data.subarray(rows[k] * m.cols, (rows[k] + 1) * m.cols), k * m.cols);
   return { rows: rows.length, cols: m.cols, data };
 }
 
@@ -101,8 +122,10 @@ function take(m: Matrix, rows: ArrayLike<number>): Matrix {
 function columnSd(m: Matrix): Float64Array {
   const mean = new Float64Array(m.cols);
   const sd = new Float64Array(m.cols);
-  for (let i = 0; i < m.rows; i++) for (let j = 0; j < m.cols; j++) mean[j] += m.data[i * m.cols + j] / m.rows;
-  for (let i = 0; i < m.rows; i++) for (let j = 0; j < m.cols; j++) sd[j] += (m.data[i * m.cols + j] - mean[j]) ** 2;
+  for (let i = 0; i < m.rows; i++)
+    for (let j = 0; j < m.cols; j++) mean[j] += m.data[i * m.cols + j] / m.rows;
+  for (let i = 0; i < m.rows; i++)
+    for (let j = 0; j < m.cols; j++) sd[j] += (m.data[i * m.cols + j] - mean[j]) ** 2;
   for (let j = 0; j < m.cols; j++) sd[j] = m.rows > 1 ? Math.sqrt(sd[j] / (m.rows - 1)) : 0;
   return sd;
 }
@@ -125,7 +148,8 @@ function interpolate(t: ArrayLike<number>, v: ArrayLike<number>, x: number): num
 
 function best(results: readonly StudyResult[], features: string): StudyResult | undefined {
   let out: StudyResult | undefined;
-  for (const r of results) if (r.features === features && (!out || r.accuracy.mean > out.accuracy.mean)) out = r;
+  for (const r of results)
+    if (r.features === features && (!out || r.accuracy.mean > out.accuracy.mean)) out = r;
   return out;
 }
 
@@ -168,7 +192,9 @@ export async function discriminativeMaps(
     const extractor = new FeatureExtractor('landscape', { landscape: { ...landscape, depth, gridSize } });
     extractor.fit(data, train);
     const x = extractor.transform(data);
-    const locations: Array<FeatureLocation | undefined> = extractor.featureNames().map((n) => parseLandscapeFeatureName(n));
+    const locations: Array<FeatureLocation | undefined> = extractor
+      .featureNames()
+      .map((n) => parseLandscapeFeatureName(n));
     const xTrain = take(x, train);
     const xTest = take(x, fold.test);
     const yTrain = Int32Array.from(train, (i) => y[i]);
@@ -181,21 +207,34 @@ export async function discriminativeMaps(
     const linear = createClassifier('pca-svm', { kernel: 'linear', C }, seed);
     try {
       await linear.fit(xTrain, yTrain, classCount);
-      const lw = (linear as unknown as { linearWeights?: () => { weights: Matrix } | undefined }).linearWeights?.();
+      const lw = (
+        linear as unknown as { linearWeights?: () => { weights: Matrix } | undefined }
+      ).linearWeights?.();
       if (lw) {
         // Standardised weights: w_j × sd_j of the training features, so a feature that is nearly constant
         // (tiny sd, huge raw weight) does not dominate the map (common practice, no source).
         const sd = columnSd(xTrain);
-        const scaled: Matrix = { rows: lw.weights.rows, cols: lw.weights.cols, data: lw.weights.data.slice() };
-        for (let r = 0; r < scaled.rows; r++) for (let j = 0; j < scaled.cols; j++) scaled.data[r * scaled.cols + j] *= sd[j];
+        const scaled: Matrix = {
+          rows: lw.weights.rows,
+          cols: lw.weights.cols,
+          data: lw.weights.data.slice(),
+        };
+        for (let r = 0; r < scaled.rows; r++)
+          for (let j = 0; j < scaled.cols; j++) scaled.data[r * scaled.cols + j] *= sd[j];
         const combined = combinePairWeights(scaled);
         signed = combined.signed;
         for (const curve of weightCurves(combined.values, locations)) {
           const axis = axes.find((a) => a.degree === curve.degree);
           if (!axis) continue;
           const key = `${curve.degree}/${curve.layer}`;
-          const entry = sums.get(key) ?? { degree: curve.degree, layer: curve.layer, t: axis.t, sum: new Float64Array(axis.t.length) };
-          for (let j = 0; j < axis.t.length; j++) entry.sum[j] += interpolate(curve.t, curve.value, axis.t[j]);
+          const entry = sums.get(key) ?? {
+            degree: curve.degree,
+            layer: curve.layer,
+            t: axis.t,
+            sum: new Float64Array(axis.t.length),
+          };
+          for (let j = 0; j < axis.t.length; j++)
+            entry.sum[j] += interpolate(curve.t, curve.value, axis.t[j]);
           sums.set(key, entry);
         }
         weightFolds++;
@@ -208,8 +247,12 @@ export async function discriminativeMaps(
     const model = createClassifier(chosenResult.model as ModelName, chosenModel, seed);
     try {
       await model.fit(xTrain, yTrain, classCount);
-      const result = await permutationImportance(model, xTest, yTest, groupsByDegreeLayer(locations), { repeats: options.repeats, seed });
-      for (const g of result.groups) importanceByGroup.set(g.group, [...(importanceByGroup.get(g.group) ?? []), g.mean]);
+      const result = await permutationImportance(model, xTest, yTest, groupsByDegreeLayer(locations), {
+        repeats: options.repeats,
+        seed,
+      });
+      for (const g of result.groups)
+        importanceByGroup.set(g.group, [...(importanceByGroup.get(g.group) ?? []), g.mean]);
     } finally {
       model.dispose();
     }
@@ -217,10 +260,16 @@ export async function discriminativeMaps(
   const curves: WeightCurve[] = [...sums.values()]
     .sort((a, b) => a.degree - b.degree || a.layer - b.layer)
     .filter((c) => c.layer <= 4)
-    .map((c) => ({ degree: c.degree, layer: c.layer, t: c.t, value: c.sum.map((v) => v / Math.max(1, weightFolds)) }));
+    .map((c) => ({
+      degree: c.degree,
+      layer: c.layer,
+      t: c.t,
+      value: c.sum.map((v) => v / Math.max(1, weightFolds)),
+    }));
   const rows = [...importanceByGroup.entries()].map(([group, drops]) => {
     const mean = drops.reduce((s, v) => s + v, 0) / drops.length;
-    const sd = drops.length > 1 ? Math.sqrt(drops.reduce((s, v) => s + (v - mean) ** 2, 0) / (drops.length - 1)) : 0;
+    const sd =
+      drops.length > 1 ? Math.sqrt(drops.reduce((s, v) => s + (v - mean) ** 2, 0) / (drops.length - 1)) : 0;
     return { group, mean, std: sd };
   });
   const folds = chosenResult.folds.length;
@@ -257,11 +306,19 @@ export function findingsOf(evaluation: EvaluationResult, contrasts: readonly Con
     const l = `landscape features (${land.model}) reach ${pct(land.accuracy.mean)} ± ${pct(land.accuracy.std)}`;
     const r = `the raw baseline (${raw.model}) ${pct(raw.accuracy.mean)} ± ${pct(raw.accuracy.std)}`;
     if (gap >= 0.1 && gap > spread) out.push(`Shape helps here: ${l}, clearly above ${r}.`);
-    else if (gap > 0.02) out.push(`Landscape features are somewhat ahead: ${l} against ${r}; the gap is within about one fold-to-fold spread, so treat it as suggestive.`);
+    else if (gap > 0.02)
+      out.push(
+        `Landscape features are somewhat ahead: ${l} against ${r}; the gap is within about one fold-to-fold spread, so treat it as suggestive.`,
+      );
     else if (gap >= -0.02) out.push(`No gain from shape on this set: ${l} and ${r} perform alike.`);
-    else out.push(`The raw baseline wins on this set: ${r} against ${l}. A plain summary of the data already separates these classes; persistent homology adds nothing here.`);
+    else
+      out.push(
+        `The raw baseline wins on this set: ${r} against ${l}. A plain summary of the data already separates these classes; persistent homology adds nothing here.`,
+      );
   } else if (land) {
-    out.push(`Landscape features (${land.model}) reach ${pct(land.accuracy.mean)} ± ${pct(land.accuracy.std)}.`);
+    out.push(
+      `Landscape features (${land.model}) reach ${pct(land.accuracy.mean)} ± ${pct(land.accuracy.std)}.`,
+    );
   }
   if (combined && land && raw) {
     const top = Math.max(land.accuracy.mean, raw.accuracy.mean);
@@ -275,7 +332,12 @@ export function findingsOf(evaluation: EvaluationResult, contrasts: readonly Con
     const differ = contrasts.filter((t) => t.pAdjusted <= 0.05);
     out.push(
       `${differ.length} of ${contrasts.length} class-pair × degree contrasts show different mean landscapes at the 5% level after Holm's correction` +
-        (differ.length > 0 ? ` (${differ.slice(0, 4).map((t) => `H${t.degree} ${t.a} vs ${t.b}`).join('; ')}${differ.length > 4 ? '; …' : ''}).` : '.'),
+        (differ.length > 0
+          ? ` (${differ
+              .slice(0, 4)
+              .map((t) => `H${t.degree} ${t.a} vs ${t.b}`)
+              .join('; ')}${differ.length > 4 ? '; …' : ''}).`
+          : '.'),
     );
   }
   return out;
@@ -301,21 +363,38 @@ export async function buildDatasetReport(
   const o = { ...DEFAULT_REPORT_OPTIONS, ...options };
   const degrees = options.degrees ?? input.landscape.degrees ?? [0, 1];
   const infinite = options.infinite ?? input.landscape.infinite ?? { mode: 'drop' as const };
-  const means = !shaped ? [] : classMeans(diagrams, {
-    degrees,
-    depth: o.depth,
-    gridCount: o.gridCount,
-    infinite,
-    exact: false,
-    band: { level: o.level, draws: o.draws, seed: o.seed },
-  });
-  const contrast = !shaped ? { tests: [] as ContrastTest[] } : contrastDiagrams(diagrams, { degrees, depth: o.depth, gridCount: o.gridCount, permutations: o.permutations, seed: o.seed, infinite });
+  const means = !shaped
+    ? []
+    : classMeans(diagrams, {
+        degrees,
+        depth: o.depth,
+        gridCount: o.gridCount,
+        infinite,
+        exact: false,
+        band: { level: o.level, draws: o.draws, seed: o.seed },
+      });
+  const contrast = !shaped
+    ? { tests: [] as ContrastTest[] }
+    : contrastDiagrams(diagrams, {
+        degrees,
+        depth: o.depth,
+        gridCount: o.gridCount,
+        permutations: o.permutations,
+        seed: o.seed,
+        infinite,
+      });
   const axes = means.map((m) => {
     const t = new Float64Array(m.grid.count);
-    for (let j = 0; j < m.grid.count; j++) t[j] = m.grid.start + (j * (m.grid.stop - m.grid.start)) / (m.grid.count - 1);
+    for (let j = 0; j < m.grid.count; j++)
+      t[j] = m.grid.start + (j * (m.grid.stop - m.grid.start)) / (m.grid.count - 1);
     return { degree: m.degree, t };
   });
-  const maps = !shaped ? undefined : await discriminativeMaps(diagrams, dataset.samples, evaluation, input.landscape, axes, { repeats: o.importanceRepeats, seed: o.seed });
+  const maps = !shaped
+    ? undefined
+    : await discriminativeMaps(diagrams, dataset.samples, evaluation, input.landscape, axes, {
+        repeats: o.importanceRepeats,
+        seed: o.seed,
+      });
   const classes = classesOf(dataset.samples);
   const examples = !shaped
     ? []
@@ -329,7 +408,10 @@ export async function buildDatasetReport(
     summary: {
       kind: dataset.kind,
       samples: dataset.samples.length,
-      classes: classes.map((label) => ({ label, count: dataset.samples.filter((s) => s.label === label).length })),
+      classes: classes.map((label) => ({
+        label,
+        count: dataset.samples.filter((s) => s.label === label).length,
+      })),
       facts: sampleFacts(dataset),
     },
     options: {
@@ -352,8 +434,16 @@ export async function buildDatasetReport(
       balancedAccuracy: r.balancedAccuracy.mean,
       macroF1: r.macroF1.mean,
     })),
-    confusions: evaluation.results.map((r) => ({ features: r.features, model: r.model, classes: evaluation.classes, matrix: r.confusion as unknown as number[][] })),
-    means: means.map((m) => ({ degree: m.degree, classes: m.classes.map((c) => ({ label: c.label, band: c.band })) })),
+    confusions: evaluation.results.map((r) => ({
+      features: r.features,
+      model: r.model,
+      classes: evaluation.classes,
+      matrix: r.confusion as unknown as number[][],
+    })),
+    means: means.map((m) => ({
+      degree: m.degree,
+      classes: m.classes.map((c) => ({ label: c.label, band: c.band })),
+    })),
     contrasts: contrast.tests,
     contrastNote: `${o.permutations} permutations per test, L2 distance between sampled means (depth ${o.depth}); with ${contrast.tests.length} tests the smallest possible adjusted p is ${(contrast.tests.length / (o.permutations + 1)).toPrecision(2)}.`,
     ...(maps ? { maps } : {}),
@@ -375,7 +465,11 @@ export async function evaluationReportHtml(
   options: ReportOptions = {},
 ): Promise<string> {
   const { renderReport } = await import('./html.js');
-  const name = input.split(/[\\/]/).filter((p) => p !== '').pop() ?? input;
+  const name =
+    input
+      .split(/[\\/]/)
+      .filter((p) => p !== '')
+      .pop() ?? input;
   const pieces = await buildDatasetReport(
     {
       name,
@@ -478,7 +572,11 @@ export interface DemoResult {
 export function demoSettings(quick: boolean): { folds: number; models: ModelName[]; report: ReportOptions } {
   return quick
     ? { folds: 3, models: ['pca-svm'], report: { permutations: 199, draws: 300, importanceRepeats: 2 } }
-    : { folds: 5, models: ['pca-svm', 'dense'], report: { permutations: 999, draws: 1000, importanceRepeats: 5 } };
+    : {
+        folds: 5,
+        models: ['pca-svm', 'dense'],
+        report: { permutations: 999, draws: 1000, importanceRepeats: 5 },
+      };
 }
 
 /**
@@ -535,7 +633,10 @@ export async function runDemo(options: DemoOptions = {}): Promise<DemoResult> {
       options.onProgress?.(Math.round(100 * i + from + ((to - from) * done) / Math.max(1, of)), total);
     const loaded = await loadDataset(resolve(packageRoot(), spec.path), spec.kind ? { kind: spec.kind } : {});
     const dataset: Dataset = { ...loaded, source: spec.path };
-    const diagrams = await computeDiagramsParallel(dataset.samples, spec.diagram, { workers: options.workers, onProgress: at(0, 20) });
+    const diagrams = await computeDiagramsParallel(dataset.samples, spec.diagram, {
+      workers: options.workers,
+      onProgress: at(0, 20),
+    });
     const evaluation = await runEvaluation(dataset, {
       diagrams,
       folds: settings.folds,
@@ -545,11 +646,23 @@ export async function runDemo(options: DemoOptions = {}): Promise<DemoResult> {
       landscape: spec.landscape,
       landscapeCandidates: spec.landscapeCandidates,
       ...(spec.raw ? { raw: spec.raw } : {}),
-      record: { diagrams: spec.diagram, modelCandidates: 'demo grid: pca-svm linear C=1 and rbf C=10 γ=1/features; dense its first default candidate' },
+      record: {
+        diagrams: spec.diagram,
+        modelCandidates:
+          'demo grid: pca-svm linear C=1 and rbf C=10 γ=1/features; dense its first default candidate',
+      },
       onProgress: at(20, 85),
     });
     const pieces = await buildDatasetReport(
-      { name: spec.name, description: spec.description, dataset, diagrams, evaluation, landscape: spec.landscape, diagramOptions: spec.diagram },
+      {
+        name: spec.name,
+        description: spec.description,
+        dataset,
+        diagrams,
+        evaluation,
+        landscape: spec.landscape,
+        diagramOptions: spec.diagram,
+      },
       { ...settings.report, seed },
     );
     at(85, 100)(1, 1);
@@ -612,5 +725,12 @@ export function accuracyTable(outcomes: readonly DemoDatasetOutcome[]): string {
     }),
   ]);
   const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
-  return [header, ...rows].map((r) => r.map((c, i) => c.padEnd(widths[i])).join('  ').trimEnd()).join('\n');
+  return [header, ...rows]
+    .map((r) =>
+      r
+        .map((c, i) => c.padEnd(widths[i]))
+        .join('  ')
+        .trimEnd(),
+    )
+    .join('\n');
 }

@@ -54,14 +54,17 @@ describe('landform contrast', () => {
       expect(t.p as number).toBeGreaterThanOrEqual(1 / 200);
       expect(t.pAdjusted as number).toBeGreaterThanOrEqual(t.p as number);
     }
-    const h1 = (a: string, b: string) => json.tests.find((t) => t.degree === 1 && t.a === a && t.b === b) as Record<string, number>;
+    const h1 = (a: string, b: string) =>
+      json.tests.find((t) => t.degree === 1 && t.a === a && t.b === b) as Record<string, number>;
     // The big class differs clearly in H1; Holm over 6 tests (Holm 1979) multiplies the smallest p by 6.
     expect(h1('big', 'small').pAdjusted).toBeLessThan(0.05);
     expect(h1('also-small', 'big').pAdjusted).toBeLessThan(0.05);
     // Same distribution: no evidence of a difference (a loose check, common practice, no source).
     expect(h1('also-small', 'small').p).toBeGreaterThan(0.01);
     // Same seed, same output.
-    expect(runCli(['contrast', file, '--degrees', '0,1', '--permutations', '199', '--seed', '3']).stdout).toBe(result.stdout);
+    expect(
+      runCli(['contrast', file, '--degrees', '0,1', '--permutations', '199', '--seed', '3']).stdout,
+    ).toBe(result.stdout);
   });
 
   it('prints a text table and writes to --out atomically', () => {
@@ -81,7 +84,9 @@ describe('landform contrast', () => {
         for (let p = 0; p < 24; p++) {
           const a = random.uniform(0, 2 * Math.PI);
           const r = label === 'circle' ? 1 + random.normal(0, 0.03) : Math.sqrt(random.next()) * 0.6;
-          lines.push(`${label}-${i},${label},${(r * Math.cos(a)).toFixed(4)},${(r * Math.sin(a)).toFixed(4)}`);
+          lines.push(
+            `${label}-${i},${label},${(r * Math.cos(a)).toFixed(4)},${(r * Math.sin(a)).toFixed(4)}`,
+          );
         }
       }
     }
@@ -101,7 +106,9 @@ describe('landform contrast', () => {
     writeFileSync(one, 'sample,label,degree,birth,death\na,x,1,0,1\nb,x,1,0,2\n');
     const single = runCli(['contrast', one]);
     expect(single.code).toBe(2);
-    expect(single.stderr).toMatch(/^landform: .*one\.csv: found 1 class; contrast needs samples of at least two labelled classes\n$/);
+    expect(single.stderr).toMatch(
+      /^landform: .*one\.csv: found 1 class; contrast needs samples of at least two labelled classes\n$/,
+    );
     const format = runCli(['contrast', file, '--format', 'xml']);
     expect(format.code).toBe(2);
     expect(format.stderr).toBe("landform: --format 'xml' is not known; choose from json, text\n");

@@ -10,7 +10,16 @@ interface Metrics {
   quick: boolean;
   datasets: Array<{
     name: string;
-    metrics: { classes: string[]; folds: number; results: Array<{ features: string; model: string; accuracy: { mean: number; std: number }; confusion: number[][] }> };
+    metrics: {
+      classes: string[];
+      folds: number;
+      results: Array<{
+        features: string;
+        model: string;
+        accuracy: { mean: number; std: number };
+        confusion: number[][];
+      }>;
+    };
     contrasts: Array<{ a: string; b: string; degree: number; p: number; pAdjusted: number }>;
   }>;
 }
@@ -33,7 +42,9 @@ describe('landform demo', () => {
     for (const d of metrics.datasets) {
       expect(d.metrics.classes.length).toBe(3);
       expect(d.metrics.folds).toBe(3);
-      expect(new Set(d.metrics.results.map((r) => r.features))).toEqual(new Set(['landscape', 'raw', 'combined']));
+      expect(new Set(d.metrics.results.map((r) => r.features))).toEqual(
+        new Set(['landscape', 'raw', 'combined']),
+      );
       // Every sample is predicted once: the pooled confusion matrix counts all 75 samples.
       for (const r of d.metrics.results) expect(r.confusion.flat().reduce((s, v) => s + v, 0)).toBe(75);
       expect(d.contrasts.length).toBeGreaterThan(0);

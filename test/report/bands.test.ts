@@ -9,7 +9,12 @@ import { type GridSpec, stackLandscapes, stackMean } from '../../src/report/stac
  * max(0, min(t − b, d − t)). Written here independently of src/landscape so the band is checked against the
  * definition, not against our own landscape code.
  */
-function landscapeByDefinition(births: number[], deaths: number[], grid: GridSpec, depth: number): Float64Array {
+function landscapeByDefinition(
+  births: number[],
+  deaths: number[],
+  grid: GridSpec,
+  depth: number,
+): Float64Array {
   const out = new Float64Array(depth * grid.count);
   const step = (grid.stop - grid.start) / (grid.count - 1);
   for (let j = 0; j < grid.count; j++) {
@@ -86,7 +91,9 @@ describe('multiplierBand', () => {
     const narrow = multiplierBand(sampleStack(new Random(11), 50), { draws: 400, level: 0.5 });
     expect(narrow.halfWidth[0]).toBeLessThan(small.halfWidth[0]);
     const joint = multiplierBand(sampleStack(new Random(11), 50), { draws: 400, scope: 'all' });
-    expect(joint.halfWidth[0]).toBeGreaterThanOrEqual(Math.max(small.halfWidth[0], small.halfWidth[1]) * 0.95);
+    expect(joint.halfWidth[0]).toBeGreaterThanOrEqual(
+      Math.max(small.halfWidth[0], small.halfWidth[1]) * 0.95,
+    );
   });
 
   it('is reproducible from its seed and keeps the lower edge at or above zero', () => {

@@ -32,7 +32,10 @@ async function buildReport(): Promise<{ html: string; dataset: DatasetReport }> 
   const depth = 3;
   const labels = ['ring', 'disc', HOSTILE];
   const means: DatasetReport['means'][number][] = [];
-  const stacksByDegree: Array<{ degree: number; classes: Array<{ label: string; stack: ReturnType<typeof stackLandscapes> }> }> = [];
+  const stacksByDegree: Array<{
+    degree: number;
+    classes: Array<{ label: string; stack: ReturnType<typeof stackLandscapes> }>;
+  }> = [];
   const examples: DatasetReport['examples'][number][] = [];
   for (const degree of [0, 1]) {
     const classes = labels.map((label, c) => {
@@ -43,7 +46,12 @@ async function buildReport(): Promise<{ html: string; dataset: DatasetReport }> 
           const b = random.uniform(0, 0.8);
           pairs.push([b, b + random.uniform(0.2, 0.6) * (1 + c * 0.5)]);
         }
-        if (degree === 1 && i === 0) examples.push({ label, sample: `${label}-${i}`, diagrams: [makeDiagram(0, [...pairs, [0, Infinity]]), makeDiagram(1, pairs.slice(0, 2))] });
+        if (degree === 1 && i === 0)
+          examples.push({
+            label,
+            sample: `${label}-${i}`,
+            diagrams: [makeDiagram(0, [...pairs, [0, Infinity]]), makeDiagram(1, pairs.slice(0, 2))],
+          });
         const out = new Float64Array(depth * grid.count);
         for (let j = 0; j < grid.count; j++) {
           const t = grid.start + (j * (grid.stop - grid.start)) / (grid.count - 1);
@@ -55,7 +63,10 @@ async function buildReport(): Promise<{ html: string; dataset: DatasetReport }> 
       return { label, stack: stackLandscapes(rows, grid, depth) };
     });
     stacksByDegree.push({ degree, classes });
-    means.push({ degree, classes: classes.map((c) => ({ label: c.label, band: multiplierBand(c.stack, { draws: 200 }) })) });
+    means.push({
+      degree,
+      classes: classes.map((c) => ({ label: c.label, band: multiplierBand(c.stack, { draws: 200 }) })),
+    });
   }
   const contrasts = contrastAll(stacksByDegree, { permutations: 99 });
   const t = Array.from({ length: 40 }, (_, j) => (j * 2.5) / 39);
@@ -71,23 +82,56 @@ async function buildReport(): Promise<{ html: string; dataset: DatasetReport }> 
       { features: 'raw', model: 'dense', mean: 0.55, std: 0.12 },
     ],
     confusions: [
-      { features: 'landscape', model: 'pca-svm', classes: labels, matrix: [[18, 2, 0], [1, 19, 0], [0, 3, 17]] },
-      { features: 'raw', model: 'pca-svm', classes: labels, matrix: [[12, 6, 2], [5, 11, 4], [3, 4, 13]] },
+      {
+        features: 'landscape',
+        model: 'pca-svm',
+        classes: labels,
+        matrix: [
+          [18, 2, 0],
+          [1, 19, 0],
+          [0, 3, 17],
+        ],
+      },
+      {
+        features: 'raw',
+        model: 'pca-svm',
+        classes: labels,
+        matrix: [
+          [12, 6, 2],
+          [5, 11, 4],
+          [3, 4, 13],
+        ],
+      },
     ],
     means,
     contrasts,
     contrastNote: '99 permutations, L2 distance.',
     maps: {
       weights: {
-        curves: [0, 1].flatMap((degree) => [1, 2].map((layer) => ({ degree, layer, t, value: t.map((x) => Math.sin(x * layer + degree)) }))),
+        curves: [0, 1].flatMap((degree) =>
+          [1, 2].map((layer) => ({ degree, layer, t, value: t.map((x) => Math.sin(x * layer + degree)) })),
+        ),
         note: 'Linear weights.',
       },
-      importance: { rows: [{ group: 'H0 λ1', mean: 0.1, std: 0.02 }, { group: 'H1 λ1', mean: 0.3, std: 0.05 }], note: 'Permutation importance.' },
+      importance: {
+        rows: [
+          { group: 'H0 λ1', mean: 0.1, std: 0.02 },
+          { group: 'H1 λ1', mean: 0.3, std: 0.05 },
+        ],
+        note: 'Permutation importance.',
+      },
     },
     examples,
     findings: [`The class ${HOSTILE} is the most spread out.`],
   };
-  const html = await renderReport({ title: 'Report test', lead: 'Charts from data made in the test.', version: '0.0.0', command: 'test', seed: 1, datasets: [dataset] });
+  const html = await renderReport({
+    title: 'Report test',
+    lead: 'Charts from data made in the test.',
+    version: '0.0.0',
+    command: 'test',
+    seed: 1,
+    datasets: [dataset],
+  });
   return { html, dataset };
 }
 
@@ -119,7 +163,15 @@ describe('renderReport', () => {
       executablePath: '/usr/bin/chromium',
       headless: true,
       viewport: { width: 1280, height: 800 },
-      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+      args: [
+        '--no-sandbox',
+        '--disable-gpu',
+        '--disable-quic',
+        '--no-first-run',
+        '--disable-background-networking',
+        '--disable-component-update',
+        '--disable-sync',
+      ],
     });
     const foreign: string[] = [];
     const errors: string[] = [];

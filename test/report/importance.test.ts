@@ -1,7 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
 import type { Matrix } from '../../src/learn/matrix.js';
-import { combinePairWeights, groupsByDegreeLayer, permutationImportance, weightCurves } from '../../src/report/importance.js';
+import {
+  combinePairWeights,
+  groupsByDegreeLayer,
+  permutationImportance,
+  weightCurves,
+} from '../../src/report/importance.js';
 
 const locations = [
   { degree: 1, layer: 1, t: 0.5 },
@@ -21,7 +26,9 @@ describe('weightCurves', () => {
     ]);
   });
   it('keeps signs for one pair and takes the root mean square over several', () => {
-    expect(Array.from(combinePairWeights({ rows: 1, cols: 2, data: Float64Array.of(-1, 2) }).values)).toEqual([-1, 2]);
+    expect(Array.from(combinePairWeights({ rows: 1, cols: 2, data: Float64Array.of(-1, 2) }).values)).toEqual(
+      [-1, 2],
+    );
     const several = combinePairWeights({ rows: 2, cols: 2, data: Float64Array.of(3, 0, -4, 2) });
     expect(several.signed).toBe(false);
     expect(several.values[0]).toBeCloseTo(Math.sqrt(12.5), 12);

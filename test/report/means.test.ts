@@ -45,7 +45,10 @@ describe('classMeans', () => {
       expect(c.samples).toBe(12);
       for (let k = 1; k <= 3; k++) {
         for (let j = 0; j < t.length; j++) {
-          expect(c.band.mean[(k - 1) * t.length + j]).toBeCloseTo(c.exact ? evaluate(c.exact, k, t[j]) : Number.NaN, 10);
+          expect(c.band.mean[(k - 1) * t.length + j]).toBeCloseTo(
+            c.exact ? evaluate(c.exact, k, t[j]) : Number.NaN,
+            10,
+          );
         }
       }
     }

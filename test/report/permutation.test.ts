@@ -43,12 +43,15 @@ describe('permutationTest', () => {
     ps.sort((x, y) => x - y);
     // Kolmogorov–Smirnov distance to the uniform law on [0, 1].
     let ks = 0;
-    for (let i = 0; i < runs; i++) ks = Math.max(ks, Math.abs((i + 1) / runs - ps[i]), Math.abs(i / runs - ps[i]));
+    for (let i = 0; i < runs; i++)
+      ks = Math.max(ks, Math.abs((i + 1) / runs - ps[i]), Math.abs(i / runs - ps[i]));
     // Loose bound: the KS critical value at α = 0.001 for 200 draws is 1.95/√200 ≈ 0.138 (Smirnov's
     // asymptotic distribution, from memory), plus 0.01 for the p-value grid of 1/100.
     expect(ks).toBeLessThan(0.15);
     // Valid at 5%: at most about 5% + 3 binomial standard errors of the null p-values fall at or below 0.05.
-    expect(ps.filter((p) => p <= 0.05).length / runs).toBeLessThan(0.05 + 3 * Math.sqrt((0.05 * 0.95) / runs));
+    expect(ps.filter((p) => p <= 0.05).length / runs).toBeLessThan(
+      0.05 + 3 * Math.sqrt((0.05 * 0.95) / runs),
+    );
   });
 
   it('gives the smallest possible p-value under a clear difference', () => {
@@ -74,7 +77,10 @@ describe('permutationTest', () => {
       diff[j] = sa / 5 - sb / 4;
     }
     for (const p of [1, 2, 3, Infinity]) {
-      expect(permutationTest(a, b, { permutations: 9, p }).statistic).toBeCloseTo(sampledNorm(diff, depth, grid, p), 12);
+      expect(permutationTest(a, b, { permutations: 9, p }).statistic).toBeCloseTo(
+        sampledNorm(diff, depth, grid, p),
+        12,
+      );
     }
   });
 
@@ -90,7 +96,9 @@ describe('permutationTest', () => {
       expect(gram.exceed).toBe(direct.exceed);
       expect(gram.statistic).toBe(direct.statistic);
     }
-    expect(() => permutationTest(group(random, 3, 1), group(random, 3, 1), { method: 'gram', p: 1 })).toThrow(/needs p = 2/);
+    expect(() => permutationTest(group(random, 3, 1), group(random, 3, 1), { method: 'gram', p: 1 })).toThrow(
+      /needs p = 2/,
+    );
   });
 
   it('counts the observed labelling among the permutations', () => {
@@ -116,7 +124,14 @@ describe('contrastAll', () => {
       ],
       { permutations: 999 },
     );
-    expect(tests.map((t) => `${t.degree}:${t.a}-${t.b}`)).toEqual(['0:a-b', '0:a-c', '0:b-c', '1:a-b', '1:a-c', '1:b-c']);
+    expect(tests.map((t) => `${t.degree}:${t.a}-${t.b}`)).toEqual([
+      '0:a-b',
+      '0:a-c',
+      '0:b-c',
+      '1:a-b',
+      '1:a-c',
+      '1:b-c',
+    ]);
     // Holm 1979: the smallest p-value is multiplied by the family size (6 here).
     const smallest = tests.reduce((m, t) => (t.p < m.p ? t : m));
     expect(smallest.pAdjusted).toBeCloseTo(Math.min(1, 6 * smallest.p), 12);

@@ -48,7 +48,10 @@ describe('buildDatasetReport', () => {
       { label: 'disc', count: 10 },
       { label: 'ring', count: 10 },
     ]);
-    expect(report.accuracy.map((a) => `${a.features}/${a.model}`)).toEqual(['landscape/pca-svm', 'raw/pca-svm']);
+    expect(report.accuracy.map((a) => `${a.features}/${a.model}`)).toEqual([
+      'landscape/pca-svm',
+      'raw/pca-svm',
+    ]);
     expect(report.confusions[0].matrix.flat().reduce((s, v) => s + v, 0)).toBe(20);
     expect(report.examples.map((e) => e.label)).toEqual(['disc', 'ring']);
     // A round loop of radius 1 has one long H1 bar (Adamaszek & Adams, "The Vietoris–Rips complexes of a
@@ -73,8 +76,16 @@ describe('buildDatasetReport', () => {
 describe('findingsOf', () => {
   const summary = (mean: number, std: number) => ({ mean, std, values: [] as number[] });
   const result = (features: string, mean: number, std = 0.05) =>
-    ({ features, model: 'pca-svm', accuracy: summary(mean, std), balancedAccuracy: summary(mean, std), macroF1: summary(mean, std), folds: [] }) as never;
-  const evaluation = (land: number, raw: number) => ({ results: [result('landscape', land), result('raw', raw)] }) as never;
+    ({
+      features,
+      model: 'pca-svm',
+      accuracy: summary(mean, std),
+      balancedAccuracy: summary(mean, std),
+      macroF1: summary(mean, std),
+      folds: [],
+    }) as never;
+  const evaluation = (land: number, raw: number) =>
+    ({ results: [result('landscape', land), result('raw', raw)] }) as never;
   it('says plainly when the raw baseline wins and when shape clearly helps', () => {
     expect(findingsOf(evaluation(0.6, 0.8), [])[0]).toMatch(/^The raw baseline wins on this set/);
     expect(findingsOf(evaluation(0.95, 0.6), [])[0]).toMatch(/^Shape helps here/);
@@ -87,7 +98,11 @@ describe('demoMetricsJson and accuracyTable', () => {
     const outcome = {
       spec: { name: 'set-a', path: 'datasets/a.csv' },
       evaluation: { results: [result2('landscape', 0.9), result2('raw', 0.5)] },
-      pieces: { contrasts: [{ a: 'x', b: 'y', degree: 1, statistic: 0.123456789, p: 0.001, pAdjusted: 0.003, sizes: [5, 5] }] },
+      pieces: {
+        contrasts: [
+          { a: 'x', b: 'y', degree: 1, statistic: 0.123456789, p: 0.001, pAdjusted: 0.003, sizes: [5, 5] },
+        ],
+      },
     } as never;
     const json = JSON.parse(demoMetricsJson([outcome], 7, true, () => '{"classes":["x","y"]}')) as {
       seed: number;
@@ -98,7 +113,9 @@ describe('demoMetricsJson and accuracyTable', () => {
     expect(json.datasets[0].metrics).toEqual({ classes: ['x', 'y'] });
     expect(json.datasets[0].contrasts[0].statistic).toBe(0.123457);
     const table = accuracyTable([outcome]).split('\n');
-    expect(table[0]).toMatch(/^dataset\s+landscape \(best model\)\s+raw \(best model\)\s+combined \(best model\)$/);
+    expect(table[0]).toMatch(
+      /^dataset\s+landscape \(best model\)\s+raw \(best model\)\s+combined \(best model\)$/,
+    );
     expect(table[1]).toMatch(/^set-a\s+0\.90 ± 0\.05 pca-svm\s+0\.50 ± 0\.05 pca-svm\s+—$/);
   });
 });

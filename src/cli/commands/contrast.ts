@@ -1,8 +1,8 @@
 import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
 import { provenance } from '../../core/version.js';
-import type { DiagramSet } from '../../homology/diagram.js';
 import type { DiagramOptions } from '../../homology/compute.js';
+import type { DiagramSet } from '../../homology/diagram.js';
 import type { Metric } from '../../homology/metric.js';
 import type { Dataset } from '../../io/dataset.js';
 import {
@@ -42,7 +42,8 @@ export function parsePOption(text: string): number {
 /** `DIM:DELAY` or `DIM:DELAY:STRIDE` → a delay embedding. */
 export function parseEmbedOption(text: string): { dimension: number; delay: number; stride?: number } {
   const parts = text.split(':');
-  if (parts.length < 2 || parts.length > 3) throw new UserError(`--embed '${text}' must look like DIM:DELAY or DIM:DELAY:STRIDE, e.g. 3:8`);
+  if (parts.length < 2 || parts.length > 3)
+    throw new UserError(`--embed '${text}' must look like DIM:DELAY or DIM:DELAY:STRIDE, e.g. 3:8`);
   const dimension = parseIntegerOption(parts[0], '--embed DIM', 1, 64);
   const delay = parseIntegerOption(parts[1], '--embed DELAY', 1);
   const stride = parts.length === 3 ? parseIntegerOption(parts[2], '--embed STRIDE', 1) : undefined;
@@ -56,12 +57,19 @@ export async function diagramsOfDataset(
   run: { workers?: number; onProgress?: (done: number, total: number) => void } = {},
 ): Promise<DiagramSet[]> {
   if (dataset.kind === 'table') {
-    throw new UserError('a table dataset has feature columns but no shape; contrast needs point clouds, signals, images, distances or diagrams', {
-      file: dataset.source,
-    });
+    throw new UserError(
+      'a table dataset has feature columns but no shape; contrast needs point clouds, signals, images, distances or diagrams',
+      {
+        file: dataset.source,
+      },
+    );
   }
   if (dataset.kind === 'diagrams') {
-    return dataset.samples.map((s) => ({ sample: s.id, label: s.label, diagrams: s.kind === 'diagrams' ? s.diagrams : [] }));
+    return dataset.samples.map((s) => ({
+      sample: s.id,
+      label: s.label,
+      diagrams: s.kind === 'diagrams' ? s.diagrams : [],
+    }));
   }
   const { computeDiagramsParallel } = await import('../../homology/parallel.js');
   return computeDiagramsParallel(dataset.samples, options, run);
@@ -70,7 +78,9 @@ export async function diagramsOfDataset(
 export function defineContrast(program: Command): Command {
   return program
     .command('contrast')
-    .description('test, for every pair of classes and degree, whether their mean landscapes differ (permutation test, Holm-corrected)')
+    .description(
+      'test, for every pair of classes and degree, whether their mean landscapes differ (permutation test, Holm-corrected)',
+    )
     .argument('<dataset>', 'samples file or folder (points, distances, signals, images or diagrams)')
     .option('--kind <kind>', 'sample kind instead of detecting it')
     .option('--degrees <list>', 'homology degrees to compare', '1')
@@ -101,31 +111,55 @@ export function defineContrast(program: Command): Command {
       const p = parsePOption(flags.p);
       const format = parseChoiceOption(flags.format, '--format', ['json', 'text'] as const);
       const infinite = parseInfiniteOption(flags.infinite);
-      const workers = flags.workers === undefined ? undefined : parseIntegerOption(flags.workers, '--workers', 1, 256);
+      const workers =
+        flags.workers === undefined ? undefined : parseIntegerOption(flags.workers, '--workers', 1, 256);
       const diagramOptions: DiagramOptions = {
         degrees,
-        ...(flags.maxScale === undefined ? {} : { maxScale: parseNumberOption(flags.maxScale, '--max-scale', { positive: true }) }),
-        ...(flags.metric === undefined ? {} : { metric: parseChoiceOption(flags.metric, '--metric', ['euclidean', 'manhattan', 'chebyshev'] as const) as Metric }),
+        ...(flags.maxScale === undefined
+          ? {}
+          : { maxScale: parseNumberOption(flags.maxScale, '--max-scale', { positive: true }) }),
+        ...(flags.metric === undefined
+          ? {}
+          : {
+              metric: parseChoiceOption(flags.metric, '--metric', [
+                'euclidean',
+                'manhattan',
+                'chebyshev',
+              ] as const) as Metric,
+            }),
         ...(flags.embed === undefined ? {} : { embed: parseEmbedOption(flags.embed) }),
         ...(flags.superlevel ? { superlevel: true } : {}),
       };
       const { loadDataset } = await import('../../io/load.js');
       const { classesOf } = await import('../../io/dataset.js');
-      const dataset = await loadDataset(path, flags.kind === undefined ? {} : { kind: flags.kind as Dataset['kind'] });
+      const dataset = await loadDataset(
+        path,
+        flags.kind === undefined ? {} : { kind: flags.kind as Dataset['kind'] },
+      );
       const classes = classesOf(dataset.samples);
       if (classes.length < 2) {
-        throw new UserError(`found ${classes.length} class${classes.length === 1 ? '' : 'es'}; contrast needs samples of at least two labelled classes`, {
-          file: path,
-        });
+        throw new UserError(
+          `found ${classes.length} class${classes.length === 1 ? '' : 'es'}; contrast needs samples of at least two labelled classes`,
+          {
+            file: path,
+          },
+        );
       }
       for (const label of classes) {
-        if (label === '') throw new UserError('some samples have no label; contrast compares labelled classes — label every sample', { file: path });
+        if (label === '')
+          throw new UserError(
+            'some samples have no label; contrast compares labelled classes — label every sample',
+            { file: path },
+          );
       }
       const quiet = flags.quiet === true;
       const bar = await startProgress('diagrams', dataset.samples.length, quiet);
       let sets: DiagramSet[];
       try {
-        sets = await diagramsOfDataset(dataset, diagramOptions, { workers, onProgress: (d, t) => bar.update(d, t) });
+        sets = await diagramsOfDataset(dataset, diagramOptions, {
+          workers,
+          onProgress: (d, t) => bar.update(d, t),
+        });
       } finally {
         bar.stop();
       }
@@ -134,15 +168,39 @@ export function defineContrast(program: Command): Command {
       const testBar = await startProgress('permutations', pairs * degrees.length * permutations, quiet);
       let result: ReturnType<typeof contrastDiagrams>;
       try {
-        result = contrastDiagrams(sets, { degrees, depth, gridCount, permutations, p, seed, infinite, onProgress: (d, t) => testBar.update(d, t) });
+        result = contrastDiagrams(sets, {
+          degrees,
+          depth,
+          gridCount,
+          permutations,
+          p,
+          seed,
+          infinite,
+          onProgress: (d, t) => testBar.update(d, t),
+        });
       } finally {
         testBar.stop();
       }
-      const options = { kind: dataset.kind, ...diagramOptions, depth, gridCount, permutations, p: p === Infinity ? 'inf' : p, infinite: flags.infinite };
+      const options = {
+        kind: dataset.kind,
+        ...diagramOptions,
+        depth,
+        gridCount,
+        permutations,
+        p: p === Infinity ? 'inf' : p,
+        infinite: flags.infinite,
+      };
       const made = provenance('contrast', options, seed);
       const text =
         format === 'json'
-          ? contrastJson(result, { tool: made.tool, version: made.version, options: made.options, seed, family: 'all pairs of classes × all degrees', grids: result.grids })
+          ? contrastJson(result, {
+              tool: made.tool,
+              version: made.version,
+              options: made.options,
+              seed,
+              family: 'all pairs of classes × all degrees',
+              grids: result.grids,
+            })
           : contrastText(result, permutations);
       if (flags.out) {
         const { writeFileAtomic } = await import('../../io/atomic.js');

@@ -23,10 +23,14 @@ export function defineDemo(program: Command): Command {
     .option('--quick', 'fewer folds, permutations and bootstrap draws, one model: a quick look')
     .option('--seed <n>', 'seed of every split, model, band and permutation', '1')
     .option('--workers <n>', 'worker threads for the diagrams (default: every core)')
-    .addHelpText('after', '\nExample: landform demo --quick --out /tmp/demo   (then open /tmp/demo/report.html)')
+    .addHelpText(
+      'after',
+      '\nExample: landform demo --quick --out /tmp/demo   (then open /tmp/demo/report.html)',
+    )
     .action(async (flags: DemoFlags) => {
       const seed = parseIntegerOption(flags.seed, '--seed', 0, 2 ** 32 - 1);
-      const workers = flags.workers === undefined ? undefined : parseIntegerOption(flags.workers, '--workers', 1, 256);
+      const workers =
+        flags.workers === undefined ? undefined : parseIntegerOption(flags.workers, '--workers', 1, 256);
       const quiet = flags.quiet === true;
       const started = performance.now();
       const { runDemo, accuracyTable } = await import('../../report/study.js');
@@ -39,7 +43,8 @@ export function defineDemo(program: Command): Command {
           workers,
           onProgress: (done, total) => bar.update(done, total),
           onDataset: (name, i, n) => {
-            if (!quiet && !process.stderr.isTTY) process.stderr.write(`landform: demo ${i + 1}/${n}: ${name}\n`);
+            if (!quiet && !process.stderr.isTTY)
+              process.stderr.write(`landform: demo ${i + 1}/${n}: ${name}\n`);
           },
         });
       } finally {
@@ -55,7 +60,8 @@ export function defineDemo(program: Command): Command {
         { path: reportPath, data: html },
       ]);
       const seconds = (performance.now() - started) / 1000;
-      const shown = (p: string) => (relative(process.cwd(), p).startsWith('..') ? p : relative(process.cwd(), p) || p);
+      const shown = (p: string) =>
+        relative(process.cwd(), p).startsWith('..') ? p : relative(process.cwd(), p) || p;
       process.stdout.write(
         [
           `Cross-validated accuracy (mean ± sd over ${result.outcomes[0]?.evaluation.folds ?? 0} folds; estimates, not guarantees):`,
