@@ -43,6 +43,8 @@ export function openText(file: string, raw = createReadStream(file, { highWaterM
   if (!/\.gz$/i.test(file)) return raw;
   const gunzip = createGunzip({ chunkSize: 1 << 16 });
   raw.on('error', (error) => gunzip.destroy(error));
+  // Closing the decompressor early (after the header, or on an error) closes the file too.
+  gunzip.on('close', () => raw.destroy());
   return raw.pipe(gunzip);
 }
 
@@ -62,6 +64,7 @@ export async function readCsvHeader(file: string): Promise<{ fields: string[]; l
     throw csvSyntaxError(error, file);
   } finally {
     parser.destroy();
+    source.destroy();
   }
   return undefined;
 }
