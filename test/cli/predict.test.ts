@@ -61,4 +61,32 @@ describe('landform predict', () => {
       /is a table dataset, but the model was trained on points samples; give points samples\n$/,
     );
   });
+
+  it('the shipped model loads and labels panels of its demo scenario', () => {
+    // A few panels of each class from the shipped synthetic dataset (the model was trained on them: this
+    // checks that the folder still loads and predicts with this version, not how well it generalises).
+    const root = new URL('../../', import.meta.url).pathname;
+    const lines = readFileSync(join(root, 'datasets', 'lattice.csv'), 'utf8')
+      .trim()
+      .split('\n');
+    const perClass = new Map<string, string[]>();
+    for (const line of lines.slice(1)) {
+      const [sample, label] = line.split(',');
+      const list = perClass.get(label) ?? [];
+      if (!list.includes(sample) && list.length < 2) list.push(sample);
+      perClass.set(label, list);
+    }
+    const chosen = new Set([...perClass.values()].flat());
+    const subset = join(dir, 'panels.csv');
+    writeFileSync(
+      subset,
+      [lines[0], ...lines.slice(1).filter((l) => chosen.has(l.split(',')[0]))].join('\n') + '\n',
+    );
+    const r = runCli(['predict', join(root, 'models', 'lattice'), subset, '--workers', '1']);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const out = r.stdout.trim().split('\n');
+    expect(out[0]).toBe('sample,predicted,score:broken-strut,score:intact,score:merged-cells');
+    expect(out).toHaveLength(7);
+  });
 });
