@@ -63,13 +63,18 @@ export async function renderSvg(spec: ChartSpec): Promise<string> {
     config: { ...chartConfig(), ...(spec.config ?? {}) },
   } as TopLevelSpec).spec;
   // A loader that refuses every external resource: the charts are built from inline data only.
+  // vega only logs a failed load and draws the chart empty, so the refusal is remembered and raised below.
   const loader = vega.loader();
+  let refused: string | undefined;
   loader.load = async (uri: string) => {
+    refused ??= uri;
     throw new Error(`charts: refusing to load ${uri}; charts use inline data only`);
   };
-  const view = new vega.View(vega.parse(compiled), { renderer: 'none', loader });
+  const view = new vega.View(vega.parse(compiled), { renderer: 'none', loader, logLevel: vega.None });
   try {
     let svg = await view.toSVG();
+    if (refused !== undefined)
+      throw new Error(`charts: refusing to load ${refused}; charts use inline data only`);
     if (/<script|<foreignObject|\son\w+\s*=|javascript:/i.test(svg))
       throw new Error('charts: rendered SVG contains active content');
     // Give clip paths and gradients ids unique to this chart so many charts can live on one page.
