@@ -101,6 +101,15 @@ export class CofacetHeap {
   private bound = 0x7ffffffe;
   private step = 1;
   private shift = 0;
+  /**
+   * A range moved out of its bucket is sorted once into this run (keys encode rank and index, see
+   * sortRange), with repeated entries already cancelled; entries pushed later go to the heap, and the pivot
+   * is the first of the two.
+   */
+  private run = new Float64Array(1024);
+  private runPosition = 0;
+  private runLength = 0;
+  private runLow = 0;
   /** Set by `popPivot`. */
   pivotRank = 0;
   pivotIndex = 0;
@@ -117,6 +126,8 @@ export class CofacetHeap {
   /** Empties the column; the heap first takes ranks base … base + step − 1, later ranges step ranks at a time (step rounded up to a power of two). */
   clear(base = 0, step = 0x3fffffff): void {
     this.size = 0;
+    this.runPosition = 0;
+    this.runLength = 0;
     this.bucketSizes.fill(0);
     this.base = base;
     // A power of two, so that a rank's range is a shift away.
@@ -210,7 +221,9 @@ export class CofacetHeap {
       if (b < LAST) {
         this.current = b;
         this.bound = Math.min(0x7ffffffe, this.base + (b + 1) * this.step - 1);
-        for (let k = 0; k < count; k++) this.heapPush(br[k], bi[k]);
+        if (!this.sortRange(br, bi, count, this.base + b * this.step)) {
+          for (let k = 0; k < count; k++) this.heapPush(br[k], bi[k]);
+        }
         return true;
       }
       // The open range: start the ranges again from its smallest rank, twice as wide.
@@ -228,25 +241,83 @@ export class CofacetHeap {
   }
 
   /**
-   * Removes and reports (in pivotRank, pivotIndex) the top entry with odd multiplicity over Z/2; entries that
-   * occur an even number of times cancel. Returns false when the column is zero.
+   * Sorts a range's entries into the run when its keys are exact doubles: key = (rank − low)·2^42 +
+   * (2^42 − 1 − index), so ascending keys are ascending ranks, ties by descending index. Needs ranks within
+   * 2^11 of `low` and indices below 2^42 (tetrahedra of up to about 2,950 vertices); false otherwise.
+   */
+  private sortRange(ranks: Int32Array, indices: Float64Array, count: number, low: number): boolean {
+    if (this.step > 2048) return false;
+    for (let k = 0; k < count; k++) if (indices[k] >= TWO42) return false;
+    if (this.run.length < count) this.run = new Float64Array(Math.max(count, this.run.length * 2));
+    const run = this.run;
+    for (let k = 0; k < count; k++) run[k] = (ranks[k] - low) * TWO42 + (TWO42 - 1 - indices[k]);
+    const sorted = run.subarray(0, count).sort();
+    let w = 0;
+    // invariant: sorted[0..w) holds the keys of odd multiplicity among sorted[0..r)
+    for (let r = 0; r < count; ) {
+      let q = r + 1;
+      while (q < count && sorted[q] === sorted[r]) q++;
+      if ((q - r) & 1) sorted[w++] = sorted[r];
+      r = q;
+    }
+    this.runPosition = 0;
+    this.runLength = w;
+    this.runLow = low;
+    return true;
+  }
+
+  /**
+   * Removes and reports (in pivotRank, pivotIndex) the first entry with odd multiplicity over Z/2; entries
+   * that occur an even number of times cancel. Returns false when the column is zero.
    */
   popPivot(): boolean {
     // invariant: every entry removed so far occurred an even number of times
     while (true) {
-      while (this.size > 0) {
-        const rank = this.ranks[0];
-        const index = this.indices[0];
-        this.popTop();
-        if (this.size > 0 && this.indices[0] === index) {
-          this.popTop();
-          continue;
+      const inRun = this.runPosition < this.runLength;
+      if (this.size === 0 && !inRun) {
+        if (!this.refill()) return false;
+        continue;
+      }
+      let rank = 0;
+      let index = 0;
+      let multiplicity = 0;
+      let runRank = 0x7fffffff;
+      let runIndex = -1;
+      if (inRun) {
+        const key = this.run[this.runPosition];
+        const offset = Math.floor(key / TWO42);
+        runRank = this.runLow + offset;
+        runIndex = TWO42 - 1 - (key - offset * TWO42);
+      }
+      if (this.size > 0) {
+        const hr = this.ranks[0];
+        const hi = this.indices[0];
+        if (hr < runRank || (hr === runRank && hi >= runIndex)) {
+          rank = hr;
+          index = hi;
+        } else {
+          rank = runRank;
+          index = runIndex;
         }
+      } else {
+        rank = runRank;
+        index = runIndex;
+      }
+      if (inRun && runIndex === index) {
+        this.runPosition++;
+        multiplicity++;
+      }
+      while (this.size > 0 && this.indices[0] === index) {
+        this.popTop();
+        multiplicity++;
+      }
+      if (multiplicity & 1) {
         this.pivotRank = rank;
         this.pivotIndex = index;
         return true;
       }
-      if (!this.refill()) return false;
     }
   }
 }
+
+const TWO42 = 2 ** 42;
