@@ -1,4 +1,4 @@
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseLandscapeFeatureName } from '../../src/features/landscape-vectorizer.js';
@@ -72,5 +72,13 @@ describe('landform vectorize', () => {
     const r = runCli(['vectorize', input]);
     expect(r.code).toBe(2);
     expect(r.stderr).toBe('landform: no --out FILE given; name the .csv or .npy file to write\n');
+    const table = join(dir, 'table.csv');
+    writeFileSync(table, 'sample,label,a,b\ns1,x,1,2\ns2,y,3,4\n');
+    const t = runCli(['vectorize', table, '--out', join(dir, 'never.csv')]);
+    expect(t.code).toBe(2);
+    expect(t.stderr).toBe(
+      'landform: --features landscape needs diagrams, but a table dataset has only its columns; use --features raw\n',
+    );
+    expect(existsSync(join(dir, 'never.csv'))).toBe(false);
   });
 });
