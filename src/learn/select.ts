@@ -20,11 +20,11 @@ export interface LandscapeCandidate {
   gridSize: number;
 }
 
-/** Default (K, G) candidates: two depths × two grid sizes, the usual values first. */
+/** Default (K, G) candidates: depths {5, 3} × grid sizes {50, 25}, in the order the command lists them. */
 export const DEFAULT_LANDSCAPE_CANDIDATES: readonly LandscapeCandidate[] = [
   { depth: 5, gridSize: 50 },
-  { depth: 3, gridSize: 50 },
   { depth: 5, gridSize: 25 },
+  { depth: 3, gridSize: 50 },
   { depth: 3, gridSize: 25 },
 ];
 
