@@ -112,6 +112,11 @@ describe('landform contrast', () => {
     const format = runCli(['contrast', file, '--format', 'xml']);
     expect(format.code).toBe(2);
     expect(format.stderr).toBe("landform: --format 'xml' is not known; choose from json, text\n");
+    const kind = runCli(['contrast', file, '--kind', 'nope']);
+    expect(kind.code).toBe(2);
+    expect(kind.stderr).toBe(
+      "landform: --kind 'nope' is not known; choose from points, distances, signal, image, table, diagrams\n",
+    );
     const p = runCli(['contrast', file, '--p', '0.5']);
     expect(p.code).toBe(2);
     expect(p.stderr).toBe("landform: --p '0.5' must be at least 1\n");

@@ -130,12 +130,9 @@ export function defineContrast(program: Command): Command {
         ...(flags.embed === undefined ? {} : { embed: parseEmbedOption(flags.embed) }),
         ...(flags.superlevel ? { superlevel: true } : {}),
       };
-      const { loadDataset } = await import('../../io/load.js');
+      const { loadInput } = await import('../dataset-input.js');
       const { classesOf } = await import('../../io/dataset.js');
-      const dataset = await loadDataset(
-        path,
-        flags.kind === undefined ? {} : { kind: flags.kind as Dataset['kind'] },
-      );
+      const dataset = await loadInput(path, { kind: flags.kind, quiet: flags.quiet === true });
       const classes = classesOf(dataset.samples);
       if (classes.length < 2) {
         throw new UserError(
