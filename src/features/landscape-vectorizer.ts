@@ -12,7 +12,7 @@ import type { Matrix } from '../learn/matrix.js';
 
 /**
  * The landscape vectoriser: for each chosen homology degree, layers 1..K of the persistence landscape
- * (Bubenik, "Statistical topological data analysis using persistence landscapes", 2015) sampled at G evenly
+ * (Chazal, Fasy, Lecci, Rinaldo, Wasserman, "Stochastic convergence of persistence landscapes and silhouettes", 2014) sampled at G evenly
  * spaced points of a range [start, stop]. The range of each degree is learned in `fit` from the training
  * diagrams only:
  *   start = the smallest birth of the training pairs of that degree,

@@ -23,12 +23,11 @@ export interface ExactLandscapeOptions {
 }
 
 /**
- * The exact persistence landscape of a diagram of finite pairs (Bubenik, "Statistical topological data
- * analysis using persistence landscapes", 2015): λ_k(t) is the k-th largest of the tents
+ * The exact persistence landscape of a diagram of finite pairs (Chazal, Fasy, Lecci, Rinaldo, Wasserman, "Stochastic convergence of persistence
+ * landscapes and silhouettes", 2014): λ_k(t) is the k-th largest of the tents
  * max(0, min(t − b, d − t)).
  *
- * Layer by layer sweep, after Bubenik and Dłotko ("A persistence landscapes toolbox for topological
- * statistics", 2017). The pairs are sorted once by birth ascending, death descending, into fixed slots.
+ * A layer-by-layer sweep. The pairs are sorted once by birth ascending, death descending, into fixed slots.
  * Tracing λ_k, the sweep jumps from the current tent (b, d) to the first later slot whose death exceeds
  * d — found in O(log n) by descending a max-tree of the slots' deaths, so pieces nested under the layer
  * are never visited. Where two tents cross, the lower part (b′, d) stays in the slot of (b′, d′) as a

@@ -379,7 +379,7 @@ export async function renderReport(input: ReportInput): Promise<string> {
 ${input.datasets.length > 1 ? `<nav class="toc">Datasets: ${toc}</nav>${glance(input.datasets)}` : ''}
 ${sections.join('\n')}
 </main>
-<footer><h2>How these numbers were made</h2><p>Persistent homology per sample; persistence landscapes (Bubenik, 2015) vectorised on a grid learned inside each training fold; models chosen by inner cross-validation and scored on outer folds. Class means use every sample; their bands are simultaneous multiplier-bootstrap bands (Chazal et al., 2015); contrasts are permutation tests (Robinson and Turner, 2017) with Holm's correction (Holm, 1979).</p></footer>
+<footer><h2>How these numbers were made</h2><p>Persistent homology per sample; persistence landscapes (Chazal, Fasy, Lecci, Rinaldo, Wasserman, 2014) vectorised on a grid learned inside each training fold; models chosen by inner cross-validation and scored on outer folds. Class means use every sample; their bands are simultaneous multiplier-bootstrap bands (Chazal et al., 2015); contrasts are permutation tests (Robinson and Turner, 2017) with Holm's correction (Holm, 1979).</p></footer>
 </body></html>
 `;
 }

@@ -69,7 +69,7 @@ export function gridStep(grid: GridSpec): number {
 /**
  * The Lp norm of a sampled multi-layer function, ‖f‖_p = (Σ_k ∫ |f_k(t)|^p dt)^(1/p), with each integral by
  * the trapezoid rule on the grid; p = Infinity gives the sup over all layers and grid points. This is the
- * norm of Bubenik, "Statistical topological data analysis using persistence landscapes", 2015, evaluated on
+ * norm of Chazal, Fasy, Lecci, Rinaldo, Wasserman, "Stochastic convergence of persistence landscapes and silhouettes", 2014, evaluated on
  * a grid; it converges to the exact norm as the grid is refined.
  */
 export function sampledNorm(values: ArrayLike<number>, depth: number, grid: GridSpec, p = 2): number {

@@ -48,7 +48,7 @@ describe('landform landscape', () => {
     expect(Object.keys(out).slice(0, 3)).toEqual(['degree', 't', 'layers']);
     expect(out.degree).toBe(1);
     expect(out.t).toEqual([0, 1, 2, 3, 4, 5, 6, 7, 8, 9]);
-    // Worked by hand from λ_k(t) = k-th largest of max(0, min(t − b, d − t)) (Bubenik, 2015).
+    // Worked by hand from λ_k(t) = k-th largest of max(0, min(t − b, d − t)) (Chazal, Fasy, Lecci, Rinaldo, Wasserman, 2014).
     expect(out.layers).toEqual([
       [0, 1, 2, 1, 2, 1, 1, 0, 0, 0],
       [0, 0, 1, 1, 2, 1, 0, 0, 0, 0],

@@ -30,8 +30,8 @@ function randomSets(n: number, seed: number, scale = 1): DiagramSet[] {
 
 describe('LandscapeVectorizer', () => {
   it('samples layers by the landscape definition on an explicit grid', () => {
-    // λ_k(t) is the k-th largest of max(0, min(t − b, d − t)) over the pairs (Bubenik, "Statistical topological
-    // data analysis using persistence landscapes", 2015, Definition 3). Pairs (0,4) and (1,3), worked by hand
+    // λ_k(t) is the k-th largest of max(0, min(t − b, d − t)) over the pairs (Chazal, Fasy, Lecci,
+    // Rinaldo, Wasserman, "Stochastic convergence of persistence landscapes and silhouettes", 2014, section 2). Pairs (0,4) and (1,3), worked by hand
     // at t = 0, 1, 2, 3, 4: λ1 = 0,1,2,1,0; λ2 = 0,0,1,0,0.
     const v = new LandscapeVectorizer({ degrees: [1], depth: 2, gridSize: 5, range: { start: 0, stop: 4 } });
     const sets = [

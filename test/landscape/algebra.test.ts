@@ -53,8 +53,8 @@ describe('landscape norms and identities', () => {
   });
 
   it('layers are ordered, non-negative and 1-Lipschitz', () => {
-    // λ_k ≥ λ_{k+1} ≥ 0 and |λ_k(s) − λ_k(t)| ≤ |s − t| (Bubenik, "Statistical topological data analysis
-    // using persistence landscapes", 2015, Lemma 4).
+    // λ_k ≥ λ_{k+1} ≥ 0 and |λ_k(s) − λ_k(t)| ≤ |s − t| (Chazal, Fasy, Lecci,
+    // Rinaldo, Wasserman, "Stochastic convergence of persistence landscapes and silhouettes", 2014, section 2).
     fc.assert(
       fc.property(anyDiagram, (d) => {
         const L = exactLandscape(d);
@@ -84,9 +84,8 @@ describe('landscape norms and identities', () => {
   });
 
   it('is stable: sup_k ‖λ_k(D) − λ_k(D′)‖∞ ≤ d_B(D, D′)', () => {
-    // Bubenik, "Statistical topological data analysis using persistence landscapes", 2015, Theorem 13;
-    // see also Chazal, Fasy, Lecci, Rinaldo, Wasserman, "Stochastic convergence of persistence landscapes
-    // and silhouettes", 2014.
+    // Landscape stability under the bottleneck distance: Chazal, Fasy, Lecci, Rinaldo, Wasserman,
+    // "Stochastic convergence of persistence landscapes and silhouettes", 2014, section 2.
     fc.assert(
       fc.property(floatDiagram, floatDiagram, (a, b) => {
         const gap = landscapeDistance(exactLandscape(a), exactLandscape(b), Infinity);

@@ -20,7 +20,7 @@ function probes(births: Float64Array, deaths: Float64Array): number[] {
 
 describe('exactLandscape', () => {
   it('matches a hand-worked example', () => {
-    // Worked by hand from the definition λ_k(t) = k-th largest tent (Bubenik, 2015).
+    // Worked by hand from the definition λ_k(t) = k-th largest tent (Chazal, Fasy, Lecci, Rinaldo, Wasserman, 2014).
     const L = exactLandscape(
       makeDiagram(1, [
         [0, 4],
@@ -69,7 +69,7 @@ describe('exactLandscape', () => {
   });
 
   it('agrees with the definition on random diagrams with ties and duplicates', () => {
-    // Property check against Bubenik, "Statistical topological data analysis using persistence landscapes", 2015.
+    // Property check against Chazal, Fasy, Lecci, Rinaldo, Wasserman, "Stochastic convergence of persistence landscapes and silhouettes", 2014.
     fc.assert(
       fc.property(anyDiagram, (diagram) => {
         const L = exactLandscape(diagram);

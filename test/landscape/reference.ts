@@ -3,8 +3,8 @@ import { type Diagram, makeDiagram } from '../../src/homology/diagram.js';
 
 /**
  * Test helpers: the definition of a landscape layer, evaluated directly, and random diagrams. The
- * definition is λ_k(t) = k-th largest of max(0, min(t − b, d − t)) over the pairs (Bubenik, "Statistical
- * topological data analysis using persistence landscapes", 2015, Definition 3).
+ * definition is λ_k(t) = k-th largest of max(0, min(t − b, d − t)) over the pairs (Chazal, Fasy,
+ * Lecci, Rinaldo, Wasserman, "Stochastic convergence of persistence landscapes and silhouettes", 2014, section 2).
  */
 export function definitionValue(diagram: Diagram, k: number, t: number): number {
   const values: number[] = [];

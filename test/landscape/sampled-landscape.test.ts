@@ -7,7 +7,7 @@ import { anyDiagram, definitionValue } from './reference.js';
 
 describe('sampleLandscape', () => {
   it('agrees with the definition on random diagrams and grids', () => {
-    // λ_k(t) = k-th largest tent (Bubenik, "Statistical topological data analysis using persistence landscapes", 2015).
+    // λ_k(t) = k-th largest tent (Chazal, Fasy, Lecci, Rinaldo, Wasserman, "Stochastic convergence of persistence landscapes and silhouettes", 2014).
     fc.assert(
       fc.property(
         anyDiagram,

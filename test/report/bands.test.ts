@@ -4,8 +4,8 @@ import { bandCovers, multiplierBand } from '../../src/report/bands.js';
 import { type GridSpec, stackLandscapes, stackMean } from '../../src/report/stack.js';
 
 /**
- * The sampled landscape of a diagram straight from its definition (Bubenik, "Statistical topological data
- * analysis using persistence landscapes", 2015): λ_k(t) is the k-th largest of the tents
+ * The sampled landscape of a diagram straight from its definition (Chazal, Fasy, Lecci, Rinaldo, Wasserman, "Stochastic convergence of persistence
+ * landscapes and silhouettes", 2014): λ_k(t) is the k-th largest of the tents
  * max(0, min(t − b, d − t)). Written here independently of src/landscape so the band is checked against the
  * definition, not against our own landscape code.
  */

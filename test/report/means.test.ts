@@ -10,7 +10,7 @@ function set(sample: string, label: string, h1: Array<[number, number]>): Diagra
 
 describe('classMeans', () => {
   it('gives the pointwise mean of the tents in a hand-worked example', () => {
-    // Bubenik, "Statistical topological data analysis using persistence landscapes", 2015: the mean
+    // Chazal, Fasy, Lecci, Rinaldo, Wasserman, "Stochastic convergence of persistence landscapes and silhouettes", 2014: the mean
     // landscape is the pointwise mean; λ_1 of {(0, 2)} is the tent peaking 1 at t = 1, of {(0, 4)} the tent
     // peaking 2 at t = 2. Worked by hand: mean at t = 1 is (1 + 1)/2 = 1, at t = 2 (0 + 2)/2 = 1,
     // at t = 3 (0 + 1)/2 = 0.5.
@@ -25,7 +25,7 @@ describe('classMeans', () => {
   });
 
   it('has a sampled mean equal to the exact mean evaluated on the grid', () => {
-    // Sampling is linear, so the mean of sampled landscapes is the exact mean sampled (Bubenik 2015, the
+    // Sampling is linear, so the mean of sampled landscapes is the exact mean sampled (Chazal et al. 2014, the
     // landscape is a point of a vector space and evaluation at t is a linear functional).
     const random = new Random(4);
     const sets: DiagramSet[] = [];

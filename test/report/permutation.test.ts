@@ -6,7 +6,7 @@ import { type GridSpec, type LandscapeStack, sampledNorm, stackLandscapes } from
 const grid: GridSpec = { start: 0, stop: 3, count: 31 };
 const depth = 2;
 
-/** Landscapes of one-to-two-pair diagrams straight from the definition (Bubenik 2015), lifetimes scaled by `scale`. */
+/** Landscapes of one-to-two-pair diagrams straight from the definition (Chazal et al. 2014), lifetimes scaled by `scale`. */
 function group(random: Random, n: number, scale: number): LandscapeStack {
   const rows: Float64Array[] = [];
   const step = (grid.stop - grid.start) / (grid.count - 1);

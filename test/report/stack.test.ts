@@ -7,7 +7,7 @@ import {
   stackMean,
 } from '../../src/report/stack.js';
 
-/** The tent of the pair (b, d) on a grid, from the definition max(0, min(t − b, d − t)) (Bubenik 2015). */
+/** The tent of the pair (b, d) on a grid, from the definition max(0, min(t − b, d − t)) (Chazal et al. 2014). */
 function tent(b: number, d: number, grid: { start: number; stop: number; count: number }): Float64Array {
   const out = new Float64Array(grid.count);
   const step = (grid.stop - grid.start) / (grid.count - 1);
