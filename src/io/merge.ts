@@ -8,7 +8,7 @@ import { parseCsv } from './csv.js';
 import { formatDiagramCsv, parseDiagramCsv } from './diagram-csv.js';
 import { type FeatureTable, readFeatureTable, writeFeatureTable } from './feature-table.js';
 import { provenancePath, readProvenance, writeWithProvenance } from './provenance-file.js';
-import { type ShardRecord, type ShardedProvenance, canonicalJson, sharedProvenance } from './shard.js';
+import { PER_SAMPLE_OPTION_KEYS, type ShardRecord, type ShardedProvenance, canonicalJson, sharedProvenance } from './shard.js';
 
 /**
  * Output formats of the per-sample commands and the merge of their shards.
@@ -283,7 +283,7 @@ export async function mergeShards(
   const format = chooseFormat(out, options.format, output === 'diagrams' ? ['csv', 'arrow'] : ['csv', 'npy', 'arrow']);
   const total = first.record.total;
   const { shard: _shard, ...rest } = first.provenance;
-  const merged: Provenance = { ...rest, options: stripPerShard(first.provenance.options) };
+  const merged: Provenance = { ...rest, options: combineOptions(inputs) };
   const ordinalOf = (input: ShardInput): Map<string, number> => {
     const m = new Map<string, number>();
     input.record.ids.forEach((id, k) => m.set(id, input.record.ordinals[k]));
@@ -351,8 +351,36 @@ export async function mergeShards(
   return { out, format, output, shards: inputs.length, samples: total };
 }
 
-function stripPerShard(options: Record<string, unknown>): Record<string, unknown> {
+/**
+ * The merged run's options: the first shard's, without `shard` and `force`, and with every per-sample summary
+ * (`PER_SAMPLE_OPTION_KEYS`) combined over the shards — the largest value, and the per-sample values in the
+ * dataset's order — as the unsharded run records it.
+ */
+function combineOptions(inputs: readonly ShardInput[]): Record<string, unknown> {
+  const options = inputs[0].provenance.options ?? {};
   const kept: Record<string, unknown> = {};
-  for (const [key, value] of Object.entries(options ?? {})) if (key !== 'shard' && key !== 'force') kept[key] = value;
+  for (const [key, value] of Object.entries(options)) {
+    if (key === 'shard' || key === 'force') continue;
+    kept[key] = PER_SAMPLE_OPTION_KEYS.includes(key) ? combineSummary(inputs, key) : value;
+  }
   return kept;
+}
+
+function combineSummary(inputs: readonly ShardInput[], key: string): unknown {
+  const total = inputs[0].record.total;
+  const byOrdinal = new Array<[string, number] | undefined>(total);
+  let largest = 0;
+  for (const input of inputs) {
+    const summary = input.provenance.options?.[key] as { largest?: number; perSample?: Record<string, number> } | undefined;
+    if (summary === undefined || typeof summary !== 'object') continue;
+    if (typeof summary.largest === 'number' && summary.largest > largest) largest = summary.largest;
+    const ordinals = new Map(input.record.ids.map((id, k) => [id, input.record.ordinals[k]]));
+    for (const [id, value] of Object.entries(summary.perSample ?? {})) {
+      const ordinal = ordinals.get(id);
+      if (ordinal !== undefined) byOrdinal[ordinal] = [id, value];
+    }
+  }
+  const perSample: Record<string, number> = {};
+  for (const entry of byOrdinal) if (entry !== undefined) perSample[entry[0]] = entry[1];
+  return { largest, perSample };
 }

@@ -197,11 +197,20 @@ export interface ShardedProvenance extends Provenance {
  */
 export const PER_SHARD_OPTION_KEYS: readonly string[] = ['out', 'shard', 'force', 'quiet', 'debug', 'workers', 'format'];
 
+/**
+ * Option keys that summarise the samples a run computed, shaped `{ largest: number, perSample: {id: value} }`
+ * (e.g. the covering radius of landmark subsampling). Each shard records its own; the merge combines them
+ * (largest of the largest, per-sample values in dataset order) into what the unsharded run records.
+ */
+export const PER_SAMPLE_OPTION_KEYS: readonly string[] = ['coveringRadius'];
+
 /** The provenance with the shard record and the per-shard option keys removed: what all shards must share. */
 export function sharedProvenance(p: Provenance): Record<string, unknown> {
   const { shard: _shard, options, ...rest } = p as ShardedProvenance;
   const kept: Record<string, unknown> = {};
-  for (const [key, value] of Object.entries(options ?? {})) if (!PER_SHARD_OPTION_KEYS.includes(key)) kept[key] = value;
+  for (const [key, value] of Object.entries(options ?? {})) {
+    if (!PER_SHARD_OPTION_KEYS.includes(key) && !PER_SAMPLE_OPTION_KEYS.includes(key)) kept[key] = value;
+  }
   return { ...rest, options: kept };
 }
 

@@ -7,9 +7,7 @@ import { METRICS, type Metric } from '../../homology/metric.js';
 import { computeDiagramsParallel } from '../../homology/parallel.js';
 import type { DelayEmbedding } from '../../homology/signal.js';
 import type { SampleKind } from '../../io/dataset.js';
-import { formatDiagramCsv } from '../../io/diagram-csv.js';
 import { expectKind, loadDataset, parseKind } from '../../io/load.js';
-import { writeWithProvenance } from '../../io/provenance-file.js';
 import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
 import { parseChoiceOption, parseDegreesOption, parseIntegerOption, parseNumberOption } from '../options.js';
 import { startProgress } from '../progress.js';
@@ -26,6 +24,9 @@ interface DiagramsCommandOptions {
   quiet?: boolean;
   filtration?: string;
   subsample?: string;
+  shard?: string;
+  force?: boolean;
+  format?: string;
 }
 
 const INPUT_KINDS = ['points', 'distances', 'signal', 'image'] as const;
@@ -70,6 +71,9 @@ export function defineDiagrams(program: Command): Command {
       'images and signals: superlevel sets (bright first), reported on the negated scale',
     )
     .option('--workers <n>', 'worker threads (default: every core)')
+    .option('--shard <I/N>', "only shard I of N (from 1), written as FILE.shard-I-of-N; default: from a Slurm array or Kubernetes indexed job, 'none' to turn off")
+    .option('--force', 'recompute a shard that is already finished')
+    .option('--format <format>', 'csv or arrow (default: from the extension of --out)')
     .option('--out <file>', 'the diagram CSV to write (a FILE.provenance.json sidecar is written beside it)')
     .addHelpText(
       'after',
@@ -116,17 +120,10 @@ Example:
       if (maxScale !== undefined) computeOptions.maxScale = maxScale;
       if (embed !== undefined) computeOptions.embed = embed;
       if (options.superlevel) computeOptions.superlevel = true;
-      const progress = await startProgress('diagrams', dataset.samples.length, options.quiet === true);
-      let sets: Awaited<ReturnType<typeof computeDiagramsParallel>>;
-      try {
-        sets = await computeDiagramsParallel(dataset.samples, computeOptions, {
-          workers,
-          onProgress: (done) => progress.update(done),
-        });
-      } finally {
-        progress.stop();
-      }
-      const record = {
+      const { chooseFormat, writeDiagramsOutput } = await import('../../io/merge.js');
+      const { planShard, resolveShard } = await import('../../io/shard.js');
+      const format = chooseFormat(options.out, options.format, ['csv', 'arrow']);
+      const settings = {
         input,
         kind: dataset.kind,
         degrees,
@@ -134,9 +131,32 @@ Example:
         maxScale: maxScale ?? null,
         embed: embed ?? null,
         superlevel: options.superlevel === true,
-        samples: sets.length,
+        samples: dataset.samples.length,
+      };
+      const plan = planShard({
+        samples: dataset.samples,
+        out: options.out,
+        shard: resolveShard(options.shard),
+        output: 'diagrams',
+        settings: { ...settings, ...filtrationRecord(choice) },
+        force: options.force === true,
+      });
+      if (plan.message !== undefined && options.quiet !== true) process.stderr.write(`${plan.message}\n`);
+      if (plan.finished) return;
+      const progress = await startProgress('diagrams', plan.samples.length, options.quiet === true);
+      let sets: Awaited<ReturnType<typeof computeDiagramsParallel>>;
+      try {
+        sets = await computeDiagramsParallel(plan.samples, computeOptions, {
+          workers,
+          onProgress: (done) => progress.update(done),
+        });
+      } finally {
+        progress.stop();
+      }
+      const record = {
+        ...settings,
         ...filtrationRecord(choice, sets as Array<{ sample: string; coveringRadius?: number }>),
       };
-      writeWithProvenance(options.out, formatDiagramCsv(sets), provenance('diagrams', record));
+      await writeDiagramsOutput(plan.out, sets, plan.stamp(provenance('diagrams', record)), format);
     });
 }

@@ -11,7 +11,6 @@ import {
 import type { DiagramOptions } from '../../homology/compute.js';
 import { describeInfinitePolicy } from '../../homology/diagram.js';
 import type { SampleKind } from '../../io/dataset.js';
-import { writeFeatureTable } from '../../io/feature-table.js';
 import { parseChoiceOption, parseGridOption, parseInfiniteOption, parseIntegerOption } from '../options.js';
 import {
   addDiagramOptions,
@@ -35,6 +34,9 @@ type VectorizeCommandOptions = Pick<
   standardize?: boolean;
   model?: string;
   out?: string;
+  shard?: string;
+  force?: boolean;
+  format?: string;
 };
 
 /**
@@ -66,7 +68,10 @@ export function defineVectorize(program: Command): Command {
     .option(
       '--out <file>',
       'file to write: .csv, or .npy with FILE.samples.csv and FILE.columns.csv beside it',
-    );
+    )
+    .option('--shard <I/N>', "only shard I of N (from 1), written as FILE.shard-I-of-N; needs --model or a fixed --grid; default: from a Slurm array or Kubernetes indexed job, 'none' to turn off")
+    .option('--force', 'recompute a shard that is already finished')
+    .option('--format <format>', 'csv, npy or arrow (default: from the extension of --out)');
   addDiagramOptions(command);
   return command
     .addHelpText(
@@ -84,7 +89,11 @@ Example:
     .action(async (input: string, o: VectorizeCommandOptions) => {
       if (o.out === undefined)
         throw new UserError('no --out FILE given; name the .csv or .npy file to write');
-      const format = /\.npy$/i.test(o.out) ? 'npy' : 'csv';
+      const { chooseFormat, writeFeaturesOutput } = await import('../../io/merge.js');
+      const { planShard, resolveShard } = await import('../../io/shard.js');
+      const format = chooseFormat(o.out, o.format, ['csv', 'npy', 'arrow']);
+      const shard = resolveShard(o.shard);
+      let learnsFromSamples = false;
       let extractor: FeatureExtractor;
       let parsed: ParsedDiagramOptions;
       let fitted = false;
@@ -139,13 +148,38 @@ Example:
           bins,
           standardize: o.standardize === true,
         };
+        learnsFromSamples = set !== 'landscape' || grid === undefined || o.standardize === true;
       }
       const dataset = await loadStudyDataset(input, parsed);
       checkFeatureSet(extractor.set, dataset.kind);
-      const diagrams =
-        extractor.set === 'raw' ? undefined : await diagramsForCommand(dataset, parsed, o.quiet === true);
-      const data: FeatureData = {
+      if (shard !== undefined && learnsFromSamples) {
+        throw new UserError(
+          '--shard needs features fixed in advance, the same in every shard: give --model models/NAME, or --features landscape with --grid START:STOP:COUNT and no --standardize',
+        );
+      }
+      const plan = planShard({
         samples: dataset.samples,
+        out: o.out,
+        shard,
+        output: 'table',
+        settings: {
+          input,
+          kind: dataset.kind,
+          samples: dataset.samples.length,
+          ...source,
+          diagrams: diagramRecord(dataset.kind, parsed.diagramOptions),
+          ...(fitted ? { learned: extractor.toJSON() } : {}),
+        },
+        force: o.force === true,
+        ...(dataset.columns ? { columns: dataset.columns } : {}),
+      });
+      if (plan.message !== undefined && o.quiet !== true) process.stderr.write(`${plan.message}\n`);
+      if (plan.finished) return;
+      const part = { ...dataset, samples: plan.samples };
+      const diagrams =
+        extractor.set === 'raw' ? undefined : await diagramsForCommand(part, parsed, o.quiet === true);
+      const data: FeatureData = {
+        samples: part.samples,
         ...(diagrams ? { diagrams } : {}),
         ...(dataset.columns ? { columns: dataset.columns } : {}),
       };
@@ -160,19 +194,19 @@ Example:
         diagrams: diagramRecord(dataset.kind, parsed.diagramOptions),
         learned: extractor.toJSON(),
       };
-      writeFeatureTable(
-        o.out,
+      await writeFeaturesOutput(
+        plan.out,
         {
-          ids: dataset.samples.map((s) => s.id),
-          labels: dataset.samples.map((s) => s.label),
+          ids: part.samples.map((s) => s.id),
+          labels: part.samples.map((s) => s.label),
           names: extractor.featureNames(),
           matrix,
         },
-        provenance('vectorize', record),
+        plan.stamp(provenance('vectorize', record)),
         format,
       );
       process.stdout.write(
-        `wrote ${o.out}: ${matrix.rows} samples × ${matrix.cols} features (${extractor.set}; fitted on ${record.fittedOn})\n`,
+        `wrote ${plan.out}: ${matrix.rows} samples × ${matrix.cols} features (${extractor.set}; fitted on ${record.fittedOn})\n`,
       );
     });
 }
