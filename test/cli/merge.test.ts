@@ -197,7 +197,7 @@ describe('sharded diagrams and vectorize through the CLI', () => {
 
   it('merged vectorize shards (fixed grid; CSV and NPY) equal the unsharded run byte for byte', async () => {
     const vectorArgs = ['vectorize', ...diagramArgs, '--depth', '2', '--grid', '0:1.5:8'];
-    for (const ext of ['csv', 'npy']) {
+    for (const ext of ['csv', 'npy', 'arrow']) {
       const whole = join(dir, `features.${ext}`);
       const w = await landform([...vectorArgs, '--out', whole]);
       expect(w.code, w.stderr).toBe(0);
@@ -212,6 +212,20 @@ describe('sharded diagrams and vectorize through the CLI', () => {
       expect(same(merged, whole)).toBe(true);
       expect(same(`${merged}.provenance.json`, `${whole}.provenance.json`)).toBe(true);
     }
+  });
+
+  it('landmark subsampling: the merged sidecar combines the shards\' covering radii as the unsharded run records them', async () => {
+    const args = ['diagrams', ...diagramArgs, '--subsample', 'maxmin:6'];
+    const whole = join(dir, 'landmarks.csv');
+    expect((await landform([...args, '--out', whole])).code).toBe(0);
+    for (let i = 1; i <= 3; i++) expect((await landform([...args, '--shard', `${i}/3`, '--out', join(dir, 'landmarks', 'l.csv')])).code).toBe(0);
+    const merged = join(dir, 'landmarks-merged.csv');
+    const m = await landform(['merge', ...shardOutputs(join(dir, 'landmarks')), '--out', merged]);
+    expect(m.code, m.stderr).toBe(0);
+    expect(same(merged, whole)).toBe(true);
+    const sidecar = JSON.parse(readFileSync(`${merged}.provenance.json`, 'utf8')) as { options: { coveringRadius: { perSample: object } } };
+    expect(Object.keys(sidecar.options.coveringRadius.perSample)).toHaveLength(21);
+    expect(same(`${merged}.provenance.json`, `${whole}.provenance.json`)).toBe(true);
   });
 
   it('refuses a sharded vectorize that would learn its grid from its own shard', async () => {
