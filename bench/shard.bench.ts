@@ -28,7 +28,11 @@ export async function run(): Promise<void> {
       id: `window-${i}`,
       label: `class-${i % 3}`,
       diagrams: [
-        { degree: 0, births: new Float64Array(n), deaths: Float64Array.from(deaths, (d, k) => (k === 0 ? Infinity : d)) },
+        {
+          degree: 0,
+          births: new Float64Array(n),
+          deaths: Float64Array.from(deaths, (d, k) => (k === 0 ? Infinity : d)),
+        },
         { degree: 1, births, deaths },
       ],
     };
@@ -41,8 +45,18 @@ export async function run(): Promise<void> {
     await writeDiagramsOutput(whole, sets, prov);
     const shards: string[] = [];
     for (let i = 1; i <= 8; i++) {
-      const plan = planShard<DiagramSample>({ samples, out: join(dir, 'shards', 'd.csv'), shard: resolveShard(`${i}/8`, {}), output: 'diagrams', settings: prov.options });
-      await writeDiagramsOutput(plan.out, plan.samples.map((s) => ({ sample: s.id, label: s.label, diagrams: s.diagrams })), plan.stamp(prov));
+      const plan = planShard<DiagramSample>({
+        samples,
+        out: join(dir, 'shards', 'd.csv'),
+        shard: resolveShard(`${i}/8`, {}),
+        output: 'diagrams',
+        settings: prov.options,
+      });
+      await writeDiagramsOutput(
+        plan.out,
+        plan.samples.map((s) => ({ sample: s.id, label: s.label, diagrams: s.diagrams })),
+        plan.stamp(prov),
+      );
       shards.push(plan.out);
     }
     const floor = await time(() => {
@@ -66,8 +80,16 @@ export async function run(): Promise<void> {
       { name: 'write CSV', value: csvWrite.ms, unit: 'ms' },
       { name: 'write Arrow', value: arrowWrite.ms, unit: 'ms' },
       { name: 'Arrow / CSV write time', value: arrowWrite.ms / csvWrite.ms, unit: '×' },
-      { name: 'Arrow / CSV file size', value: statSync(join(dir, 'w.arrow')).size / statSync(join(dir, 'w.csv')).size, unit: '×' },
-      { name: 'shard assignment (FNV-1a of the id)', value: (25 * count) / (assign.ms / 1000) / 1e6, unit: 'M ids/s' },
+      {
+        name: 'Arrow / CSV file size',
+        value: statSync(join(dir, 'w.arrow')).size / statSync(join(dir, 'w.csv')).size,
+        unit: '×',
+      },
+      {
+        name: 'shard assignment (FNV-1a of the id)',
+        value: (25 * count) / (assign.ms / 1000) / 1e6,
+        unit: 'M ids/s',
+      },
     ]);
   } finally {
     rmSync(dir, { recursive: true, force: true });

@@ -23,7 +23,6 @@ import { writeWithProvenance } from './provenance-file.js';
 export const ARROW_KIND_KEY = 'landform.kind';
 export const ARROW_PROVENANCE_KEY = 'landform.provenance';
 
-
 type ArrowModule = typeof import('apache-arrow');
 
 async function arrow(): Promise<ArrowModule> {
@@ -61,11 +60,20 @@ function utf8(A: ArrowModule, values: readonly string[]): import('apache-arrow')
   for (let i = 0; i < encoded.length; i++) offsets[i + 1] = offsets[i] + encoded[i].length;
   const bytes = new Uint8Array(offsets[values.length]);
   for (let i = 0; i < encoded.length; i++) bytes.set(encoded[i], offsets[i]);
-  return A.makeData({ type: new A.Utf8(), length: values.length, nullCount: 0, valueOffsets: offsets, data: bytes });
+  return A.makeData({
+    type: new A.Utf8(),
+    length: values.length,
+    nullCount: 0,
+    valueOffsets: offsets,
+    data: bytes,
+  });
 }
 
 /** The Arrow IPC bytes of diagram sets (the diagrams layout above). */
-export async function formatDiagramArrow(sets: readonly DiagramSet[], provenance?: Provenance): Promise<Uint8Array> {
+export async function formatDiagramArrow(
+  sets: readonly DiagramSet[],
+  provenance?: Provenance,
+): Promise<Uint8Array> {
   const A = await arrow();
   let rows = 0;
   for (const set of sets) for (const d of set.diagrams) rows += d.births.length;
@@ -107,7 +115,9 @@ export async function formatFeatureArrow(table: FeatureTable, provenance?: Prove
   const A = await arrow();
   const { rows, cols, data } = table.matrix;
   if (table.ids.length !== rows || table.labels.length !== rows || table.names.length !== cols) {
-    throw new Error(`formatFeatureArrow: ${table.ids.length} ids, ${table.labels.length} labels, ${table.names.length} names for a ${rows}×${cols} matrix`);
+    throw new Error(
+      `formatFeatureArrow: ${table.ids.length} ids, ${table.labels.length} labels, ${table.names.length} names for a ${rows}×${cols} matrix`,
+    );
   }
   const columns = [
     { name: 'sample', type: new A.Utf8() as import('apache-arrow').DataType, data: utf8(A, table.ids) },
@@ -123,12 +133,20 @@ export async function formatFeatureArrow(table: FeatureTable, provenance?: Prove
 }
 
 /** Writes diagram sets as an Arrow file with its provenance sidecar, in one atomic step. */
-export async function writeDiagramArrow(file: string, sets: readonly DiagramSet[], provenance: Provenance): Promise<void> {
+export async function writeDiagramArrow(
+  file: string,
+  sets: readonly DiagramSet[],
+  provenance: Provenance,
+): Promise<void> {
   writeWithProvenance(file, await formatDiagramArrow(sets, provenance), provenance);
 }
 
 /** Writes a feature table as an Arrow file with its provenance sidecar, in one atomic step. */
-export async function writeFeatureArrow(file: string, table: FeatureTable, provenance: Provenance): Promise<void> {
+export async function writeFeatureArrow(
+  file: string,
+  table: FeatureTable,
+  provenance: Provenance,
+): Promise<void> {
   writeWithProvenance(file, await formatFeatureArrow(table, provenance), provenance);
 }
 
@@ -154,7 +172,10 @@ export async function parseArrow(bytes: Uint8Array, file: string): Promise<Arrow
   try {
     table = A.tableFromIPC(bytes);
   } catch (error) {
-    throw new UserError(`not a readable Arrow IPC file (${String((error as Error).message ?? error).split('\n')[0]})`, { file });
+    throw new UserError(
+      `not a readable Arrow IPC file (${String((error as Error).message ?? error).split('\n')[0]})`,
+      { file },
+    );
   }
   const meta = table.schema.metadata;
   let provenance: Provenance | undefined;
@@ -163,14 +184,19 @@ export async function parseArrow(bytes: Uint8Array, file: string): Promise<Arrow
     try {
       provenance = JSON.parse(provenanceText) as Provenance;
     } catch {
-      throw new UserError(`its ${ARROW_PROVENANCE_KEY} metadata is not valid JSON; recompute the file`, { file });
+      throw new UserError(`its ${ARROW_PROVENANCE_KEY} metadata is not valid JSON; recompute the file`, {
+        file,
+      });
     }
   }
   const names = table.schema.fields.map((f) => f.name);
-  const kind = meta.get(ARROW_KIND_KEY) ?? (['degree', 'birth', 'death'].every((n) => names.includes(n)) ? 'diagrams' : 'table');
+  const kind =
+    meta.get(ARROW_KIND_KEY) ??
+    (['degree', 'birth', 'death'].every((n) => names.includes(n)) ? 'diagrams' : 'table');
   const text = (name: string): string[] => {
     const column = table.getChild(name);
-    if (column === null) throw new UserError(`has no column '${name}'; an Arrow ${kind} file needs it`, { file });
+    if (column === null)
+      throw new UserError(`has no column '${name}'; an Arrow ${kind} file needs it`, { file });
     const out: string[] = new Array(table.numRows);
     let i = 0;
     for (const v of column) out[i++] = v === null || v === undefined ? '' : String(v);
@@ -178,7 +204,8 @@ export async function parseArrow(bytes: Uint8Array, file: string): Promise<Arrow
   };
   const numbers = (name: string): Float64Array => {
     const column = table.getChild(name);
-    if (column === null) throw new UserError(`has no column '${name}'; an Arrow ${kind} file needs it`, { file });
+    if (column === null)
+      throw new UserError(`has no column '${name}'; an Arrow ${kind} file needs it`, { file });
     const out = new Float64Array(table.numRows);
     let i = 0;
     for (const v of column) out[i++] = v === null || v === undefined ? Number.NaN : Number(v);
@@ -191,11 +218,16 @@ export async function parseArrow(bytes: Uint8Array, file: string): Promise<Arrow
     const birth = numbers('birth');
     const death = numbers('death');
     const order: string[] = [];
-    const bySample = new Map<string, { label: string; byDegree: Map<number, { b: number[]; d: number[] }> }>();
+    const bySample = new Map<
+      string,
+      { label: string; byDegree: Map<number, { b: number[]; d: number[] }> }
+    >();
     const degrees = new Set<number>();
     for (let r = 0; r < table.numRows; r++) {
       if (!(death[r] >= birth[r]) || !Number.isFinite(birth[r])) {
-        throw new UserError(`row ${r}: pair (${birth[r]}, ${death[r]}) is not a valid persistence pair`, { file });
+        throw new UserError(`row ${r}: pair (${birth[r]}, ${death[r]}) is not a valid persistence pair`, {
+          file,
+        });
       }
       let entry = bySample.get(sample[r]);
       if (entry === undefined) {
@@ -220,7 +252,11 @@ export async function parseArrow(bytes: Uint8Array, file: string): Promise<Arrow
         label: entry.label,
         diagrams: sorted.map((degreeValue): Diagram => {
           const d = entry.byDegree.get(degreeValue);
-          return { degree: degreeValue, births: Float64Array.from(d?.b ?? []), deaths: Float64Array.from(d?.d ?? []) };
+          return {
+            degree: degreeValue,
+            births: Float64Array.from(d?.b ?? []),
+            deaths: Float64Array.from(d?.d ?? []),
+          };
         }),
       };
     });
@@ -234,7 +270,11 @@ export async function parseArrow(bytes: Uint8Array, file: string): Promise<Arrow
     const column = numbers(name);
     for (let i = 0; i < rows; i++) data[i * cols + j] = column[i];
   });
-  return { kind: 'table', table: { ids: sample, labels: label, names: featureNames, matrix: { rows, cols, data } }, provenance };
+  return {
+    kind: 'table',
+    table: { ids: sample, labels: label, names: featureNames, matrix: { rows, cols, data } },
+    provenance,
+  };
 }
 
 export async function readArrow(file: string): Promise<ArrowContent> {
@@ -244,14 +284,16 @@ export async function readArrow(file: string): Promise<ArrowContent> {
 /** Reads the diagram sets of an Arrow file, or the one-line error when it holds a feature table. */
 export async function readDiagramArrow(file: string): Promise<DiagramSet[]> {
   const content = await readArrow(file);
-  if (content.kind !== 'diagrams') throw new UserError('holds a feature table, not diagrams; give a diagrams file', { file });
+  if (content.kind !== 'diagrams')
+    throw new UserError('holds a feature table, not diagrams; give a diagrams file', { file });
   return content.sets;
 }
 
 /** Reads the feature table of an Arrow file, or the one-line error when it holds diagrams. */
 export async function readFeatureArrow(file: string): Promise<FeatureTable> {
   const content = await readArrow(file);
-  if (content.kind !== 'table') throw new UserError('holds diagrams, not a feature table; give a feature file', { file });
+  if (content.kind !== 'table')
+    throw new UserError('holds diagrams, not a feature table; give a feature file', { file });
   return content.table;
 }
 
@@ -265,15 +307,25 @@ export async function loadArrowDataset(file: string): Promise<Dataset> {
     return {
       kind: 'diagrams',
       source: file,
-      samples: content.sets.map((s): DiagramSample => ({ kind: 'diagrams', id: s.sample, label: s.label, diagrams: s.diagrams })),
+      samples: content.sets.map(
+        (s): DiagramSample => ({ kind: 'diagrams', id: s.sample, label: s.label, diagrams: s.diagrams }),
+      ),
     };
   }
   const { ids, labels, names, matrix } = content.table;
   const seen = new Set<string>();
   const samples = ids.map((id, i): TableSample => {
-    if (seen.has(id)) throw new UserError(`sample '${id}' appears on two rows; a feature table has one row per sample`, { file });
+    if (seen.has(id))
+      throw new UserError(`sample '${id}' appears on two rows; a feature table has one row per sample`, {
+        file,
+      });
     seen.add(id);
-    return { kind: 'table', id, label: labels[i], values: matrix.data.slice(i * matrix.cols, (i + 1) * matrix.cols) };
+    return {
+      kind: 'table',
+      id,
+      label: labels[i],
+      values: matrix.data.slice(i * matrix.cols, (i + 1) * matrix.cols),
+    };
   });
   return { kind: 'table', source: file, columns: [...names], samples };
 }

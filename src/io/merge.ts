@@ -8,7 +8,13 @@ import { parseCsv } from './csv.js';
 import { formatDiagramCsv, parseDiagramCsv } from './diagram-csv.js';
 import { type FeatureTable, readFeatureTable, writeFeatureTable } from './feature-table.js';
 import { provenancePath, readProvenance, writeWithProvenance } from './provenance-file.js';
-import { PER_SAMPLE_OPTION_KEYS, type ShardRecord, type ShardedProvenance, canonicalJson, sharedProvenance } from './shard.js';
+import {
+  canonicalJson,
+  PER_SAMPLE_OPTION_KEYS,
+  type ShardedProvenance,
+  type ShardRecord,
+  sharedProvenance,
+} from './shard.js';
 
 /**
  * Output formats of the per-sample commands and the merge of their shards.
@@ -40,11 +46,18 @@ export function formatFromPath(file: string): OutputFormat {
  * The output format from `--format` (when given) and the file name; `allowed` lists what the output kind can
  * be written as (diagrams: csv, arrow).
  */
-export function chooseFormat(out: string, formatOption: string | undefined, allowed: readonly OutputFormat[]): OutputFormat {
+export function chooseFormat(
+  out: string,
+  formatOption: string | undefined,
+  allowed: readonly OutputFormat[],
+): OutputFormat {
   const implied = formatFromPath(out);
   if (formatOption === undefined) {
     if (!allowed.includes(implied)) {
-      throw new UserError(`cannot write ${implied.toUpperCase()} here; name the output .${allowed.join(' or .')}`, { file: out });
+      throw new UserError(
+        `cannot write ${implied.toUpperCase()} here; name the output .${allowed.join(' or .')}`,
+        { file: out },
+      );
     }
     return implied;
   }
@@ -53,11 +66,15 @@ export function chooseFormat(out: string, formatOption: string | undefined, allo
   }
   const format = formatOption as OutputFormat;
   const ext = extname(out).toLowerCase();
-  const contradicts = (format === 'csv' && (ext === '.arrow' || ext === '.npy')) || (format !== 'csv' && implied !== format);
+  const contradicts =
+    (format === 'csv' && (ext === '.arrow' || ext === '.npy')) || (format !== 'csv' && implied !== format);
   if (contradicts) {
-    throw new UserError(`--format ${format} but the file is named ${ext || 'without an extension'}; name it .${format} or drop --format`, {
-      file: out,
-    });
+    throw new UserError(
+      `--format ${format} but the file is named ${ext || 'without an extension'}; name it .${format} or drop --format`,
+      {
+        file: out,
+      },
+    );
   }
   return format;
 }
@@ -69,7 +86,8 @@ export async function writeDiagramsOutput(
   provenance: Provenance,
   format: OutputFormat = formatFromPath(file),
 ): Promise<void> {
-  if (format === 'npy') throw new UserError('diagrams cannot be written as NPY; name the output .csv or .arrow', { file });
+  if (format === 'npy')
+    throw new UserError('diagrams cannot be written as NPY; name the output .csv or .arrow', { file });
   const data = format === 'arrow' ? await formatDiagramArrow(sets, provenance) : formatDiagramCsv(sets);
   writeWithProvenance(file, data, provenance);
 }
@@ -86,7 +104,7 @@ export async function writeFeaturesOutput(
 }
 
 function checkFile(file: string): void {
-  let stat;
+  let stat: ReturnType<typeof statSync>;
   try {
     stat = statSync(file);
   } catch {
@@ -103,7 +121,8 @@ export async function readDiagramsOutput(file: string): Promise<DiagramSet[]> {
     if (content.kind !== 'diagrams') throw new UserError('holds a feature table, not diagrams', { file });
     return content.sets;
   }
-  if (formatFromPath(file) === 'npy') throw new UserError('is an NPY array, not diagrams; give diagram CSV or Arrow files', { file });
+  if (formatFromPath(file) === 'npy')
+    throw new UserError('is an NPY array, not diagrams; give diagram CSV or Arrow files', { file });
   const text = readFileSync(file, 'utf8');
   const rows = parseCsv(text, file);
   if (rows.length === 1) return [];
@@ -123,7 +142,12 @@ export async function readFeaturesOutput(file: string): Promise<FeatureTable> {
     const rows = parseCsv(readFileSync(file, 'utf8'), file);
     if (rows.length === 1) {
       const names = rows[0].fields.slice(2);
-      return { ids: [], labels: [], names, matrix: { rows: 0, cols: names.length, data: new Float64Array(0) } };
+      return {
+        ids: [],
+        labels: [],
+        names,
+        matrix: { rows: 0, cols: names.length, data: new Float64Array(0) },
+      };
     }
   }
   return readFeatureTable(file);
@@ -147,7 +171,8 @@ interface ShardInput {
 /** The first place where two JSON values differ, as `path: a vs b`, for the mismatch message. */
 function firstDifference(a: unknown, b: unknown, path = ''): string | undefined {
   if (canonicalJson(a) === canonicalJson(b)) return undefined;
-  const isObject = (v: unknown): v is Record<string, unknown> => v !== null && typeof v === 'object' && !Array.isArray(v);
+  const isObject = (v: unknown): v is Record<string, unknown> =>
+    v !== null && typeof v === 'object' && !Array.isArray(v);
   if (isObject(a) && isObject(b)) {
     for (const key of [...new Set([...Object.keys(a), ...Object.keys(b)])].sort()) {
       const found = firstDifference(a[key], b[key], path === '' ? key : `${path}.${key}`);
@@ -164,13 +189,16 @@ function listShards(indexes: number[], count: number): string {
 }
 
 function readShardInputs(files: readonly string[], out: string): ShardInput[] {
-  if (files.length === 0) throw new UserError('no shard outputs given; list the files the --shard runs wrote');
+  if (files.length === 0)
+    throw new UserError('no shard outputs given; list the files the --shard runs wrote');
   const outPath = resolve(out);
   const inputs: ShardInput[] = [];
   for (const file of files) {
     checkFile(file);
     if (realpathSync(file) === outPath || resolve(file) === outPath) {
-      throw new UserError('--out names one of the shard files; write the merged file under another name', { file });
+      throw new UserError('--out names one of the shard files; write the merged file under another name', {
+        file,
+      });
     }
     if (!existsSync(provenancePath(file))) {
       throw new UserError(
@@ -181,9 +209,12 @@ function readShardInputs(files: readonly string[], out: string): ShardInput[] {
     const provenance = readProvenance(file) as ShardedProvenance;
     const record = provenance?.shard;
     if (record === undefined || typeof record.index !== 'number' || !Array.isArray(record.ordinals)) {
-      throw new UserError('was not written by a sharded run (its provenance has no shard record); give only outputs of --shard runs', {
-        file,
-      });
+      throw new UserError(
+        'was not written by a sharded run (its provenance has no shard record); give only outputs of --shard runs',
+        {
+          file,
+        },
+      );
     }
     inputs.push({ file, provenance, record });
   }
@@ -199,17 +230,25 @@ function checkShards(inputs: ShardInput[]): void {
   for (const input of inputs) {
     const { record, file } = input;
     if (record.count !== count) {
-      throw new UserError(`is shard ${record.index}/${record.count} but ${first.file} is of ${count} shards; merge shards of one run`, {
-        file,
-      });
+      throw new UserError(
+        `is shard ${record.index}/${record.count} but ${first.file} is of ${count} shards; merge shards of one run`,
+        {
+          file,
+        },
+      );
     }
     const earlier = byIndex.get(record.index);
     if (earlier !== undefined) {
-      throw new UserError(`is shard ${record.index}/${count} again (also ${earlier}); give each shard once`, { file });
+      throw new UserError(`is shard ${record.index}/${count} again (also ${earlier}); give each shard once`, {
+        file,
+      });
     }
     byIndex.set(record.index, file);
     if (record.output !== first.record.output) {
-      throw new UserError(`holds ${record.output} but ${first.file} holds ${first.record.output}; merge outputs of one command`, { file });
+      throw new UserError(
+        `holds ${record.output} but ${first.file} holds ${first.record.output}; merge outputs of one command`,
+        { file },
+      );
     }
     if (canonicalJson(sharedProvenance(input.provenance)) !== shared) {
       const where = firstDifference(sharedProvenance(input.provenance), sharedProvenance(first.provenance));
@@ -219,18 +258,28 @@ function checkShards(inputs: ShardInput[]): void {
       );
     }
     if (record.settings !== first.record.settings) {
-      throw new UserError(`was made with different settings from ${first.file}; rerun this shard with the same command and options`, { file });
+      throw new UserError(
+        `was made with different settings from ${first.file}; rerun this shard with the same command and options`,
+        { file },
+      );
     }
-    if (record.total !== first.record.total || record.dataset !== first.record.dataset || record.assignment !== first.record.assignment) {
+    if (
+      record.total !== first.record.total ||
+      record.dataset !== first.record.dataset ||
+      record.assignment !== first.record.assignment
+    ) {
       throw new UserError(
         `was made from different data than ${first.file} (dataset of ${record.total} vs ${first.record.total} samples, or changed content); rerun every shard on the same dataset`,
         { file },
       );
     }
     if (record.ids.length !== record.ordinals.length) {
-      throw new UserError('its shard record is damaged (ids and ordinals differ in length); rerun this shard', {
-        file: provenancePath(file),
-      });
+      throw new UserError(
+        'its shard record is damaged (ids and ordinals differ in length); rerun this shard',
+        {
+          file: provenancePath(file),
+        },
+      );
     }
   }
   const missing: number[] = [];
@@ -249,12 +298,18 @@ function checkShards(inputs: ShardInput[]): void {
       const id = record.ids[k];
       const other = ownerOfId.get(id) ?? (ordinal >= 0 && ordinal < total ? owner[ordinal] : undefined);
       if (other !== undefined) {
-        throw new UserError(`sample '${id}' is also in ${other}; shards must not overlap — rerun both with the same shard count`, { file });
+        throw new UserError(
+          `sample '${id}' is also in ${other}; shards must not overlap — rerun both with the same shard count`,
+          { file },
+        );
       }
       if (!Number.isInteger(ordinal) || ordinal < 0 || ordinal >= total) {
-        throw new UserError(`its shard record names position ${ordinal} in a dataset of ${total}; rerun this shard`, {
-          file: provenancePath(file),
-        });
+        throw new UserError(
+          `its shard record names position ${ordinal} in a dataset of ${total}; rerun this shard`,
+          {
+            file: provenancePath(file),
+          },
+        );
       }
       owner[ordinal] = file;
       ownerOfId.set(id, file);
@@ -263,7 +318,9 @@ function checkShards(inputs: ShardInput[]): void {
   let absent = 0;
   for (let i = 0; i < total; i++) if (owner[i] === undefined) absent++;
   if (absent > 0) {
-    throw new UserError(`${absent} of ${total} samples are in no shard; rerun every shard with the same dataset and shard count`);
+    throw new UserError(
+      `${absent} of ${total} samples are in no shard; rerun every shard with the same dataset and shard count`,
+    );
   }
 }
 
@@ -280,13 +337,19 @@ export async function mergeShards(
   checkShards(inputs);
   const first = inputs[0];
   const output = first.record.output;
-  const format = chooseFormat(out, options.format, output === 'diagrams' ? ['csv', 'arrow'] : ['csv', 'npy', 'arrow']);
+  const format = chooseFormat(
+    out,
+    options.format,
+    output === 'diagrams' ? ['csv', 'arrow'] : ['csv', 'npy', 'arrow'],
+  );
   const total = first.record.total;
   const { shard: _shard, ...rest } = first.provenance;
   const merged: Provenance = { ...rest, options: combineOptions(inputs) };
   const ordinalOf = (input: ShardInput): Map<string, number> => {
     const m = new Map<string, number>();
-    input.record.ids.forEach((id, k) => m.set(id, input.record.ordinals[k]));
+    input.record.ids.forEach((id, k) => {
+      m.set(id, input.record.ordinals[k]);
+    });
     return m;
   };
 
@@ -298,7 +361,10 @@ export async function mergeShards(
       for (const set of await readDiagramsOutput(input.file)) {
         const ordinal = ordinals.get(set.sample);
         if (ordinal === undefined) {
-          throw new UserError(`holds sample '${set.sample}', which its shard record does not list; rerun this shard`, { file: input.file });
+          throw new UserError(
+            `holds sample '${set.sample}', which its shard record does not list; rerun this shard`,
+            { file: input.file },
+          );
         }
         slots[ordinal] = set;
       }
@@ -320,20 +386,28 @@ export async function mergeShards(
       names = table.names;
       namesFrom = input.file;
     } else if (canonicalJson(table.names) !== canonicalJson(names)) {
-      throw new UserError(`has other feature columns than ${namesFrom}; rerun the shards with the same options`, { file: input.file });
+      throw new UserError(
+        `has other feature columns than ${namesFrom}; rerun the shards with the same options`,
+        { file: input.file },
+      );
     }
     const ordinals = ordinalOf(input);
     table.ids.forEach((id, row) => {
       const ordinal = ordinals.get(id);
       if (ordinal === undefined) {
-        throw new UserError(`holds sample '${id}', which its shard record does not list; rerun this shard`, { file: input.file });
+        throw new UserError(`holds sample '${id}', which its shard record does not list; rerun this shard`, {
+          file: input.file,
+        });
       }
       rowOf[ordinal] = { table, row };
     });
     if (table.ids.length !== input.record.ids.length) {
-      throw new UserError(`holds ${table.ids.length} rows but its shard record lists ${input.record.ids.length} samples; rerun this shard`, {
-        file: input.file,
-      });
+      throw new UserError(
+        `holds ${table.ids.length} rows but its shard record lists ${input.record.ids.length} samples; rerun this shard`,
+        {
+          file: input.file,
+        },
+      );
     }
     options.onProgress?.(++done, inputs.length);
   }
@@ -347,7 +421,12 @@ export async function mergeShards(
     labels[i] = entry.table.labels[entry.row];
     data.set(entry.table.matrix.data.subarray(entry.row * cols, (entry.row + 1) * cols), i * cols);
   }
-  await writeFeaturesOutput(out, { ids, labels, names: names ?? [], matrix: { rows: total, cols, data } }, merged, format);
+  await writeFeaturesOutput(
+    out,
+    { ids, labels, names: names ?? [], matrix: { rows: total, cols, data } },
+    merged,
+    format,
+  );
   return { out, format, output, shards: inputs.length, samples: total };
 }
 
@@ -371,7 +450,9 @@ function combineSummary(inputs: readonly ShardInput[], key: string): unknown {
   const byOrdinal = new Array<[string, number] | undefined>(total);
   let largest = 0;
   for (const input of inputs) {
-    const summary = input.provenance.options?.[key] as { largest?: number; perSample?: Record<string, number> } | undefined;
+    const summary = input.provenance.options?.[key] as
+      | { largest?: number; perSample?: Record<string, number> }
+      | undefined;
     if (summary === undefined || typeof summary !== 'object') continue;
     if (typeof summary.largest === 'number' && summary.largest > largest) largest = summary.largest;
     const ordinals = new Map(input.record.ids.map((id, k) => [id, input.record.ordinals[k]]));

@@ -65,14 +65,17 @@ export function shardOf(id: string, count: number): number {
 /** Parses `I/N` (1 ≤ I ≤ N); the error says what a shard looks like. */
 export function parseShard(text: string, option = '--shard'): Shard {
   const m = /^\s*(\d+)\s*\/\s*(\d+)\s*$/.exec(text);
-  if (!m) throw new UserError(`${option} '${text}' must look like I/N, e.g. 2/7 for the second of seven shards`);
+  if (!m)
+    throw new UserError(`${option} '${text}' must look like I/N, e.g. 2/7 for the second of seven shards`);
   const index = Number(m[1]);
   const count = Number(m[2]);
   if (count < 1 || count > 1_000_000) {
     throw new UserError(`${option} '${text}': the shard count N must be from 1 to 1000000`);
   }
   if (index < 1 || index > count) {
-    throw new UserError(`${option} '${text}': shards count from 1, so I must be from 1 to ${count} (1/${count} … ${count}/${count})`);
+    throw new UserError(
+      `${option} '${text}': shards count from 1, so I must be from 1 to ${count} (1/${count} … ${count}/${count})`,
+    );
   }
   return { index, count };
 }
@@ -85,7 +88,9 @@ function wholeNumber(env: Record<string, string | undefined>, name: string): num
   const text = env[name];
   if (text === undefined || text.trim() === '') return undefined;
   if (!/^\s*\d+\s*$/.test(text)) {
-    throw new UserError(`environment variable ${name}='${text}' is not a whole number; fix the job script or pass --shard I/N`);
+    throw new UserError(
+      `environment variable ${name}='${text}' is not a whole number; fix the job script or pass --shard I/N`,
+    );
   }
   return Number(text);
 }
@@ -126,7 +131,11 @@ export function resolveShard(
       );
     }
     const shard = { index: offset / step + 1, count };
-    return { shard, source: 'slurm', description: `shard ${formatShard(shard)} (from SLURM_ARRAY_TASK_ID=${taskId})` };
+    return {
+      shard,
+      source: 'slurm',
+      description: `shard ${formatShard(shard)} (from SLURM_ARRAY_TASK_ID=${taskId})`,
+    };
   }
   const completion = wholeNumber(env, 'JOB_COMPLETION_INDEX');
   if (completion !== undefined) {
@@ -142,7 +151,11 @@ export function resolveShard(
       );
     }
     const shard = { index: completion + 1, count };
-    return { shard, source: 'kubernetes', description: `shard ${formatShard(shard)} (from JOB_COMPLETION_INDEX=${completion})` };
+    return {
+      shard,
+      source: 'kubernetes',
+      description: `shard ${formatShard(shard)} (from JOB_COMPLETION_INDEX=${completion})`,
+    };
   }
   return undefined;
 }
@@ -163,7 +176,10 @@ export function shardFileName(out: string, shard: Shard): string {
   const ext = extname(out);
   const stem = basename(out, ext);
   const width = String(shard.count).length;
-  return join(dirname(out), `${stem}.shard-${String(shard.index).padStart(width, '0')}-of-${shard.count}${ext}`);
+  return join(
+    dirname(out),
+    `${stem}.shard-${String(shard.index).padStart(width, '0')}-of-${shard.count}${ext}`,
+  );
 }
 
 /** What a shard writes into its provenance: enough for the merge to check completeness and order. */
@@ -195,7 +211,15 @@ export interface ShardedProvenance extends Provenance {
  * Option keys that may differ between the shards of one job without changing any result: where the output
  * goes, which shard, rerun and display flags, the number of worker threads.
  */
-export const PER_SHARD_OPTION_KEYS: readonly string[] = ['out', 'shard', 'force', 'quiet', 'debug', 'workers', 'format'];
+export const PER_SHARD_OPTION_KEYS: readonly string[] = [
+  'out',
+  'shard',
+  'force',
+  'quiet',
+  'debug',
+  'workers',
+  'format',
+];
 
 /**
  * Option keys that summarise the samples a run computed, shaped `{ largest: number, perSample: {id: value} }`
@@ -300,8 +324,11 @@ export interface ShardPlan<S extends Sample> {
 /** SHA-256 (hex) of the settings that decide a result, per-shard keys removed, with landform's version. */
 export function settingsDigest(settings: Record<string, unknown>): string {
   const kept: Record<string, unknown> = {};
-  for (const [key, value] of Object.entries(settings)) if (!PER_SHARD_OPTION_KEYS.includes(key)) kept[key] = value;
-  return createHash('sha256').update(canonicalJson({ version: version(), settings: kept })).digest('hex');
+  for (const [key, value] of Object.entries(settings))
+    if (!PER_SHARD_OPTION_KEYS.includes(key)) kept[key] = value;
+  return createHash('sha256')
+    .update(canonicalJson({ version: version(), settings: kept }))
+    .digest('hex');
 }
 
 /**
@@ -329,7 +356,10 @@ export function planShard<S extends Sample>(input: ShardPlanInput<S>): ShardPlan
     dataset:
       input.columns === undefined
         ? datasetDigest(input.samples)
-        : createHash('sha256').update(datasetDigest(input.samples)).update(JSON.stringify(input.columns)).digest('hex'),
+        : createHash('sha256')
+            .update(datasetDigest(input.samples))
+            .update(JSON.stringify(input.columns))
+            .digest('hex'),
     settings: settingsDigest(input.settings),
     ids: ordinals.map((i) => ids[i]),
     ordinals,
@@ -359,7 +389,8 @@ export function canonicalJson(value: unknown): string {
   return JSON.stringify(value, (_key, v: unknown) => {
     if (v !== null && typeof v === 'object' && !Array.isArray(v)) {
       const sorted: Record<string, unknown> = {};
-      for (const k of Object.keys(v as Record<string, unknown>).sort()) sorted[k] = (v as Record<string, unknown>)[k];
+      for (const k of Object.keys(v as Record<string, unknown>).sort())
+        sorted[k] = (v as Record<string, unknown>)[k];
       return sorted;
     }
     return v;

@@ -1,5 +1,5 @@
 import { spawn } from 'node:child_process';
-import { existsSync, mkdirSync, readFileSync, readdirSync, statSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it, vi } from 'vitest';
 import { main } from '../../src/cli/main.js';
@@ -30,12 +30,19 @@ function demoSamples(count = 21): DiagramSample[] {
 async function writeShards(dir: string, n: number): Promise<{ files: string[]; whole: string }> {
   const samples = demoSamples();
   const prov = provenance('diagrams', { degrees: [0, 1], out: 'd.csv' });
-  const sets = (list: DiagramSample[]) => list.map((s) => ({ sample: s.id, label: s.label, diagrams: s.diagrams }));
+  const sets = (list: DiagramSample[]) =>
+    list.map((s) => ({ sample: s.id, label: s.label, diagrams: s.diagrams }));
   const whole = join(dir, 'whole.csv');
   await writeDiagramsOutput(whole, sets(samples), prov);
   const files: string[] = [];
   for (let i = 1; i <= n; i++) {
-    const plan = planShard({ samples, out: join(dir, 'out', 'd.csv'), shard: resolveShard(`${i}/${n}`, {}), output: 'diagrams', settings: prov.options });
+    const plan = planShard({
+      samples,
+      out: join(dir, 'out', 'd.csv'),
+      shard: resolveShard(`${i}/${n}`, {}),
+      output: 'diagrams',
+      settings: prov.options,
+    });
     await writeDiagramsOutput(plan.out, sets(plan.samples), plan.stamp(prov));
     files.push(plan.out);
   }
@@ -60,7 +67,9 @@ describe('landform merge', () => {
     const r = runCli(['merge', files[0], files[2], '--out', out]);
     expect(r.code).toBe(2);
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
-    expect(r.stderr).toMatch(/^landform: shard 2\/3 is missing \(got 2 of 3\); run it with --shard 2\/3 and merge again/);
+    expect(r.stderr).toMatch(
+      /^landform: shard 2\/3 is missing \(got 2 of 3\); run it with --shard 2\/3 and merge again/,
+    );
     expect(existsSync(out)).toBe(false);
     expect(readdirSync(dir).sort()).toEqual(['out', 'whole.csv', 'whole.csv.provenance.json']);
   });
@@ -111,7 +120,8 @@ function writeSignalCsv(file: string, count: number, short?: string): void {
   for (let i = 0; i < count; i++) {
     const id = `vib-${i}`;
     const n = id === short ? 3 : 40;
-    for (let t = 0; t < n; t++) lines.push(`${id},${i % 2 ? 'healthy' : 'misaligned'},${Math.sin(0.7 * t) + rng.normal(0, 0.1)}`);
+    for (let t = 0; t < n; t++)
+      lines.push(`${id},${i % 2 ? 'healthy' : 'misaligned'},${Math.sin(0.7 * t) + rng.normal(0, 0.1)}`);
   }
   writeFileSync(file, lines.join('\n') + '\n');
 }
@@ -124,7 +134,10 @@ const noScheduler = { SLURM_ARRAY_TASK_ID: '', JOB_COMPLETION_INDEX: '', LANDFOR
  * writers as the `landform` binary, without a process start per shard (the machine is small). Spawned runs
  * below cover the real process and its environment.
  */
-async function landform(args: string[], env: Record<string, string> = {}): Promise<{ code: number; stderr: string; stdout: string }> {
+async function landform(
+  args: string[],
+  env: Record<string, string> = {},
+): Promise<{ code: number; stderr: string; stdout: string }> {
   const saved = new Map<string, string | undefined>();
   for (const [key, value] of Object.entries({ ...noScheduler, ...env })) {
     saved.set(key, process.env[key]);
@@ -180,7 +193,14 @@ describe('sharded diagrams and vectorize through the CLI', () => {
       for (const n of ext === 'csv' ? [1, 3, 7] : [3]) {
         const outDir = join(dir, `${ext}-n${n}`);
         for (let i = 1; i <= n; i++) {
-          const r = await landform(['diagrams', ...diagramArgs, '--shard', `${i}/${n}`, '--out', join(outDir, `whole.${ext}`)]);
+          const r = await landform([
+            'diagrams',
+            ...diagramArgs,
+            '--shard',
+            `${i}/${n}`,
+            '--out',
+            join(outDir, `whole.${ext}`),
+          ]);
           expect(r.code, r.stderr).toBe(0);
           expect(r.stderr).toMatch(new RegExp(`shard ${i}/${n}: \\d+ of 21 samples`));
         }
@@ -203,7 +223,13 @@ describe('sharded diagrams and vectorize through the CLI', () => {
       expect(w.code, w.stderr).toBe(0);
       const outDir = join(dir, `features-${ext}`);
       for (let i = 1; i <= 3; i++) {
-        const r = await landform([...vectorArgs, '--shard', `${i}/3`, '--out', join(outDir, `features.${ext}`)]);
+        const r = await landform([
+          ...vectorArgs,
+          '--shard',
+          `${i}/3`,
+          '--out',
+          join(outDir, `features.${ext}`),
+        ]);
         expect(r.code, r.stderr).toBe(0);
       }
       const merged = join(dir, `merged-features.${ext}`);
@@ -214,22 +240,34 @@ describe('sharded diagrams and vectorize through the CLI', () => {
     }
   });
 
-  it('landmark subsampling: the merged sidecar combines the shards\' covering radii as the unsharded run records them', async () => {
+  it("landmark subsampling: the merged sidecar combines the shards' covering radii as the unsharded run records them", async () => {
     const args = ['diagrams', ...diagramArgs, '--subsample', 'maxmin:6'];
     const whole = join(dir, 'landmarks.csv');
     expect((await landform([...args, '--out', whole])).code).toBe(0);
-    for (let i = 1; i <= 3; i++) expect((await landform([...args, '--shard', `${i}/3`, '--out', join(dir, 'landmarks', 'l.csv')])).code).toBe(0);
+    for (let i = 1; i <= 3; i++)
+      expect(
+        (await landform([...args, '--shard', `${i}/3`, '--out', join(dir, 'landmarks', 'l.csv')])).code,
+      ).toBe(0);
     const merged = join(dir, 'landmarks-merged.csv');
     const m = await landform(['merge', ...shardOutputs(join(dir, 'landmarks')), '--out', merged]);
     expect(m.code, m.stderr).toBe(0);
     expect(same(merged, whole)).toBe(true);
-    const sidecar = JSON.parse(readFileSync(`${merged}.provenance.json`, 'utf8')) as { options: { coveringRadius: { perSample: object } } };
+    const sidecar = JSON.parse(readFileSync(`${merged}.provenance.json`, 'utf8')) as {
+      options: { coveringRadius: { perSample: object } };
+    };
     expect(Object.keys(sidecar.options.coveringRadius.perSample)).toHaveLength(21);
     expect(same(`${merged}.provenance.json`, `${whole}.provenance.json`)).toBe(true);
   });
 
   it('refuses a sharded vectorize that would learn its grid from its own shard', async () => {
-    const r = await landform(['vectorize', ...diagramArgs, '--shard', '1/3', '--out', join(dir, 'learned', 'f.csv')]);
+    const r = await landform([
+      'vectorize',
+      ...diagramArgs,
+      '--shard',
+      '1/3',
+      '--out',
+      join(dir, 'learned', 'f.csv'),
+    ]);
     expect(r.code).toBe(2);
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
     expect(r.stderr).toMatch(/--shard needs features fixed in advance/);
@@ -251,7 +289,16 @@ describe('sharded diagrams and vectorize through the CLI', () => {
     expect(forced.code).toBe(0);
     expect(readFileSync(shardFile, 'utf8')).toBe(original);
     writeFileSync(shardFile, 'edited\n');
-    const other = await landform(['diagrams', ...diagramArgs, '--max-scale', '0.5', '--shard', '1/2', '--out', out]);
+    const other = await landform([
+      'diagrams',
+      ...diagramArgs,
+      '--max-scale',
+      '0.5',
+      '--shard',
+      '1/2',
+      '--out',
+      out,
+    ]);
     expect(other.code).toBe(0);
     expect(other.stderr).not.toMatch(/already finished/);
     expect(readFileSync(shardFile, 'utf8')).not.toBe('edited\n');
@@ -265,7 +312,12 @@ describe('sharded diagrams and vectorize through the CLI', () => {
     const reference = join(dir, 'csv-n3', 'whole.shard-2-of-3.csv');
     // Element 11 of a Slurm job array --array=10-12 (SchedMD, Slurm documentation, "Job Array Support").
     const slurm = runCli(['diagrams', ...diagramArgs, '--out', join(dir, 'slurm', 'whole.csv')], {
-      env: { ...noScheduler, SLURM_ARRAY_TASK_ID: '11', SLURM_ARRAY_TASK_COUNT: '3', SLURM_ARRAY_TASK_MIN: '10' },
+      env: {
+        ...noScheduler,
+        SLURM_ARRAY_TASK_ID: '11',
+        SLURM_ARRAY_TASK_COUNT: '3',
+        SLURM_ARRAY_TASK_MIN: '10',
+      },
     });
     expect(slurm.code, slurm.stderr).toBe(0);
     expect(slurm.stderr).toMatch(/shard 2\/3 \(from SLURM_ARRAY_TASK_ID=11\)/);
@@ -275,16 +327,37 @@ describe('sharded diagrams and vectorize through the CLI', () => {
       env: { ...noScheduler, JOB_COMPLETION_INDEX: '1', LANDFORM_SHARD_COUNT: '3' },
     });
     expect(k8s.code, k8s.stderr).toBe(0);
-    expect(files(join(dir, 'k8s'))).toEqual(['whole.shard-2-of-3.csv', 'whole.shard-2-of-3.csv.provenance.json']);
+    expect(files(join(dir, 'k8s'))).toEqual([
+      'whole.shard-2-of-3.csv',
+      'whole.shard-2-of-3.csv.provenance.json',
+    ]);
     expect(same(join(dir, 'k8s', 'whole.shard-2-of-3.csv'), reference)).toBe(true);
   });
 
   it('a merged diagrams file goes straight into evaluate', () => {
-    const r = runCli(['evaluate', join(dir, 'merged-7.csv'), '--folds', '3', '--models', 'pca-svm', '--depths', '3', '--grid-sizes', '10', '--out', join(dir, 'study')], {
-      env: noScheduler,
-    });
+    const r = runCli(
+      [
+        'evaluate',
+        join(dir, 'merged-7.csv'),
+        '--folds',
+        '3',
+        '--models',
+        'pca-svm',
+        '--depths',
+        '3',
+        '--grid-sizes',
+        '10',
+        '--out',
+        join(dir, 'study'),
+      ],
+      {
+        env: noScheduler,
+      },
+    );
     expect(r.code, r.stderr).toBe(0);
-    const metrics = JSON.parse(readFileSync(join(dir, 'study', 'metrics.json'), 'utf8')) as { classes: string[] };
+    const metrics = JSON.parse(readFileSync(join(dir, 'study', 'metrics.json'), 'utf8')) as {
+      classes: string[];
+    };
     expect(metrics.classes).toEqual(['blob', 'pair', 'ring']);
   });
 });
@@ -296,7 +369,22 @@ describe('interrupted shards leave no partial file', () => {
     // vib-0 … vib-5 in a shard of 1: the failing sample comes after the others have been computed.
     writeSignalCsv(data, 6, 'vib-5');
     const out = join(dir, 'out');
-    const r = await landform(['diagrams', data, '--kind', 'signal', '--embed', '3:2', '--degrees', '0,1', '--workers', '1', '--shard', '1/1', '--out', join(out, 'd.csv')]);
+    const r = await landform([
+      'diagrams',
+      data,
+      '--kind',
+      'signal',
+      '--embed',
+      '3:2',
+      '--degrees',
+      '0,1',
+      '--workers',
+      '1',
+      '--shard',
+      '1/1',
+      '--out',
+      join(out, 'd.csv'),
+    ]);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/too short/);
     expect(files(out)).toEqual([]);
@@ -308,12 +396,27 @@ describe('interrupted shards leave no partial file', () => {
     // A few clouds of many points: slow enough that the kill lands while their diagrams are being computed.
     const rng = new Random(31);
     const lines = ['sample,label,x,y,z'];
-    for (let s = 0; s < 4; s++) for (let k = 0; k < KILL_POINTS; k++) lines.push(`cloud-${s},c${s % 2},${rng.normal()},${rng.normal()},${rng.normal()}`);
+    for (let s = 0; s < 4; s++)
+      for (let k = 0; k < KILL_POINTS; k++)
+        lines.push(`cloud-${s},c${s % 2},${rng.normal()},${rng.normal()},${rng.normal()}`);
     writeFileSync(data, lines.join('\n') + '\n');
     const out = join(dir, 'out');
     mkdirSync(out);
     const root = new URL('../../', import.meta.url).pathname;
-    const args = ['diagrams', data, '--kind', 'points', '--degrees', '0,1', '--workers', '1', '--shard', '1/1', '--out', join(out, 'd.csv')];
+    const args = [
+      'diagrams',
+      data,
+      '--kind',
+      'points',
+      '--degrees',
+      '0,1',
+      '--workers',
+      '1',
+      '--shard',
+      '1/1',
+      '--out',
+      join(out, 'd.csv'),
+    ];
     const child = spawn(process.execPath, ['--import', 'tsx', join(root, 'src/cli/main.ts'), ...args], {
       env: { ...process.env, CI: 'true', ...noScheduler },
       stdio: ['ignore', 'ignore', 'pipe'],

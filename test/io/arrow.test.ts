@@ -1,4 +1,4 @@
-import { readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/core/errors.js';
@@ -28,8 +28,16 @@ const sets: DiagramSet[] = [
       { degree: 0, births: Float64Array.of(0, 0), deaths: Float64Array.of(0.5, Infinity) },
     ],
   },
-  { sample: 'cell, "2"', label: 'broken strut', diagrams: [{ degree: 0, births: Float64Array.of(0), deaths: Float64Array.of(Infinity) }] },
-  { sample: 'zelle-ä', label: 'intact', diagrams: [{ degree: 0, births: new Float64Array(0), deaths: new Float64Array(0) }] },
+  {
+    sample: 'cell, "2"',
+    label: 'broken strut',
+    diagrams: [{ degree: 0, births: Float64Array.of(0), deaths: Float64Array.of(Infinity) }],
+  },
+  {
+    sample: 'zelle-ä',
+    label: 'intact',
+    diagrams: [{ degree: 0, births: new Float64Array(0), deaths: new Float64Array(0) }],
+  },
 ];
 
 const table = {
@@ -92,7 +100,12 @@ describe('Arrow IPC files', () => {
   it('feature tables read back equal through apache-arrow’s reader and ours', async () => {
     const A = await import('apache-arrow');
     const t = A.tableFromIPC(await formatFeatureArrow(table));
-    expect(t.schema.fields.map((f) => f.name)).toEqual(['sample', 'label', 'H1/L1/t=0.1000', 'H1/L1/t=0.2000']);
+    expect(t.schema.fields.map((f) => f.name)).toEqual([
+      'sample',
+      'label',
+      'H1/L1/t=0.1000',
+      'H1/L1/t=0.2000',
+    ]);
     expect(t.schema.metadata.get(ARROW_KIND_KEY)).toBe('table');
     expect([...t.getChild('H1/L1/t=0.2000')!.toArray()]).toEqual([2, 4, 0.1 + 0.2]);
     const dir = tempDir();
@@ -129,7 +142,10 @@ describe('Arrow IPC files', () => {
   it('writes the same bytes for the same content', async () => {
     const prov = provenance('diagrams', {});
     const a = await formatDiagramArrow(sets, prov);
-    const b = await formatDiagramArrow(sets.map((s) => ({ ...s })), prov);
+    const b = await formatDiagramArrow(
+      sets.map((s) => ({ ...s })),
+      prov,
+    );
     expect(Buffer.from(a).equals(Buffer.from(b))).toBe(true);
   });
 

@@ -1,4 +1,4 @@
-import { copyFileSync, existsSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { copyFileSync, existsSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/core/errors.js';
@@ -44,14 +44,36 @@ function demoSamples(seed = 5, count = 21): DiagramSample[] {
 const toSet = (s: DiagramSample): DiagramSet => ({ sample: s.id, label: s.label, diagrams: s.diagrams });
 
 /** Runs the "command" the way the CLI does: plan the shard, compute its samples, write through the same writer. */
-async function runDiagrams(samples: DiagramSample[], out: string, shard: string | undefined, prov: Provenance): Promise<string> {
-  const plan = planShard({ samples, out, shard: resolveShard(shard, {}), output: 'diagrams', settings: prov.options });
+async function runDiagrams(
+  samples: DiagramSample[],
+  out: string,
+  shard: string | undefined,
+  prov: Provenance,
+): Promise<string> {
+  const plan = planShard({
+    samples,
+    out,
+    shard: resolveShard(shard, {}),
+    output: 'diagrams',
+    settings: prov.options,
+  });
   if (!plan.finished) await writeDiagramsOutput(plan.out, plan.samples.map(toSet), plan.stamp(prov));
   return plan.out;
 }
 
-async function runFeatures(samples: DiagramSample[], out: string, shard: string | undefined, prov: Provenance): Promise<string> {
-  const plan = planShard({ samples, out, shard: resolveShard(shard, {}), output: 'table', settings: prov.options });
+async function runFeatures(
+  samples: DiagramSample[],
+  out: string,
+  shard: string | undefined,
+  prov: Provenance,
+): Promise<string> {
+  const plan = planShard({
+    samples,
+    out,
+    shard: resolveShard(shard, {}),
+    output: 'table',
+    settings: prov.options,
+  });
   const rows = plan.samples.length;
   const data = new Float64Array(rows * 3);
   plan.samples.forEach((s, i) => {
@@ -90,7 +112,9 @@ describe('formats', () => {
     expect(formatFromPath('x.csv')).toBe('csv');
     expect(chooseFormat('x.arrow', undefined, ['csv', 'arrow'])).toBe('arrow');
     expect(chooseFormat('x.arrow', 'arrow', ['csv', 'arrow'])).toBe('arrow');
-    expect(() => chooseFormat('x.csv', 'arrow', ['csv', 'arrow'])).toThrow(/--format arrow but the file is named \.csv/);
+    expect(() => chooseFormat('x.csv', 'arrow', ['csv', 'arrow'])).toThrow(
+      /--format arrow but the file is named \.csv/,
+    );
     expect(() => chooseFormat('x.npy', undefined, ['csv', 'arrow'])).toThrow(/cannot write NPY/);
     expect(() => chooseFormat('x.csv', 'parquet', ['csv', 'arrow'])).toThrow(/not known/);
   });
@@ -107,7 +131,8 @@ describe('mergeShards', () => {
       for (const n of [1, 3, 7]) {
         const shardDir = join(dir, `n${n}`);
         const files: string[] = [];
-        for (let i = n; i >= 1; i--) files.push(await runDiagrams(samples, join(shardDir, `whole.${ext}`), `${i}/${n}`, prov));
+        for (let i = n; i >= 1; i--)
+          files.push(await runDiagrams(samples, join(shardDir, `whole.${ext}`), `${i}/${n}`, prov));
         const merged = join(dir, `merged-${n}.${ext}`);
         const summary = await mergeShards(files, merged);
         expect(summary).toMatchObject({ shards: n, samples: 21, output: 'diagrams', format: ext });
@@ -130,7 +155,8 @@ describe('mergeShards', () => {
       const fprov = provenance('vectorize', { input: 'd.csv', depth: 2, out: `f.${ext}` });
       const whole = await runFeatures(samples, join(dir, `f.${ext}`), undefined, fprov);
       const files: string[] = [];
-      for (let i = 1; i <= 7; i++) files.push(await runFeatures(samples, join(dir, 'shards', `f.${ext}`), `${i}/7`, fprov));
+      for (let i = 1; i <= 7; i++)
+        files.push(await runFeatures(samples, join(dir, 'shards', `f.${ext}`), `${i}/7`, fprov));
       const merged = join(dir, `m.${ext}`);
       await mergeShards(files, merged);
       expect(bytes(merged).equals(bytes(whole))).toBe(true);
@@ -157,16 +183,27 @@ describe('mergeShards', () => {
     const files: string[] = [];
     for (let i = 1; i <= 7; i++) files.push(await runDiagrams(samples, join(dir, 'd.csv'), `${i}/7`, prov));
     const out = join(dir, 'm.csv');
-    expect(await userError(mergeShards(files.filter((_, k) => k !== 2), out))).toMatch(
-      /shard 3\/7 is missing \(got 6 of 7\); run it with --shard 3\/7 and merge again/,
+    expect(
+      await userError(
+        mergeShards(
+          files.filter((_, k) => k !== 2),
+          out,
+        ),
+      ),
+    ).toMatch(/shard 3\/7 is missing \(got 6 of 7\); run it with --shard 3\/7 and merge again/);
+    expect(await userError(mergeShards(files.slice(0, 4), out))).toMatch(
+      /shards 5\/7, 6\/7, 7\/7 are missing/,
     );
-    expect(await userError(mergeShards(files.slice(0, 4), out))).toMatch(/shards 5\/7, 6\/7, 7\/7 are missing/);
     const copy = join(dir, 'copy-of-2.csv');
     copyFileSync(files[1], copy);
     copyFileSync(provenancePath(files[1]), provenancePath(copy));
-    expect(await userError(mergeShards([...files, copy], out))).toMatch(/copy-of-2\.csv: is shard 2\/7 again \(also .*d\.shard-2-of-7\.csv\); give each shard once/);
+    expect(await userError(mergeShards([...files, copy], out))).toMatch(
+      /copy-of-2\.csv: is shard 2\/7 again \(also .*d\.shard-2-of-7\.csv\); give each shard once/,
+    );
     const three = await runDiagrams(samples, join(dir, 'other', 'd.csv'), '1/3', prov);
-    expect(await userError(mergeShards([...files, three], out))).toMatch(/is shard 1\/3 but .* is of 7 shards/);
+    expect(await userError(mergeShards([...files, three], out))).toMatch(
+      /is shard 1\/3 but .* is of 7 shards/,
+    );
     expect(existsSync(out)).toBe(false);
   });
 
@@ -175,15 +212,25 @@ describe('mergeShards', () => {
     const files: string[] = [];
     for (let i = 1; i <= 3; i++) files.push(await runDiagrams(samples, join(dir, 'd.csv'), `${i}/3`, prov));
     const out = join(dir, 'm.csv');
-    const odd = await runDiagrams(samples, join(dir, 'odd', 'd.csv'), '2/3', { ...prov, options: { ...prov.options, degrees: [0] } });
+    const odd = await runDiagrams(samples, join(dir, 'odd', 'd.csv'), '2/3', {
+      ...prov,
+      options: { ...prov.options, degrees: [0] },
+    });
     expect(await userError(mergeShards([files[0], odd, files[2]], out))).toMatch(
       /was made with different settings from .*\(options\.degrees is \[0\] here but \[0,1\] there\); rerun this shard/,
     );
-    const newer = await runDiagrams(samples, join(dir, 'newer', 'd.csv'), '3/3', { ...prov, version: '9.9.9' });
-    expect(await userError(mergeShards([files[0], files[1], newer], out))).toMatch(/version is "9.9.9" here but/);
+    const newer = await runDiagrams(samples, join(dir, 'newer', 'd.csv'), '3/3', {
+      ...prov,
+      version: '9.9.9',
+    });
+    expect(await userError(mergeShards([files[0], files[1], newer], out))).toMatch(
+      /version is "9.9.9" here but/,
+    );
     const changed = samples.map((s, i) => (i === 0 ? { ...s, label: 'relabelled' } : s));
     const other = await runDiagrams(changed, join(dir, 'changed', 'd.csv'), '2/3', prov);
-    expect(await userError(mergeShards([files[0], other, files[2]], out))).toMatch(/was made from different data/);
+    expect(await userError(mergeShards([files[0], other, files[2]], out))).toMatch(
+      /was made from different data/,
+    );
     // Per-shard settings (worker count, output name) may differ.
     const fewerWorkers = await runDiagrams(samples, join(dir, 'w', 'x.csv'), '2/3', {
       ...prov,
@@ -198,11 +245,15 @@ describe('mergeShards', () => {
     const files: string[] = [];
     for (let i = 1; i <= 2; i++) files.push(await runDiagrams(samples, join(dir, 'd.csv'), `${i}/2`, prov));
     const whole = await runDiagrams(samples, join(dir, 'whole.csv'), undefined, prov);
-    expect(await userError(mergeShards([files[0], whole], join(dir, 'm.csv')))).toMatch(/was not written by a sharded run/);
+    expect(await userError(mergeShards([files[0], whole], join(dir, 'm.csv')))).toMatch(
+      /was not written by a sharded run/,
+    );
     expect(await userError(mergeShards(files, files[0]))).toMatch(/--out names one of the shard files/);
     rmSync(provenancePath(files[1]));
     expect(await userError(mergeShards(files, join(dir, 'm.csv')))).toMatch(/has no provenance sidecar/);
-    expect(await userError(mergeShards([join(dir, 'nope.csv')], join(dir, 'm.csv')))).toMatch(/file not found/);
+    expect(await userError(mergeShards([join(dir, 'nope.csv')], join(dir, 'm.csv')))).toMatch(
+      /file not found/,
+    );
     expect(await userError(mergeShards([], join(dir, 'm.csv')))).toMatch(/no shard outputs given/);
   });
 
@@ -214,7 +265,9 @@ describe('mergeShards', () => {
     const a = readFileSync(files[0]);
     writeFileSync(files[0], readFileSync(files[1]));
     writeFileSync(files[1], a);
-    expect(await userError(mergeShards(files, join(dir, 'm.csv')))).toMatch(/which its shard record does not list/);
+    expect(await userError(mergeShards(files, join(dir, 'm.csv')))).toMatch(
+      /which its shard record does not list/,
+    );
   });
 
   it('writes nothing when the merge fails part-way', async () => {

@@ -123,29 +123,50 @@ describe('resolveShard', () => {
   it('reads a Slurm job array that starts at 0, at 1, or steps', () => {
     // Slurm sets SLURM_ARRAY_TASK_ID, _COUNT, _MIN, _MAX and _STEP in each array element (SchedMD, Slurm
     // documentation, "Job Array Support" and sbatch(1) "OUTPUT ENVIRONMENT VARIABLES").
-    const zero = resolveShard(undefined, { SLURM_ARRAY_TASK_ID: '0', SLURM_ARRAY_TASK_COUNT: '7', SLURM_ARRAY_TASK_MIN: '0' });
+    const zero = resolveShard(undefined, {
+      SLURM_ARRAY_TASK_ID: '0',
+      SLURM_ARRAY_TASK_COUNT: '7',
+      SLURM_ARRAY_TASK_MIN: '0',
+    });
     expect(zero?.shard).toEqual({ index: 1, count: 7 });
     expect(zero?.source).toBe('slurm');
     expect(zero?.description).toContain('SLURM_ARRAY_TASK_ID=0');
     // --array=1-7: the last element is shard 7/7.
-    const one = resolveShard(undefined, { SLURM_ARRAY_TASK_ID: '7', SLURM_ARRAY_TASK_COUNT: '7', SLURM_ARRAY_TASK_MIN: '1' });
+    const one = resolveShard(undefined, {
+      SLURM_ARRAY_TASK_ID: '7',
+      SLURM_ARRAY_TASK_COUNT: '7',
+      SLURM_ARRAY_TASK_MIN: '1',
+    });
     expect(one?.shard).toEqual({ index: 7, count: 7 });
     // --array=10-22:4 → ids 10, 14, 18, 22.
     const stepped = { SLURM_ARRAY_TASK_COUNT: '4', SLURM_ARRAY_TASK_MIN: '10', SLURM_ARRAY_TASK_STEP: '4' };
-    expect(resolveShard(undefined, { ...stepped, SLURM_ARRAY_TASK_ID: '18' })?.shard).toEqual({ index: 3, count: 4 });
+    expect(resolveShard(undefined, { ...stepped, SLURM_ARRAY_TASK_ID: '18' })?.shard).toEqual({
+      index: 3,
+      count: 4,
+    });
     // Without MIN, ids are taken to start at 0.
-    expect(resolveShard(undefined, { SLURM_ARRAY_TASK_ID: '2', SLURM_ARRAY_TASK_COUNT: '3' })?.shard).toEqual({ index: 3, count: 3 });
+    expect(resolveShard(undefined, { SLURM_ARRAY_TASK_ID: '2', SLURM_ARRAY_TASK_COUNT: '3' })?.shard).toEqual(
+      { index: 3, count: 3 },
+    );
   });
 
   it('refuses Slurm arrays it cannot map to shards', () => {
     // --array=1,4,9: count 3, min 1, ids not on one stepped range.
     expect(
-      userMessage(() => resolveShard(undefined, { SLURM_ARRAY_TASK_ID: '9', SLURM_ARRAY_TASK_COUNT: '3', SLURM_ARRAY_TASK_MIN: '1' })),
+      userMessage(() =>
+        resolveShard(undefined, {
+          SLURM_ARRAY_TASK_ID: '9',
+          SLURM_ARRAY_TASK_COUNT: '3',
+          SLURM_ARRAY_TASK_MIN: '1',
+        }),
+      ),
     ).toMatch(/not on one evenly stepped range.*--shard I\/N/);
-    expect(userMessage(() => resolveShard(undefined, { SLURM_ARRAY_TASK_ID: '2' }))).toMatch(/SLURM_ARRAY_TASK_COUNT is not/);
-    expect(userMessage(() => resolveShard(undefined, { SLURM_ARRAY_TASK_ID: 'x', SLURM_ARRAY_TASK_COUNT: '3' }))).toMatch(
-      /not a whole number/,
+    expect(userMessage(() => resolveShard(undefined, { SLURM_ARRAY_TASK_ID: '2' }))).toMatch(
+      /SLURM_ARRAY_TASK_COUNT is not/,
     );
+    expect(
+      userMessage(() => resolveShard(undefined, { SLURM_ARRAY_TASK_ID: 'x', SLURM_ARRAY_TASK_COUNT: '3' })),
+    ).toMatch(/not a whole number/);
   });
 
   it('reads a Kubernetes Indexed Job with the count from LANDFORM_SHARD_COUNT', () => {
@@ -154,17 +175,24 @@ describe('resolveShard', () => {
     const k = resolveShard(undefined, { JOB_COMPLETION_INDEX: '0', LANDFORM_SHARD_COUNT: '3' });
     expect(k?.shard).toEqual({ index: 1, count: 3 });
     expect(k?.source).toBe('kubernetes');
-    expect(resolveShard(undefined, { JOB_COMPLETION_INDEX: '2', LANDFORM_SHARD_COUNT: '3' })?.shard).toEqual({ index: 3, count: 3 });
-    expect(userMessage(() => resolveShard(undefined, { JOB_COMPLETION_INDEX: '2' }))).toMatch(/set LANDFORM_SHARD_COUNT/);
-    expect(userMessage(() => resolveShard(undefined, { JOB_COMPLETION_INDEX: '3', LANDFORM_SHARD_COUNT: '3' }))).toMatch(
-      /does not fit/,
+    expect(resolveShard(undefined, { JOB_COMPLETION_INDEX: '2', LANDFORM_SHARD_COUNT: '3' })?.shard).toEqual({
+      index: 3,
+      count: 3,
+    });
+    expect(userMessage(() => resolveShard(undefined, { JOB_COMPLETION_INDEX: '2' }))).toMatch(
+      /set LANDFORM_SHARD_COUNT/,
     );
+    expect(
+      userMessage(() => resolveShard(undefined, { JOB_COMPLETION_INDEX: '3', LANDFORM_SHARD_COUNT: '3' })),
+    ).toMatch(/does not fit/);
   });
 });
 
 describe('shardFileName', () => {
   it('derives the shard file from --out, zero-padded to the width of N', () => {
-    expect(shardFileName('out/diagrams.csv', { index: 2, count: 7 })).toBe(join('out', 'diagrams.shard-2-of-7.csv'));
+    expect(shardFileName('out/diagrams.csv', { index: 2, count: 7 })).toBe(
+      join('out', 'diagrams.shard-2-of-7.csv'),
+    );
     expect(shardFileName('features.arrow', { index: 3, count: 12 })).toBe('features.shard-03-of-12.arrow');
     expect(shardFileName('x', { index: 1, count: 1 })).toBe('x.shard-1-of-1');
   });
@@ -172,11 +200,19 @@ describe('shardFileName', () => {
 
 describe('planShard', () => {
   const rng = new Random(11);
-  const samples = Array.from({ length: 21 }, (_, i) => cloud(`part-${i}`, i % 3 === 0 ? 'intact' : 'broken', rng));
+  const samples = Array.from({ length: 21 }, (_, i) =>
+    cloud(`part-${i}`, i % 3 === 0 ? 'intact' : 'broken', rng),
+  );
   const prov = provenance('diagrams', { degrees: [0, 1], out: 'd.csv', workers: 2 });
 
   it('without a shard keeps every sample and the file as given', () => {
-    const plan = planShard({ samples, out: 'd.csv', shard: undefined, output: 'diagrams', settings: prov.options });
+    const plan = planShard({
+      samples,
+      out: 'd.csv',
+      shard: undefined,
+      output: 'diagrams',
+      settings: prov.options,
+    });
     expect(plan.samples).toHaveLength(21);
     expect(plan.out).toBe('d.csv');
     expect(plan.stamp(prov)).toEqual(prov);
@@ -200,21 +236,40 @@ describe('planShard', () => {
     expect(plan.finished).toBe(false);
 
     writeWithProvenance(plan.out, 'sample,label,degree,birth,death\n', plan.stamp(prov));
-    expect(planShard({ samples, out, shard, output: 'diagrams', settings: prov.options }).finished).toBe(true);
+    expect(planShard({ samples, out, shard, output: 'diagrams', settings: prov.options }).finished).toBe(
+      true,
+    );
     // --force recomputes.
-    expect(planShard({ samples, out, shard, output: 'diagrams', settings: prov.options, force: true }).finished).toBe(false);
+    expect(
+      planShard({ samples, out, shard, output: 'diagrams', settings: prov.options, force: true }).finished,
+    ).toBe(false);
     // Worker count and output name do not change results: still finished.
     const other = provenance('diagrams', { degrees: [0, 1], out: 'd.csv', workers: 1 });
-    expect(planShard({ samples, out, shard, output: 'diagrams', settings: other.options }).finished).toBe(true);
+    expect(planShard({ samples, out, shard, output: 'diagrams', settings: other.options }).finished).toBe(
+      true,
+    );
     // Other options, or changed data, mean the shard must run again.
     const changed = provenance('diagrams', { degrees: [0], out: 'd.csv', workers: 2 });
-    expect(planShard({ samples, out, shard, output: 'diagrams', settings: changed.options }).finished).toBe(false);
-    const edited = samples.map((s, i) => (i === record.ordinals[0] ? { ...s, coords: s.coords.map((v) => v + 1) } : s));
-    expect(planShard({ samples: edited, out, shard, output: 'diagrams', settings: prov.options }).finished).toBe(false);
+    expect(planShard({ samples, out, shard, output: 'diagrams', settings: changed.options }).finished).toBe(
+      false,
+    );
+    const edited = samples.map((s, i) =>
+      i === record.ordinals[0] ? { ...s, coords: s.coords.map((v) => v + 1) } : s,
+    );
+    expect(
+      planShard({ samples: edited, out, shard, output: 'diagrams', settings: prov.options }).finished,
+    ).toBe(false);
     // An output whose sidecar is missing (e.g. the run died between the two renames) is not finished.
     writeFileSync(join(dir, 'd.shard-1-of-3.csv'), 'sample,label,degree,birth,death\n');
-    expect(planShard({ samples, out, shard: resolveShard('1/3', {}), output: 'diagrams', settings: prov.options }).finished).toBe(false);
-    expect(readdirSync(dir).sort()).toEqual(['d.shard-1-of-3.csv', 'd.shard-2-of-3.csv', 'd.shard-2-of-3.csv.provenance.json']);
+    expect(
+      planShard({ samples, out, shard: resolveShard('1/3', {}), output: 'diagrams', settings: prov.options })
+        .finished,
+    ).toBe(false);
+    expect(readdirSync(dir).sort()).toEqual([
+      'd.shard-1-of-3.csv',
+      'd.shard-2-of-3.csv',
+      'd.shard-2-of-3.csv.provenance.json',
+    ]);
   });
 
   it('shared provenance ignores per-shard keys but keeps the rest', () => {

@@ -17,7 +17,10 @@ export function defineMerge(program: Command): Command {
   return program
     .command('merge')
     .description('join the shard outputs of a sharded diagrams or vectorize run into one file')
-    .argument('<files...>', 'the shard outputs (e.g. out/diagrams.shard-*.csv), each with its .provenance.json beside it')
+    .argument(
+      '<files...>',
+      'the shard outputs (e.g. out/diagrams.shard-*.csv), each with its .provenance.json beside it',
+    )
     .option('--out <file>', 'the merged file (.csv, .arrow, or .npy for features); format from its extension')
     .option('--format <format>', 'csv, npy or arrow, when the extension should not decide')
     .addHelpText(
@@ -32,7 +35,8 @@ Example:
   landform merge out/diagrams.shard-*-of-7.csv --out diagrams.csv`,
     )
     .action(async (files: string[], options: MergeOptions) => {
-      if (options.out === undefined) throw new UserError('--out FILE is required: where to write the merged file');
+      if (options.out === undefined)
+        throw new UserError('--out FILE is required: where to write the merged file');
       const { mergeShards } = await import('../../io/merge.js');
       const progress = await startProgress('merge', files.length, options.quiet === true);
       try {
