@@ -103,7 +103,8 @@ function wholeNumber(env: Record<string, string | undefined>, name: string): num
  * the shard is `(ID − SLURM_ARRAY_TASK_MIN) / SLURM_ARRAY_TASK_STEP + 1` (MIN 0 and STEP 1 when unset). A list
  * of ids that is not one evenly stepped range (`--array=1,4,9`) is refused: pass `--shard` instead.
  * Kubernetes: `JOB_COMPLETION_INDEX` counts from 0; the count is not in the pod's environment, so it comes
- * from `LANDFORM_SHARD_COUNT` (set it to the job's `completions`).
+ * from `LANDFORM_SHARD_COUNT` (set it to the job's `completions`); without that variable the pod is not
+ * sharded, since an indexed job may be indexing something else.
  */
 export function resolveShard(
   optionText: string | undefined,
@@ -138,13 +139,9 @@ export function resolveShard(
     };
   }
   const completion = wholeNumber(env, 'JOB_COMPLETION_INDEX');
-  if (completion !== undefined) {
-    const count = wholeNumber(env, SHARD_COUNT_VARIABLE);
-    if (count === undefined) {
-      throw new UserError(
-        `running as Kubernetes indexed job element ${completion} but the shard count is unknown; set ${SHARD_COUNT_VARIABLE} to the job's completions, or pass --shard I/N`,
-      );
-    }
+  // An indexed job without our count variable may index something else (a CI runner, say): not a shard.
+  const count = wholeNumber(env, SHARD_COUNT_VARIABLE);
+  if (completion !== undefined && count !== undefined) {
     if (count < 1 || completion >= count) {
       throw new UserError(
         `JOB_COMPLETION_INDEX=${completion} does not fit ${SHARD_COUNT_VARIABLE}=${count}; indexes run from 0 to ${SHARD_COUNT_VARIABLE}−1`,
