@@ -10,6 +10,7 @@ import {
 import { UserError } from '../../src/core/errors.js';
 import { parseDiagramCsv } from '../../src/io/diagram-csv.js';
 import { runCli, tempDir } from '../helpers/cli.js';
+import { writeShapes } from './shapes-fixture.js';
 
 describe('--filtration and --subsample', () => {
   it('default to plain Rips without landmarks', () => {
@@ -150,5 +151,52 @@ describe('--filtration and --subsample on landform diagrams', () => {
     const r = runCli(['diagrams', input, '--filtration', 'dtm', '--out', join(dir, 'd.csv')]);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/--filtration 'dtm' is not known/);
+  });
+});
+
+describe('--filtration through vectorize and train', () => {
+  it('records the filtration in the feature provenance and keeps it in a saved model', () => {
+    const dir = tempDir();
+    const input = join(dir, 'shapes.csv');
+    writeShapes(input, 3, 15);
+    const out = join(dir, 'features.csv');
+    const r = runCli([
+      'vectorize',
+      input,
+      '--filtration',
+      'alpha',
+      '--depth',
+      '2',
+      '--grid-size',
+      '5',
+      '--workers',
+      '1',
+      '--out',
+      out,
+    ]);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    expect(readFileSync(`${out}.provenance.json`, 'utf8')).toMatch(/"filtration": "alpha"/);
+    const model = join(dir, 'model');
+    const t = runCli([
+      'train',
+      input,
+      '--filtration',
+      'dtm:3',
+      '--depths',
+      '2',
+      '--grid-sizes',
+      '6',
+      '--inner-folds',
+      '2',
+      '--workers',
+      '1',
+      '--save',
+      model,
+    ]);
+    expect(t.stderr).toBe('');
+    expect(t.code).toBe(0);
+    const manifest = JSON.parse(readFileSync(join(model, 'manifest.json'), 'utf8'));
+    expect(manifest.record.diagramOptions.filtration).toEqual({ kind: 'dtm', k: 3 });
   });
 });

@@ -17,6 +17,7 @@ import { loadDataset, parseKind } from '../../io/load.js';
 import { MODEL_NAMES, type ModelName } from '../../learn/classifier.js';
 import type { EvaluationOptions } from '../../learn/evaluate.js';
 import type { LandscapeCandidate } from '../../learn/select.js';
+import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
 import {
   parseChoiceOption,
   parseDegreesOption,
@@ -45,11 +46,13 @@ export interface StudyCommandOptions {
   superlevel?: boolean;
   workers?: string;
   quiet?: boolean;
+  filtration?: string;
+  subsample?: string;
 }
 
 /** Adds the options that say how diagrams are computed (shared by evaluate, train, vectorize). */
 export function addDiagramOptions(command: Command): Command {
-  return command
+  return addFiltrationOptions(command)
     .option('--kind <kind>', 'sample kind (default: detected from the input)')
     .option('--degrees <list>', 'homology degrees for the diagrams and landscapes, from 0, 1, 2', '0,1')
     .option('--max-scale <r>', 'largest Rips scale kept (default: none)')
@@ -95,7 +98,15 @@ export interface ParsedDiagramOptions {
 export function parseDiagramOptions(
   o: Pick<
     StudyCommandOptions,
-    'kind' | 'degrees' | 'maxScale' | 'metric' | 'embed' | 'superlevel' | 'workers'
+    | 'kind'
+    | 'degrees'
+    | 'maxScale'
+    | 'metric'
+    | 'embed'
+    | 'superlevel'
+    | 'workers'
+    | 'filtration'
+    | 'subsample'
   >,
 ): ParsedDiagramOptions {
   const degrees = parseDegreesOption(o.degrees, '--degrees', 2);
@@ -109,6 +120,9 @@ export function parseDiagramOptions(
   if (maxScale !== undefined) diagramOptions.maxScale = maxScale;
   if (embed !== undefined) diagramOptions.embed = embed;
   if (o.superlevel) diagramOptions.superlevel = true;
+  const choice = parseFiltrationOptions(o);
+  if (choice.filtration !== 'rips') diagramOptions.filtration = choice.filtration;
+  if (choice.subsample !== undefined) diagramOptions.subsample = choice.subsample;
   return {
     degrees,
     diagramOptions,
@@ -126,6 +140,10 @@ export function diagramRecord(kind: SampleKind, d: DiagramOptions): Record<strin
     maxScale: d.maxScale ?? null,
     embed: d.embed ?? null,
     superlevel: d.superlevel === true,
+    ...filtrationRecord({
+      filtration: d.filtration ?? 'rips',
+      ...(d.subsample ? { subsample: d.subsample } : {}),
+    }),
   };
 }
 
