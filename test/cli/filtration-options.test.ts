@@ -200,3 +200,38 @@ describe('--filtration through vectorize and train', () => {
     expect(manifest.record.diagramOptions.filtration).toEqual({ kind: 'dtm', k: 3 });
   });
 });
+
+describe('--filtration through contrast', () => {
+  it('compares class means of DTM landscapes and records the filtration and landmarks', () => {
+    const dir = tempDir();
+    const input = join(dir, 'shapes.csv');
+    writeShapes(input, 4, 30);
+    const r = runCli([
+      'contrast',
+      input,
+      '--filtration',
+      'dtm:3',
+      '--subsample',
+      'random:20:2',
+      '--permutations',
+      '19',
+      '--grid-count',
+      '20',
+      '--workers',
+      '1',
+      '--quiet',
+    ]);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const result = JSON.parse(r.stdout) as {
+      options: {
+        filtration: string;
+        subsample: string;
+        coveringRadius: { perSample: Record<string, number> };
+      };
+    };
+    expect(result.options.filtration).toBe('dtm:3');
+    expect(result.options.subsample).toBe('random:20:2');
+    expect(Object.keys(result.options.coveringRadius.perSample)).toHaveLength(8);
+  });
+});

@@ -5,6 +5,7 @@ import type { DiagramOptions } from '../../homology/compute.js';
 import type { DiagramSet } from '../../homology/diagram.js';
 import type { Metric } from '../../homology/metric.js';
 import type { Dataset } from '../../io/dataset.js';
+import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
 import {
   parseChoiceOption,
   parseDegreesOption,
@@ -31,6 +32,8 @@ interface ContrastFlags {
   workers?: string;
   out?: string;
   quiet?: boolean;
+  filtration?: string;
+  subsample?: string;
 }
 
 /** `--p 2`, `--p 1.5` or `--p inf`. */
@@ -76,8 +79,7 @@ export async function diagramsOfDataset(
 }
 
 export function defineContrast(program: Command): Command {
-  return program
-    .command('contrast')
+  return addFiltrationOptions(program.command('contrast'))
     .description(
       'test, for every pair of classes and degree, whether their mean landscapes differ (permutation test, Holm-corrected)',
     )
@@ -113,8 +115,11 @@ export function defineContrast(program: Command): Command {
       const infinite = parseInfiniteOption(flags.infinite);
       const workers =
         flags.workers === undefined ? undefined : parseIntegerOption(flags.workers, '--workers', 1, 256);
+      const choice = parseFiltrationOptions(flags);
       const diagramOptions: DiagramOptions = {
         degrees,
+        ...(choice.filtration === 'rips' ? {} : { filtration: choice.filtration }),
+        ...(choice.subsample === undefined ? {} : { subsample: choice.subsample }),
         ...(flags.maxScale === undefined
           ? {}
           : { maxScale: parseNumberOption(flags.maxScale, '--max-scale', { positive: true }) }),
@@ -181,6 +186,7 @@ export function defineContrast(program: Command): Command {
       const options = {
         kind: dataset.kind,
         ...diagramOptions,
+        ...filtrationRecord(choice, sets),
         depth,
         gridCount,
         permutations,
