@@ -3,9 +3,9 @@
  * samples (io) → diagrams (homology) → landscapes (landscape) → vectors (features) → models (learn) → report.
  */
 export * from './core/index.js';
-export * from './homology/index.js';
-export * from './landscape/index.js';
 export * from './features/index.js';
-export * from './learn/index.js';
+export * from './homology/index.js';
 export * from './io/index.js';
+export * from './landscape/index.js';
+export * from './learn/index.js';
 export * from './report/index.js';

@@ -26,7 +26,14 @@ export function buildProgram(): Command {
 export async function main(argv: string[]): Promise<number> {
   const program = buildProgram();
   let commanderMessage = '';
-  const capture = { writeErr: (s: string) => { commanderMessage += s; }, outputError: (s: string) => { commanderMessage += s; } };
+  const capture = {
+    writeErr: (s: string) => {
+      commanderMessage += s;
+    },
+    outputError: (s: string) => {
+      commanderMessage += s;
+    },
+  };
   program.configureOutput(capture);
   for (const sub of program.commands) sub.configureOutput(capture);
   const debug = argv.includes('--debug');
@@ -35,12 +42,17 @@ export async function main(argv: string[]): Promise<number> {
     return 0;
   } catch (error) {
     if (error instanceof CommanderError) {
-      if (error.code === 'commander.helpDisplayed' || error.code === 'commander.version' || error.code === 'commander.help') {
+      if (
+        error.code === 'commander.helpDisplayed' ||
+        error.code === 'commander.version' ||
+        error.code === 'commander.help'
+      ) {
         if (commanderMessage) process.stdout.write(commanderMessage);
         return 0;
       }
       if (error.exitCode === 0) return 0;
-      const first = (commanderMessage || error.message).split('\n').find((l) => l.trim() !== '') ?? error.message;
+      const first =
+        (commanderMessage || error.message).split('\n').find((l) => l.trim() !== '') ?? error.message;
       const sub = program.commands.find((c) => c.name() === argv[0]);
       const what = first.replace(/^error:\s*/, '').replace(/\.\s*$/, '');
       process.stderr.write(`landform: ${what}; see 'landform ${sub ? `${sub.name()} ` : ''}--help'\n`);
@@ -115,7 +127,9 @@ if (isEntryPoint()) {
       process.exitCode = code;
     },
     (error) => {
-      process.stderr.write(`landform: internal error: ${String(error)}. This is a bug in landform; please report it.\n`);
+      process.stderr.write(
+        `landform: internal error: ${String(error)}. This is a bug in landform; please report it.\n`,
+      );
       process.exitCode = 1;
     },
   );

@@ -3,7 +3,12 @@ import { type InfinitePolicy, parseInfinitePolicy } from '../homology/diagram.js
 
 /** Parsers for option values; each throws the one-line user error naming the option. */
 
-export function parseIntegerOption(text: string, option: string, min = Number.MIN_SAFE_INTEGER, max = Number.MAX_SAFE_INTEGER): number {
+export function parseIntegerOption(
+  text: string,
+  option: string,
+  min = Number.MIN_SAFE_INTEGER,
+  max = Number.MAX_SAFE_INTEGER,
+): number {
   const value = Number(text);
   if (!/^[+-]?\d+$/.test(text.trim()) || value < min || value > max) {
     const range = max === Number.MAX_SAFE_INTEGER ? `at least ${min}` : `from ${min} to ${max}`;
@@ -12,12 +17,19 @@ export function parseIntegerOption(text: string, option: string, min = Number.MI
   return value;
 }
 
-export function parseNumberOption(text: string, option: string, check?: { positive?: boolean; min?: number; max?: number }): number {
+export function parseNumberOption(
+  text: string,
+  option: string,
+  check?: { positive?: boolean; min?: number; max?: number },
+): number {
   const value = Number(text);
-  if (text.trim() === '' || !Number.isFinite(value)) throw new UserError(`${option} '${text}' is not a finite number`);
+  if (text.trim() === '' || !Number.isFinite(value))
+    throw new UserError(`${option} '${text}' is not a finite number`);
   if (check?.positive && !(value > 0)) throw new UserError(`${option} '${text}' must be greater than 0`);
-  if (check?.min !== undefined && value < check.min) throw new UserError(`${option} '${text}' must be at least ${check.min}`);
-  if (check?.max !== undefined && value > check.max) throw new UserError(`${option} '${text}' must be at most ${check.max}`);
+  if (check?.min !== undefined && value < check.min)
+    throw new UserError(`${option} '${text}' must be at least ${check.min}`);
+  if (check?.max !== undefined && value > check.max)
+    throw new UserError(`${option} '${text}' must be at most ${check.max}`);
   return value;
 }
 
@@ -30,7 +42,10 @@ export function parseDegreesOption(text: string, option = '--degrees', max = 2):
 
 /** `a,b,c` → ['a','b','c'], each one of `allowed`. */
 export function parseListOption<T extends string>(text: string, option: string, allowed: readonly T[]): T[] {
-  const parts = text.split(',').map((s) => s.trim()).filter((s) => s !== '');
+  const parts = text
+    .split(',')
+    .map((s) => s.trim())
+    .filter((s) => s !== '');
   if (parts.length === 0) throw new UserError(`${option} is empty; choose from ${allowed.join(', ')}`);
   for (const p of parts) {
     if (!(allowed as readonly string[]).includes(p)) {
@@ -48,9 +63,13 @@ export function parseChoiceOption<T extends string>(text: string, option: string
 }
 
 /** `START:STOP:COUNT` → a grid with COUNT ≥ 2 points and START < STOP. */
-export function parseGridOption(text: string, option = '--grid'): { start: number; stop: number; count: number } {
+export function parseGridOption(
+  text: string,
+  option = '--grid',
+): { start: number; stop: number; count: number } {
   const parts = text.split(':');
-  if (parts.length !== 3) throw new UserError(`${option} '${text}' must look like START:STOP:COUNT, e.g. 0:2:100`);
+  if (parts.length !== 3)
+    throw new UserError(`${option} '${text}' must look like START:STOP:COUNT, e.g. 0:2:100`);
   const start = parseNumberOption(parts[0], `${option} start`);
   const stop = parseNumberOption(parts[1], `${option} stop`);
   const count = parseIntegerOption(parts[2], `${option} count`, 2, 1_000_000);

@@ -16,7 +16,8 @@ export class UserError extends Error {
   /** The one line shown to the user (without the `landform: ` prefix). */
   describe(): string {
     const parts: string[] = [];
-    if (this.file !== undefined) parts.push(this.line !== undefined ? `${this.file}:${this.line}` : this.file);
+    if (this.file !== undefined)
+      parts.push(this.line !== undefined ? `${this.file}:${this.line}` : this.file);
     parts.push(this.message);
     return parts.join(': ');
   }
@@ -27,6 +28,10 @@ export function isUserError(error: unknown): error is UserError {
 }
 
 /** Throws a UserError unless `condition` holds. */
-export function ensure(condition: unknown, message: string, where?: { file?: string; line?: number }): asserts condition {
+export function ensure(
+  condition: unknown,
+  message: string,
+  where?: { file?: string; line?: number },
+): asserts condition {
   if (!condition) throw new UserError(message, where);
 }

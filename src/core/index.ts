@@ -1,3 +1,3 @@
-export { UserError, isUserError, ensure } from './errors.js';
+export { ensure, isUserError, UserError } from './errors.js';
 export { Random } from './random.js';
-export { version, provenance, packageRoot, type Provenance } from './version.js';
+export { type Provenance, packageRoot, provenance, version } from './version.js';

@@ -11,9 +11,14 @@ export function packageRoot(): string {
     let dir = dirname(fileURLToPath(import.meta.url));
     for (;;) {
       const candidate = join(dir, 'package.json');
-      if (existsSync(candidate) && (JSON.parse(readFileSync(candidate, 'utf8')) as { name?: string }).name === 'landform') break;
+      if (
+        existsSync(candidate) &&
+        (JSON.parse(readFileSync(candidate, 'utf8')) as { name?: string }).name === 'landform'
+      )
+        break;
       const parent = dirname(dir);
-      if (parent === dir) throw new Error('landform: package.json not found above ' + fileURLToPath(import.meta.url));
+      if (parent === dir)
+        throw new Error('landform: package.json not found above ' + fileURLToPath(import.meta.url));
       dir = parent;
     }
     cachedRoot = dir;

@@ -20,7 +20,10 @@ export interface DiagramSet {
   diagrams: Diagram[];
 }
 
-export function makeDiagram(degree: number, pairs: ArrayLike<PersistencePair> | Array<[number, number]>): Diagram {
+export function makeDiagram(
+  degree: number,
+  pairs: ArrayLike<PersistencePair> | Array<[number, number]>,
+): Diagram {
   const n = pairs.length;
   const births = new Float64Array(n);
   const deaths = new Float64Array(n);
@@ -47,7 +50,8 @@ export function pairCount(diagram: Diagram): number {
 
 export function toPairs(diagram: Diagram): PersistencePair[] {
   const out: PersistencePair[] = [];
-  for (let i = 0; i < diagram.births.length; i++) out.push({ birth: diagram.births[i], death: diagram.deaths[i] });
+  for (let i = 0; i < diagram.births.length; i++)
+    out.push({ birth: diagram.births[i], death: diagram.deaths[i] });
   return out;
 }
 
@@ -84,7 +88,8 @@ export function finitePairs(diagram: Diagram, policy: InfinitePolicy = DEFAULT_I
   if (!hasInfinite) return diagram;
   if (policy.mode === 'drop') return selectPairs(diagram, (_b, d) => d !== Infinity);
   const clipped = selectPairs(diagram, (b, d) => d !== Infinity || policy.value > b);
-  for (let i = 0; i < clipped.deaths.length; i++) if (clipped.deaths[i] === Infinity) clipped.deaths[i] = policy.value;
+  for (let i = 0; i < clipped.deaths.length; i++)
+    if (clipped.deaths[i] === Infinity) clipped.deaths[i] = policy.value;
   return clipped;
 }
 

@@ -1,3 +1,7 @@
+export { type AlphaComplex, type AlphaOptions, alphaComplex, alphaPersistence } from './alpha.js';
+export { type Assignment, solveAssignment } from './assignment.js';
+export { computeDiagrams, type DiagramOptions } from './compute.js';
+export { type CubicalOptions, cubicalPersistence } from './cubical.js';
 export * from './diagram.js';
 export {
   bottleneckDistance,
@@ -6,24 +10,20 @@ export {
   distanceMatrix,
   wassersteinDistance,
 } from './distance.js';
-export { type Assignment, solveAssignment } from './assignment.js';
-export { type RipsOptions, enclosingRadius, ripsPersistence } from './rips.js';
-export { condensedIndex, condensedLength, edgeEndpoints } from './simplex-index.js';
-export { condenseMatrix, METRICS, type Metric, pairwiseDistances } from './metric.js';
-export { type CubicalOptions, cubicalPersistence } from './cubical.js';
-export { type DelayEmbedding, delayEmbedding, signalPersistence } from './signal.js';
-export { computeDiagrams, type DiagramOptions } from './compute.js';
-export { computeDiagramsParallel, type ParallelRun } from './parallel.js';
-export { type AlphaComplex, type AlphaOptions, alphaComplex, alphaPersistence } from './alpha.js';
 export { type DtmOptions, dtmEdgeValue, dtmPersistence, dtmPersistenceFromMatrix, dtmValues } from './dtm.js';
-export { type Filtration, describeFiltration, parseFiltration } from './filtration.js';
+export { describeFiltration, type Filtration, parseFiltration } from './filtration.js';
+export { condenseMatrix, METRICS, type Metric, pairwiseDistances } from './metric.js';
 export { type NeighbourTable, nearestNeighbours } from './nearest.js';
+export { computeDiagramsParallel, type ParallelRun } from './parallel.js';
+export { enclosingRadius, type RipsOptions, ripsPersistence } from './rips.js';
+export { type DelayEmbedding, delayEmbedding, signalPersistence } from './signal.js';
+export { condensedIndex, condensedLength, edgeEndpoints } from './simplex-index.js';
 export {
-  type Landmarks,
-  type SubsampleSpec,
   describeSubsample,
+  type Landmarks,
   maxminLandmarks,
   parseSubsample,
+  type SubsampleSpec,
   selectLandmarks,
   subsampleSample,
 } from './subsample.js';

@@ -7,7 +7,10 @@ import { basename, dirname, join } from 'node:path';
  * file, and a failed run leaves nothing behind.
  */
 export function temporaryName(path: string): string {
-  return join(dirname(path), `.landform-tmp-${basename(path)}-${process.pid}-${randomBytes(4).toString('hex')}`);
+  return join(
+    dirname(path),
+    `.landform-tmp-${basename(path)}-${process.pid}-${randomBytes(4).toString('hex')}`,
+  );
 }
 
 export function writeFileAtomic(path: string, data: string | Uint8Array): void {
@@ -46,7 +49,10 @@ export function writeFilesAtomic(files: Array<{ path: string; data: string | Uin
  * Builds a folder of outputs atomically: `build` fills a temporary folder beside `dir`; on success the old
  * `dir` (if any) is replaced by it, on failure the temporary folder is removed.
  */
-export async function writeFolderAtomic(dir: string, build: (tmpDir: string) => Promise<void> | void): Promise<void> {
+export async function writeFolderAtomic(
+  dir: string,
+  build: (tmpDir: string) => Promise<void> | void,
+): Promise<void> {
   mkdirSync(dirname(dir), { recursive: true });
   const tmp = temporaryName(dir);
   mkdirSync(tmp, { recursive: true });

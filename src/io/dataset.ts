@@ -6,7 +6,14 @@ import type { Diagram } from '../homology/diagram.js';
  */
 export type SampleKind = 'points' | 'distances' | 'signal' | 'image' | 'table' | 'diagrams';
 
-export const SAMPLE_KINDS: readonly SampleKind[] = ['points', 'distances', 'signal', 'image', 'table', 'diagrams'];
+export const SAMPLE_KINDS: readonly SampleKind[] = [
+  'points',
+  'distances',
+  'signal',
+  'image',
+  'table',
+  'diagrams',
+];
 
 interface SampleBase {
   /** The sample id, unique in its dataset. */

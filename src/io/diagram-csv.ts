@@ -1,7 +1,7 @@
 import { UserError } from '../core/errors.js';
 import type { Diagram, DiagramSet } from '../homology/diagram.js';
-import { csvField, csvNumber, parseCsv, parseNumberField, readTextFile, shown } from './csv.js';
 import { writeFileAtomic } from './atomic.js';
+import { csvField, csvNumber, parseCsv, parseNumberField, readTextFile, shown } from './csv.js';
 
 /** The diagram CSV layout, a contract other tools read: one persistence pair per row. */
 export const DIAGRAM_CSV_HEADER = ['sample', 'label', 'degree', 'birth', 'death'] as const;
@@ -35,19 +35,26 @@ export function writeDiagramCsv(file: string, sets: readonly DiagramSet[]): void
  */
 export function parseDiagramCsv(text: string, file: string): DiagramSet[] {
   const rows = parseCsv(text, file);
-  if (rows.length === 0) throw new UserError('empty file; expected the header sample,label,degree,birth,death', { file });
+  if (rows.length === 0)
+    throw new UserError('empty file; expected the header sample,label,degree,birth,death', { file });
   const header = rows[0].fields.map((f) => f.trim().toLowerCase());
   const index = new Map<string, number>();
-  header.forEach((name, i) => index.set(name, i));
+  header.forEach((name, i) => {
+    index.set(name, i);
+  });
   for (const name of DIAGRAM_CSV_HEADER) {
     if (!index.has(name)) {
-      throw new UserError(`missing column '${shown(name)}'; the header must be sample,label,degree,birth,death`, {
-        file,
-        line: rows[0].line,
-      });
+      throw new UserError(
+        `missing column '${shown(name)}'; the header must be sample,label,degree,birth,death`,
+        {
+          file,
+          line: rows[0].line,
+        },
+      );
     }
   }
-  if (rows.length === 1) throw new UserError('header only, no pairs; a diagram file needs at least one row', { file });
+  if (rows.length === 1)
+    throw new UserError('header only, no pairs; a diagram file needs at least one row', { file });
   const iSample = index.get('sample')!;
   const iLabel = index.get('label')!;
   const iDegree = index.get('degree')!;
@@ -64,7 +71,10 @@ export function parseDiagramCsv(text: string, file: string): DiagramSet[] {
   for (let r = 1; r < rows.length; r++) {
     const { line, fields } = rows[r];
     if (fields.length !== header.length) {
-      throw new UserError(`has ${fields.length} fields, the header has ${header.length}; fix the row`, { file, line });
+      throw new UserError(`has ${fields.length} fields, the header has ${header.length}; fix the row`, {
+        file,
+        line,
+      });
     }
     const sample = fields[iSample];
     if (sample === '') throw new UserError('empty sample id; every row needs one', { file, line });
@@ -72,20 +82,27 @@ export function parseDiagramCsv(text: string, file: string): DiagramSet[] {
     const degreeText = fields[iDegree];
     const degree = Number(degreeText);
     if (!/^\d+$/.test(degreeText) || degree > MAX_DIAGRAM_DEGREE) {
-      throw new UserError(`unknown degree '${shown(degreeText)}'; degrees are whole numbers 0 to ${MAX_DIAGRAM_DEGREE}`, {
-        file,
-        line,
-      });
+      throw new UserError(
+        `unknown degree '${shown(degreeText)}'; degrees are whole numbers 0 to ${MAX_DIAGRAM_DEGREE}`,
+        {
+          file,
+          line,
+        },
+      );
     }
     const birth = parseNumberField(fields[iBirth], { file, line, column: 'birth' });
     const death = parseNumberField(fields[iDeath], { file, line, column: 'death' }, { infinite: true });
-    if (death < birth) throw new UserError(`death ${fields[iDeath]} is before birth ${fields[iBirth]}`, { file, line });
+    if (death < birth)
+      throw new UserError(`death ${fields[iDeath]} is before birth ${fields[iBirth]}`, { file, line });
     let b = builders.get(sample);
     if (b === undefined) {
       b = { sample, label, byDegree: new Map() };
       builders.set(sample, b);
     } else if (b.label !== label) {
-      throw new UserError(`sample '${shown(sample)}' has label '${shown(label)}' here but '${shown(b.label)}' earlier`, { file, line });
+      throw new UserError(
+        `sample '${shown(sample)}' has label '${shown(label)}' here but '${shown(b.label)}' earlier`,
+        { file, line },
+      );
     }
     let d = b.byDegree.get(degree);
     if (d === undefined) {

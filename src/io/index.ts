@@ -1,61 +1,73 @@
-export * from './dataset.js';
-export { writeFileAtomic, writeFilesAtomic, writeFolderAtomic } from './atomic.js';
-export { parseCsv, csvField, csvNumber, type CsvRow } from './csv.js';
-export { provenancePath, readProvenance, writeWithProvenance } from './provenance-file.js';
-export { DIAGRAM_CSV_HEADER, formatDiagramCsv, parseDiagramCsv, readDiagramCsv, writeDiagramCsv } from './diagram-csv.js';
-export { loadDataset, parseKind, kindFromHeader, expectKind, type LoadOptions } from './load.js';
-export { formatNpy, writeNpy, readNpy, parseNpy, npyHeaderText, type NpyArray } from './npy.js';
 export {
-  writeFeatureTable,
-  readFeatureTable,
-  formatFeatureCsv,
-  samplesSidecarPath,
-  columnsSidecarPath,
-  type FeatureTable,
-  type FeatureFormat,
-} from './feature-table.js';
-export {
-  parseShard,
-  formatShard,
-  resolveShard,
-  shardOf,
-  shardOrdinals,
-  shardFileName,
-  planShard,
-  fnv1a32,
-  SHARD_COUNT_VARIABLE,
-  type Shard,
-  type ResolvedShard,
-  type ShardRecord,
-  type ShardPlan,
-  type ShardedProvenance,
-} from './shard.js';
-export {
-  mergeShards,
-  chooseFormat,
-  formatFromPath,
-  writeDiagramsOutput,
-  writeFeaturesOutput,
-  readDiagramsOutput,
-  readFeaturesOutput,
-  type OutputFormat,
-  type MergeSummary,
-} from './merge.js';
-export {
+  type ArrowContent,
   formatDiagramArrow,
   formatFeatureArrow,
+  loadArrowDataset,
   readArrow,
   readDiagramArrow,
   readFeatureArrow,
   writeDiagramArrow,
   writeFeatureArrow,
-  loadArrowDataset,
-  type ArrowContent,
 } from './arrow.js';
-export { formatPointsCsv, formatSignalCsv, formatTableCsv, formatLabelsCsv, defaultCoordinateNames } from './sample-writers.js';
-export { parsePgm, formatPgm, parsePng, formatPng, type GrayImage } from './image-file.js';
-export { loadFolder, distanceFault, DISTANCE_TOLERANCE } from './folder.js';
-export { readLabelsFile, checkInsidePath, LABELS_FILE, type LabelledFile } from './labels-file.js';
-export { SCENARIOS, scenarioNamed, datasetFiles, datasetsReadme, type Scenario } from './scenarios/index.js';
+export { writeFileAtomic, writeFilesAtomic, writeFolderAtomic } from './atomic.js';
+export { type CsvRow, csvField, csvNumber, parseCsv } from './csv.js';
+export * from './dataset.js';
+export {
+  DIAGRAM_CSV_HEADER,
+  formatDiagramCsv,
+  parseDiagramCsv,
+  readDiagramCsv,
+  writeDiagramCsv,
+} from './diagram-csv.js';
+export {
+  columnsSidecarPath,
+  type FeatureFormat,
+  type FeatureTable,
+  formatFeatureCsv,
+  readFeatureTable,
+  samplesSidecarPath,
+  writeFeatureTable,
+} from './feature-table.js';
+export { DISTANCE_TOLERANCE, distanceFault, loadFolder } from './folder.js';
+export { formatPgm, formatPng, type GrayImage, parsePgm, parsePng } from './image-file.js';
 export { formatJsonOutput, writeJsonOutput } from './json-output.js';
-export { summarizeDataset, formatSummary, type DatasetSummary, type SizeRange } from './summary.js';
+export { checkInsidePath, LABELS_FILE, type LabelledFile, readLabelsFile } from './labels-file.js';
+export { expectKind, kindFromHeader, type LoadOptions, loadDataset, parseKind } from './load.js';
+export {
+  chooseFormat,
+  formatFromPath,
+  type MergeSummary,
+  mergeShards,
+  type OutputFormat,
+  readDiagramsOutput,
+  readFeaturesOutput,
+  writeDiagramsOutput,
+  writeFeaturesOutput,
+} from './merge.js';
+export { formatNpy, type NpyArray, npyHeaderText, parseNpy, readNpy, writeNpy } from './npy.js';
+export { provenancePath, readProvenance, writeWithProvenance } from './provenance-file.js';
+export {
+  defaultCoordinateNames,
+  formatLabelsCsv,
+  formatPointsCsv,
+  formatSignalCsv,
+  formatTableCsv,
+} from './sample-writers.js';
+export { datasetFiles, datasetsReadme, SCENARIOS, type Scenario, scenarioNamed } from './scenarios/index.js';
+export {
+  fnv1a32,
+  formatShard,
+  parseShard,
+  planShard,
+  type ResolvedShard,
+  resolveShard,
+  SHARD_COUNT_VARIABLE,
+  type Shard,
+  type ShardedProvenance,
+  type ShardPlan,
+  type ShardRecord,
+  shardFileName,
+  shardOf,
+  shardOrdinals,
+} from './shard.js';
+export { type DatasetSummary, formatSummary, type SizeRange, summarizeDataset } from './summary.js';

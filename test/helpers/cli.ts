@@ -12,7 +12,10 @@ export interface CliResult {
 }
 
 /** Runs `landform ARGS` from the TypeScript sources (through tsx), as a user would, in a fresh process. */
-export function runCli(args: string[], options: { cwd?: string; env?: Record<string, string>; input?: string } = {}): CliResult {
+export function runCli(
+  args: string[],
+  options: { cwd?: string; env?: Record<string, string>; input?: string } = {},
+): CliResult {
   const result = spawnSync(process.execPath, ['--import', 'tsx', join(root, 'src/cli/main.ts'), ...args], {
     cwd: options.cwd ?? root,
     env: { ...process.env, CI: 'true', ...options.env },

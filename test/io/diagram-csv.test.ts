@@ -6,7 +6,17 @@ import { formatDiagramCsv, parseDiagramCsv } from '../../src/io/diagram-csv.js';
 describe('diagram CSV', () => {
   it('round-trips pairs, essential classes, empty labels and quoted ids', () => {
     const sets = [
-      { sample: 'a,1', label: '', diagrams: [makeDiagram(0, [[0, Infinity], [0, 0.25]]), makeDiagram(1, [[0.5, 1.125]])] },
+      {
+        sample: 'a,1',
+        label: '',
+        diagrams: [
+          makeDiagram(0, [
+            [0, Infinity],
+            [0, 0.25],
+          ]),
+          makeDiagram(1, [[0.5, 1.125]]),
+        ],
+      },
       { sample: 'b', label: 'ring', diagrams: [makeDiagram(0, [[0, 0.1 + 0.2]]), makeDiagram(1, [])] },
     ];
     const text = formatDiagramCsv(sets);

@@ -69,7 +69,10 @@ export function defineVectorize(program: Command): Command {
       '--out <file>',
       'file to write: .csv, or .npy with FILE.samples.csv and FILE.columns.csv beside it',
     )
-    .option('--shard <I/N>', "only shard I of N (from 1), written as FILE.shard-I-of-N; needs --model or a fixed --grid; default: from a Slurm array or Kubernetes indexed job, 'none' to turn off")
+    .option(
+      '--shard <I/N>',
+      "only shard I of N (from 1), written as FILE.shard-I-of-N; needs --model or a fixed --grid; default: from a Slurm array or Kubernetes indexed job, 'none' to turn off",
+    )
     .option('--force', 'recompute a shard that is already finished')
     .option('--format <format>', 'csv, npy or arrow (default: from the extension of --out)');
   addDiagramOptions(command);
