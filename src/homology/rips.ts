@@ -106,6 +106,10 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
   const births0: number[] = [];
   const deaths0: number[] = [];
   const vertexValue = (v: number): number => (vertexValues === undefined ? 0 : vertexValues[v]);
+  // The endpoints of the ordered edges (and, for degree ≥ 1, every vertex's neighbours in rank order).
+  const neighbours = maxDegree >= 1 ? neighbourLists(n, orderedEdges, rankSorted) : undefined;
+  const lowEnd = neighbours?.low ?? new Int32Array(0);
+  const highEnd = neighbours?.high ?? new Int32Array(0);
   // H0 by union-find; edges that close a cycle become the degree-1 columns.
   const uf = new UnionFind(n);
   const cycleI = new Int32Array(kept);
@@ -113,9 +117,16 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
   const cycleRank = new Int32Array(kept);
   let cycleCount = 0;
   for (let k = 0; k < kept; k++) {
-    const e = orderedEdges[k];
-    const j = edgeHighVertex(e);
-    const i = e - (j * (j - 1)) / 2;
+    let i: number;
+    let j: number;
+    if (neighbours !== undefined) {
+      i = lowEnd[k];
+      j = highEnd[k];
+    } else {
+      const e = orderedEdges[k];
+      j = edgeHighVertex(e);
+      i = e - (j * (j - 1)) / 2;
+    }
     const ri = uf.find(i);
     const rj = uf.find(j);
     if (ri === rj) {
@@ -154,7 +165,7 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
   const table = new BinomialTable(n, 4);
   // Triangles paired in degree 1 are cleared from degree 2: a bitset over all triangle numbers.
   const cleared = maxDegree >= 2 ? new Uint8Array(Math.ceil(binomial(n, 3) / 8)) : undefined;
-  const engine = new Reduction(n, rankOf, levels, table, cleared);
+  const engine = new Reduction(n, rankOf, levels, table, cleared, neighbours as NeighbourLists);
   diagrams.push(engine.reduceEdges(cycleI, cycleJ, cycleRank, cycleCount));
   if (maxDegree === 1) return diagrams;
   diagrams.push(engine.reduceTriangles(levelCount));
@@ -280,6 +291,54 @@ function denseRanks(n: number, rankCond: Int32Array): Int32Array {
   return table;
 }
 
+/**
+ * Every vertex's neighbours (within the threshold) in filtration order of the joining edge, as compressed
+ * rows: row v is vertex[start[v] … start[v+1]) with the edge ranks in `rank`. Filled in one pass over the
+ * ordered edges, so each row comes out sorted by rank without sorting. Memory: 24 bytes per kept edge.
+ */
+interface NeighbourLists {
+  start: Int32Array;
+  vertex: Int32Array;
+  rank: Int32Array;
+  /** The endpoints low[k] < high[k] of the k-th edge in filtration order. */
+  low: Int32Array;
+  high: Int32Array;
+}
+
+function neighbourLists(n: number, orderedEdges: Int32Array, rankSorted: Int32Array): NeighbourLists {
+  const kept = orderedEdges.length;
+  const start = new Int32Array(n + 1);
+  const low = new Int32Array(kept);
+  const high = new Int32Array(kept);
+  for (let k = 0; k < kept; k++) {
+    // invariant: start[v + 1] counts the edges at v among the first k
+    const e = orderedEdges[k];
+    const j = edgeHighVertex(e);
+    const i = e - (j * (j - 1)) / 2;
+    low[k] = i;
+    high[k] = j;
+    start[i + 1]++;
+    start[j + 1]++;
+  }
+  for (let v = 0; v < n; v++) start[v + 1] += start[v];
+  const fill = start.slice(0, n);
+  const vertex = new Int32Array(2 * kept);
+  const rank = new Int32Array(2 * kept);
+  for (let k = 0; k < kept; k++) {
+    // invariant: each row holds, in filtration order, the neighbours joined by the first k edges
+    const i = low[k];
+    const j = high[k];
+    const r = rankSorted[k];
+    let p = fill[i]++;
+    vertex[p] = j;
+    rank[p] = r;
+    p = fill[j]++;
+    vertex[p] = i;
+    rank[p] = r;
+  }
+  return { start, vertex, rank, low, high };
+}
+
 /** min over vertices i of max over j of the edge value (i, j): above it the complex is a cone. */
 export function enclosingRadius(n: number, values: Float64Array): number {
   const far = new Float64Array(n);
@@ -306,9 +365,10 @@ export function estimateRipsBytes(
   const edgeCount = condensedLength(n);
   let kept = 0;
   for (let e = 0; e < edgeCount; e++) if (values[e] <= threshold) kept++;
-  // Edges: sorted copy, ordered list, cycle list, degree-1 columns, pivot map (≈ 8+4+4+8+24 bytes each),
+  // Edges: sorted copy, ordered list, cycle list, degree-1 columns, pivot map, neighbour lists with their
+  // endpoints (≈ 8+4+4+8+24+24 bytes each),
   // plus the dense rank table (4 n² bytes).
-  let bytes = 4 * n * n + 48 * kept;
+  let bytes = 4 * n * n + 72 * kept;
   let triangles = 0;
   if (maxDegree >= 2 && n >= 3) {
     // The fraction of triangles inside the threshold, from a fixed deterministic sample of triples.
@@ -352,7 +412,7 @@ function checkSize(
 ): void {
   const budget = limit ?? Math.max(2 ** 30, 0.8 * freemem());
   // Without degree 2, every edge kept is a cheap upper bound; count exactly only when it does not fit.
-  if (maxDegree < 2 && 4 * n * n + 48 * condensedLength(n) <= budget) return;
+  if (maxDegree < 2 && 4 * n * n + 72 * condensedLength(n) <= budget) return;
   const { bytes, edges, triangles } = estimateRipsBytes(n, values, threshold, maxDegree);
   if (bytes > budget) {
     const mb = (x: number): string => `${Math.round(x / 2 ** 20)} MB`;
@@ -410,6 +470,7 @@ class Reduction {
     private readonly levels: Float64Array,
     private readonly table: BinomialTable,
     private readonly cleared: Uint8Array | undefined,
+    private readonly neighbours: NeighbourLists,
   ) {
     this.step = Math.max(1, Math.ceil(levels.length / 64));
     this.topRank = levels.length - 1;
@@ -581,16 +642,22 @@ class Reduction {
     return true;
   }
 
-  /** Pushes every cofacet {i, j, k} of the edge (i < j) of rank r whose rank lies in (lo, hi]. */
+  /**
+   * Pushes every cofacet {i, j, k} of the edge (i < j) of rank r whose rank lies in (lo, hi]. Only the
+   * neighbours k of i joined by an edge of rank ≤ hi can qualify: i's row is walked in rank order up to hi.
+   */
   private addEdgeCofacets(i: number, j: number, r: number, lo: number, hi: number): void {
     const { n, rankOf, heap, c2, c3 } = this;
-    const rowI = i * n;
+    const { start, vertex, rank } = this.neighbours;
     const rowJ = j * n;
-    // invariant: cofacets with third vertex above k are in the working column
-    for (let k = n - 1; k >= 0; k--) {
-      const rki = rankOf[rowI + k];
+    const end = start[i + 1];
+    // invariant: the cofacets {i, j, vertex[q]} for q < p with rank in (lo, hi] are in the working column
+    for (let p = start[i]; p < end; p++) {
+      const rki = rank[p];
+      if (rki > hi) break;
+      const k = vertex[p];
       const rkj = rankOf[rowJ + k];
-      if (rki === NO_EDGE || rkj === NO_EDGE) continue;
+      if (rkj === NO_EDGE) continue; // also k = j
       let rk = rki > rkj ? rki : rkj;
       if (r > rk) rk = r;
       if (rk <= lo || rk > hi) continue;
