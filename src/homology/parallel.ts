@@ -3,21 +3,27 @@ import { availableParallelism } from 'node:os';
 import { dirname, join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
-import { UserError } from '../core/errors.js';
+import { isUserError, UserError } from '../core/errors.js';
 import type { Sample } from '../io/dataset.js';
 import { computeDiagrams, type DiagramOptions } from './compute.js';
 import type { DiagramSet } from './diagram.js';
 import type { WorkerReply, WorkerTask } from './worker.js';
 
 export interface ParallelRun {
-  /** Worker threads (default: every core). 1 computes in the calling thread. */
+  /**
+   * Threads computing samples (default: every core): the calling thread and workers − 1 worker threads.
+   * 1 computes in the calling thread alone.
+   */
   workers?: number;
   onProgress?: (done: number, total: number) => void;
 }
 
 /**
- * The diagrams of many samples on worker threads, in the order of `samples`. Each worker takes the next
- * sample as soon as it is free. A user mistake in any sample stops the run with that sample's message.
+ * The diagrams of many samples on worker threads, in the order of `samples`. Each thread takes the next
+ * sample as soon as it is free; every started worker keeps two samples in hand, so that it never waits for
+ * the calling thread, which computes samples too (one per turn of its event loop, so that the workers' replies
+ * are handled between them): with two cores, the second thread is one worker, and no thread waits for a
+ * worker to start. A user mistake in any sample stops the run with that sample's message.
  * The compiled worker is worker.js beside this file; from TypeScript sources (tests, tsx) the worker runs
  * worker.ts through tsx.
  */
@@ -46,14 +52,30 @@ export async function computeDiagramsParallel(
       let done = 0;
       let failed = false;
       const feed = (w: Worker): void => {
-        if (next >= total) return;
+        if (failed || next >= total) return;
         const task: WorkerTask = { index: next, sample: samples[next], options };
         next++;
         w.postMessage(task);
       };
-      for (let k = 0; k < workerCount; k++) {
+      const local = (): void => {
+        if (failed || next >= total) return;
+        const index = next++;
+        try {
+          results[index] = computeDiagrams(samples[index], options);
+        } catch (error) {
+          failed = true;
+          reject(sampleError(samples[index].id, error));
+          return;
+        }
+        done++;
+        run.onProgress?.(done, total);
+        if (done === total) resolve();
+        else setImmediate(local);
+      };
+      for (let k = 0; k < workerCount - 1; k++) {
         const w = spawn();
         workers.push(w);
+        let started = false;
         w.on('message', (reply: WorkerReply) => {
           if (failed) return;
           if (!reply.ok) {
@@ -76,6 +98,11 @@ export async function computeDiagramsParallel(
           run.onProgress?.(done, total);
           if (done === total) resolve();
           else feed(w);
+          // The first reply shows the worker has started: from then on it holds a second sample.
+          if (!started) {
+            started = true;
+            feed(w);
+          }
         });
         w.on('error', (error) => {
           if (!failed) {
@@ -91,11 +118,25 @@ export async function computeDiagramsParallel(
         });
         feed(w);
       }
+      setImmediate(local);
     });
   } finally {
     await Promise.all(workers.map((w) => w.terminate()));
   }
   return results as DiagramSet[];
+}
+
+/** A sample's error from the calling thread, worded as a worker's reply would be. */
+function sampleError(id: string, error: unknown): Error {
+  const where = `sample '${id}'`;
+  if (isUserError(error)) {
+    const message = error.message.startsWith('sample ') ? error.message : `${where}: ${error.message}`;
+    return new UserError(message, { file: error.file, line: error.line });
+  }
+  const e = error instanceof Error ? error : new Error(String(error));
+  const wrapped = new Error(`${where}: ${e.message}`);
+  wrapped.stack = e.stack;
+  return wrapped;
 }
 
 /**

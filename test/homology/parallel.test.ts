@@ -32,6 +32,16 @@ describe('computeDiagramsParallel', () => {
     expect(seen[seen.length - 1]).toBe(12);
   }, 30000);
 
+  it('gives the first sample to the worker and the rest to whichever thread is free, with the same message for a mistake either way', async () => {
+    // Sample 0 always goes to the worker (fed before the calling thread starts), so this error comes
+    // back through the worker's reply; the test below has its error in the calling thread.
+    const samples = clouds(3);
+    samples[0] = { ...samples[0], coords: samples[0].coords.map((v, i) => (i === 1 ? Number.NaN : v)) };
+    await expect(computeDiagramsParallel(samples, { degrees: [0] }, { workers: 2 })).rejects.toThrow(
+      /sample 'c0'.*finite/,
+    );
+  }, 30000);
+
   it("passes a user mistake in one sample back as that sample's message", async () => {
     const samples = clouds(3);
     samples[1] = { ...samples[1], coords: samples[1].coords.map((v, i) => (i === 3 ? Number.NaN : v)) };
