@@ -427,7 +427,7 @@ function checkSize(
 
 /**
  * The reduction of degree-1 and degree-2 coboundary columns (cohomology, clearing), with apparent pairs
- * (Bauer, "Ripser: efficient computation of Vietoris–Rips persistence barcodes", 2021): a d-simplex σ and a
+ * (Bauer & Roll, "Gromov hyperbolicity, geodesic defect, and apparent pairs in Vietoris–Rips filtrations", 2022): a d-simplex σ and a
  * cofacet τ of the same rank form an apparent pair when τ is σ's oldest cofacet and σ is τ's youngest facet
  * of that rank. Such pairs are persistence pairs of zero length: their columns are skipped and they are
  * never stored; when a reduction meets τ as a pivot, σ is found again by local arithmetic.
@@ -462,7 +462,6 @@ class Reduction {
   private cap = 0;
   private capStep = 1;
   private readonly topRank: number;
-  private pivots = new PivotMap(16);
 
   constructor(
     private readonly n: number,
@@ -539,7 +538,6 @@ class Reduction {
     const deaths: number[] = [];
     this.resetStore();
     const pivots = new PivotMap(Math.max(16, count >> 3));
-    this.pivots = pivots;
     let previousRank = -1;
     for (let col = count - 1; col >= 0; col--) {
       const i = lowEnds[col];
@@ -803,7 +801,6 @@ class Reduction {
     const deaths: number[] = [];
     this.resetStore();
     const pivots = new PivotMap(Math.max(16, foundCount));
-    this.pivots = pivots;
     let previousRank = -1;
     for (let col = 0; col < foundCount; col++) {
       const t = columns[col];

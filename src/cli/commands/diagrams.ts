@@ -71,7 +71,10 @@ export function defineDiagrams(program: Command): Command {
       'images and signals: superlevel sets (bright first), reported on the negated scale',
     )
     .option('--workers <n>', 'threads computing samples: this one and n − 1 workers (default: every core)')
-    .option('--shard <I/N>', "only shard I of N (from 1), written as FILE.shard-I-of-N; default: from a Slurm array or Kubernetes indexed job, 'none' to turn off")
+    .option(
+      '--shard <I/N>',
+      "only shard I of N (from 1), written as FILE.shard-I-of-N; default: from a Slurm array or Kubernetes indexed job, 'none' to turn off",
+    )
     .option('--force', 'recompute a shard that is already finished')
     .option('--format <format>', 'csv or arrow (default: from the extension of --out)')
     .option('--out <file>', 'the diagram CSV to write (a FILE.provenance.json sidecar is written beside it)')
