@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { FIELD_CLASSES, generateField } from '../../../src/io/scenarios/field.js';
+import { sameSamples } from './same-samples.js';
 
 /**
  * Euler number of a binary image with 8-connected foreground, from counts of 2 × 2 bit quads:
@@ -23,19 +24,6 @@ function eulerNumber(mask: Uint8Array, h: number, w: number): number {
     }
   }
   return (q1 - q3 - 2 * qd) / 4;
-}
-
-/** Same ids, labels and bit-identical values (faster than a deep comparison of typed arrays). */
-function sameSamples<T extends { id: string; label: string }>(x: T[], y: T[]): boolean {
-  const bytes = (s: T): Buffer => {
-    const r = s as unknown as { coords?: Float64Array; values?: Float64Array };
-    const a = (r.coords ?? r.values) as Float64Array;
-    return Buffer.from(a.buffer, a.byteOffset, a.byteLength);
-  };
-  return (
-    x.length === y.length &&
-    x.every((s, i) => s.id === y[i].id && s.label === y[i].label && bytes(s).equals(bytes(y[i])))
-  );
 }
 
 describe('field scenario', () => {

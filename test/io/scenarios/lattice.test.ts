@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../../src/core/random.js';
 import { generateLattice, LATTICE_CLASSES, panelStruts } from '../../../src/io/scenarios/lattice.js';
+import { sameSamples } from './same-samples.js';
 
 /** First Betti number of the graph the strut pieces form: edges − vertices + components. */
 function cycleRank(pieces: number[][]): number {
@@ -17,19 +18,6 @@ function cycleRank(pieces: number[][]): number {
   }
   const components = new Set([...parent.keys()].map(find)).size;
   return pieces.length - parent.size + components;
-}
-
-/** Same ids, labels and bit-identical values (faster than a deep comparison of typed arrays). */
-function sameSamples<T extends { id: string; label: string }>(x: T[], y: T[]): boolean {
-  const bytes = (s: T): Buffer => {
-    const r = s as unknown as { coords?: Float64Array; values?: Float64Array };
-    const a = (r.coords ?? r.values) as Float64Array;
-    return Buffer.from(a.buffer, a.byteOffset, a.byteLength);
-  };
-  return (
-    x.length === y.length &&
-    x.every((s, i) => s.id === y[i].id && s.label === y[i].label && bytes(s).equals(bytes(y[i])))
-  );
 }
 
 describe('lattice scenario', () => {

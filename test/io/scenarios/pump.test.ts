@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { generatePump, PUMP_CLASSES } from '../../../src/io/scenarios/pump.js';
+import { sameSamples } from './same-samples.js';
 
 /** Power of the discrete Fourier transform at frequency bins 1 … n/2. */
 function spectrum(x: Float64Array): Float64Array {
@@ -17,19 +18,6 @@ function spectrum(x: Float64Array): Float64Array {
     out[k] = re * re + im * im;
   }
   return out;
-}
-
-/** Same ids, labels and bit-identical values (faster than a deep comparison of typed arrays). */
-function sameSamples<T extends { id: string; label: string }>(x: T[], y: T[]): boolean {
-  const bytes = (s: T): Buffer => {
-    const r = s as unknown as { coords?: Float64Array; values?: Float64Array };
-    const a = (r.coords ?? r.values) as Float64Array;
-    return Buffer.from(a.buffer, a.byteOffset, a.byteLength);
-  };
-  return (
-    x.length === y.length &&
-    x.every((s, i) => s.id === y[i].id && s.label === y[i].label && bytes(s).equals(bytes(y[i])))
-  );
 }
 
 describe('pump scenario', () => {
