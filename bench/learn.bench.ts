@@ -4,6 +4,7 @@ import { LandscapeVectorizer } from '../src/features/landscape-vectorizer.js';
 import type { DiagramSet } from '../src/homology/diagram.js';
 import { computeDiagramsParallel } from '../src/homology/parallel.js';
 import type { Dataset, PointSample } from '../src/io/dataset.js';
+import { drawShape, SHAPE_LABELS } from '../src/io/scenarios/shapes.js';
 import { runEvaluation } from '../src/learn/evaluate.js';
 import { type Figure, report, time } from './harness.js';
 
@@ -20,29 +21,9 @@ import { type Figure, report, time } from './harness.js';
 function clouds(count: number, points: number, seed: number): Dataset<PointSample> {
   const r = new Random(seed);
   const samples: PointSample[] = [];
-  const labels = ['disc', 'loop', 'eight'];
   for (let s = 0; s < count; s++) {
-    const label = labels[s % 3];
-    const coords = new Float64Array(points * 2);
-    for (let i = 0; i < points; i++) {
-      const a = r.uniform(0, 2 * Math.PI);
-      let x: number;
-      let y: number;
-      if (label === 'disc') {
-        const rad = Math.sqrt(r.next());
-        x = rad * Math.cos(a);
-        y = rad * Math.sin(a);
-      } else if (label === 'loop') {
-        x = Math.cos(a);
-        y = Math.sin(a);
-      } else {
-        const side = i % 2 === 0 ? 1 : -1;
-        x = side * 0.5 + 0.5 * Math.cos(a);
-        y = 0.5 * Math.sin(a);
-      }
-      coords[2 * i] = x + r.normal(0, 0.05);
-      coords[2 * i + 1] = y + r.normal(0, 0.05);
-    }
+    const label = SHAPE_LABELS[s % 3];
+    const coords = drawShape(label, points, 0.05, r);
     samples.push({ kind: 'points', id: `c${s}`, label, dim: 2, count: points, coords });
   }
   return { kind: 'points', source: 'bench', samples };

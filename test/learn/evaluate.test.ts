@@ -5,6 +5,7 @@ import type { DiagramSet } from '../../src/homology/diagram.js';
 import { pairwiseDistances } from '../../src/homology/metric.js';
 import { ripsPersistence } from '../../src/homology/rips.js';
 import type { Dataset, PointSample } from '../../src/io/dataset.js';
+import { drawShape, SHAPE_LABELS } from '../../src/io/scenarios/shapes.js';
 import type { Classifier, Hyperparameters, ModelName } from '../../src/learn/classifier.js';
 import { formatMetricsJson, mostFrequent, runEvaluation } from '../../src/learn/evaluate.js';
 import type { Matrix } from '../../src/learn/matrix.js';
@@ -71,28 +72,9 @@ function centroidFactory(fitRows: number[] = []): ModelFactory {
 function shapes(perClass: number, points: number, seed: number): Dataset<PointSample> {
   const r = new Random(seed);
   const samples: PointSample[] = [];
-  for (const label of ['disc', 'loop', 'eight']) {
+  for (const label of SHAPE_LABELS) {
     for (let s = 0; s < perClass; s++) {
-      const coords = new Float64Array(points * 2);
-      for (let i = 0; i < points; i++) {
-        let x: number;
-        let y: number;
-        const a = r.uniform(0, 2 * Math.PI);
-        if (label === 'disc') {
-          const rad = Math.sqrt(r.next());
-          x = rad * Math.cos(a);
-          y = rad * Math.sin(a);
-        } else if (label === 'loop') {
-          x = Math.cos(a);
-          y = Math.sin(a);
-        } else {
-          const side = i % 2 === 0 ? 1 : -1;
-          x = side * 0.5 + 0.5 * Math.cos(a);
-          y = 0.5 * Math.sin(a);
-        }
-        coords[2 * i] = x + r.normal(0, 0.03);
-        coords[2 * i + 1] = y + r.normal(0, 0.03);
-      }
+      const coords = drawShape(label, points, 0.03, r);
       samples.push({ kind: 'points', id: `${label}-${s}`, label, dim: 2, count: points, coords });
     }
   }
