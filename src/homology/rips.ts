@@ -1,7 +1,10 @@
 import { freemem } from 'node:os';
 import { UserError } from '../core/errors.js';
 import type { Diagram } from './diagram.js';
+import { collapseFiltration } from './edge-collapse.js';
+import { type NeighbourLists, NO_EDGE, neighbourLists } from './neighbour-lists.js';
 import { CofacetHeap, PivotMap } from './pivot-map.js';
+import { RankQueue } from './rank-queue.js';
 import { BinomialTable, binomial, condensedLength, edgeHighVertex, maxVertexCount } from './simplex-index.js';
 import { UnionFind } from './union-find.js';
 
@@ -22,6 +25,9 @@ import { UnionFind } from './union-find.js';
  *   decreasing index.
  * - Without `maxScale`, the complex is cut at the enclosing radius min_i max_j d(i, j): there the complex is
  *   a cone over the centre vertex, so no class of degree ≥ 1 survives beyond it.
+ * - For degree 2 (or on request) dominated edges are collapsed first (edge-collapse.ts): a smaller flag
+ *   filtration with the same diagrams. Degree-2 cofacets come from neighbour rows sorted by rank, a cursor
+ *   per added triangle, so a column that sweeps far (a long-lived void) pushes nothing beyond its pivot.
  */
 export interface RipsOptions {
   /** Highest homology degree computed. */
@@ -30,11 +36,14 @@ export interface RipsOptions {
   maxScale?: number;
   /** Filtration value of each vertex (default 0); a simplex's value is the max of its edges' and vertices' values. */
   vertexValues?: Float64Array;
+  /**
+   * Collapse dominated edges before the reduction of degrees ≥ 1 (edge-collapse.ts); the diagrams are the
+   * same either way. Default: when degree 2 is computed, where it shrinks the work by orders of magnitude.
+   */
+  collapse?: boolean;
   /** Refuse when the estimated working memory exceeds this many bytes (default: 80 % of free memory, at least 1 GiB). */
   memoryLimit?: number;
 }
-
-const NO_EDGE = 0x7fffffff;
 
 export function ripsPersistence(n: number, edgeValues: Float64Array, options: RipsOptions): Diagram[] {
   const maxDegree = options.maxDegree;
@@ -162,14 +171,52 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
   ];
   if (maxDegree === 0) return diagrams;
 
+  let lists = neighbours as NeighbourLists;
+  let edgeRanks: Int32Array = rankSorted;
+  let cycles: CycleEdges = { low: cycleI, high: cycleJ, rank: cycleRank, count: cycleCount };
+  if (options.collapse ?? maxDegree >= 2) {
+    const collapsed = collapseFiltration(n, rankOf, lists, rankSorted);
+    lists = collapsed.lists;
+    edgeRanks = collapsed.ranks;
+    cycles = cycleEdges(n, lists.low, lists.high, edgeRanks);
+  }
+
   const table = new BinomialTable(n, 4);
   // Triangles paired in degree 1 are cleared from degree 2: a bitset over all triangle numbers.
   const cleared = maxDegree >= 2 ? new Uint8Array(Math.ceil(binomial(n, 3) / 8)) : undefined;
-  const engine = new Reduction(n, rankOf, levels, table, cleared, neighbours as NeighbourLists);
-  diagrams.push(engine.reduceEdges(cycleI, cycleJ, cycleRank, cycleCount));
+  const engine = new Reduction(n, rankOf, levels, table, cleared, lists);
+  diagrams.push(engine.reduceEdges(cycles.low, cycles.high, cycles.rank, cycles.count));
   if (maxDegree === 1) return diagrams;
-  diagrams.push(engine.reduceTriangles(levelCount));
+  diagrams.push(engine.reduceTriangles(lists.low, lists.high, edgeRanks));
   return diagrams;
+}
+
+interface CycleEdges {
+  low: Int32Array;
+  high: Int32Array;
+  rank: Int32Array;
+  count: number;
+}
+
+/** The edges (in filtration order) that close a cycle when added: the degree-1 columns. */
+function cycleEdges(n: number, low: Int32Array, high: Int32Array, ranks: Int32Array): CycleEdges {
+  const uf = new UnionFind(n);
+  const m = low.length;
+  const cl = new Int32Array(m);
+  const ch = new Int32Array(m);
+  const cr = new Int32Array(m);
+  let count = 0;
+  for (let k = 0; k < m; k++) {
+    // invariant: cl/ch/cr[0 … count) are the cycle-closing edges among the first k
+    const ri = uf.find(low[k]);
+    const rj = uf.find(high[k]);
+    if (ri === rj) {
+      cl[count] = low[k];
+      ch[count] = high[k];
+      cr[count++] = ranks[k];
+    } else uf.link(ri, rj, ri);
+  }
+  return { low: cl, high: ch, rank: cr, count };
 }
 
 /**
@@ -289,54 +336,6 @@ function denseRanks(n: number, rankCond: Int32Array): Int32Array {
     }
   }
   return table;
-}
-
-/**
- * Every vertex's neighbours (within the threshold) in filtration order of the joining edge, as compressed
- * rows: row v is vertex[start[v] … start[v+1]) with the edge ranks in `rank`. Filled in one pass over the
- * ordered edges, so each row comes out sorted by rank without sorting. Memory: 24 bytes per kept edge.
- */
-interface NeighbourLists {
-  start: Int32Array;
-  vertex: Int32Array;
-  rank: Int32Array;
-  /** The endpoints low[k] < high[k] of the k-th edge in filtration order. */
-  low: Int32Array;
-  high: Int32Array;
-}
-
-function neighbourLists(n: number, orderedEdges: Int32Array, rankSorted: Int32Array): NeighbourLists {
-  const kept = orderedEdges.length;
-  const start = new Int32Array(n + 1);
-  const low = new Int32Array(kept);
-  const high = new Int32Array(kept);
-  for (let k = 0; k < kept; k++) {
-    // invariant: start[v + 1] counts the edges at v among the first k
-    const e = orderedEdges[k];
-    const j = edgeHighVertex(e);
-    const i = e - (j * (j - 1)) / 2;
-    low[k] = i;
-    high[k] = j;
-    start[i + 1]++;
-    start[j + 1]++;
-  }
-  for (let v = 0; v < n; v++) start[v + 1] += start[v];
-  const fill = start.slice(0, n);
-  const vertex = new Int32Array(2 * kept);
-  const rank = new Int32Array(2 * kept);
-  for (let k = 0; k < kept; k++) {
-    // invariant: each row holds, in filtration order, the neighbours joined by the first k edges
-    const i = low[k];
-    const j = high[k];
-    const r = rankSorted[k];
-    let p = fill[i]++;
-    vertex[p] = j;
-    rank[p] = r;
-    p = fill[j]++;
-    vertex[p] = i;
-    rank[p] = r;
-  }
-  return { start, vertex, rank, low, high };
 }
 
 /** min over vertices i of max over j of the edge value (i, j): above it the complex is a cone. */
@@ -462,6 +461,28 @@ class Reduction {
   private cap = 0;
   private capStep = 1;
   private readonly topRank: number;
+  /**
+   * Degree 2: every vertex's neighbours in the whole filtration as a bitset of `words` 32-bit words, so that
+   * a triangle's cofacets are the bits common to its three vertices.
+   */
+  private readonly words: number;
+  private readonly adjacency: Uint32Array | undefined;
+  /** Cofacets at or before (floorRank, floorIndex) in filtration order are not pushed (−1: none). */
+  private floorRank = -1;
+  private floorIndex = 0;
+  /** The degree-2 working column. */
+  private readonly queue: RankQueue | undefined;
+  /**
+   * Degree 2, beside each triangle of the scratch column: its vertices a > b > c, its rank, and its cursors,
+   * the positions in the neighbour rows of a, b and c up to which its cofacets have been pushed.
+   */
+  private triangleA = new Int32Array(256);
+  private triangleB = new Int32Array(256);
+  private triangleC = new Int32Array(256);
+  private triangleRank = new Int32Array(256);
+  private cursorA = new Int32Array(256);
+  private cursorB = new Int32Array(256);
+  private cursorC = new Int32Array(256);
 
   constructor(
     private readonly n: number,
@@ -476,6 +497,14 @@ class Reduction {
     this.c2 = table.row(2);
     this.c3 = table.row(3);
     this.c4 = table.row(4);
+    this.words = (n + 31) >>> 5;
+    if (cleared !== undefined) {
+      const adjacency = new Uint32Array(n * this.words);
+      for (let k = 0; k < neighbours.low.length; k++)
+        setEdge(adjacency, this.words, neighbours.low[k], neighbours.high[k]);
+      this.adjacency = adjacency;
+      this.queue = new RankQueue(levels.length);
+    }
   }
 
   // ---------------------------------------------------------------- degree 1: edges and triangles
@@ -568,7 +597,7 @@ class Reduction {
       this.addEdgeCofacets(i, j, r, -1, this.cap);
       this.pushScratch(e);
       while (true) {
-        if (!this.nextPivot(1)) {
+        if (!this.nextPivot()) {
           births.push(levels[r]);
           deaths.push(Infinity);
           break;
@@ -610,10 +639,10 @@ class Reduction {
   }
 
   /**
-   * The next pivot of the working column (heap.pivotRank, heap.pivotIndex), raising cap as needed; false
-   * when the column is zero. `degree` says whether the scratch column holds edges (1) or triangles (2).
+   * The next pivot of the degree-1 working column (heap.pivotRank, heap.pivotIndex), raising cap as needed;
+   * false when the column is zero.
    */
-  private nextPivot(degree: 1 | 2): boolean {
+  private nextPivot(): boolean {
     const heap = this.heap;
     // invariant: the heap holds the cofacets of rank ≤ cap of the scratch column, less cancelled pairs
     while (!heap.popPivot()) {
@@ -621,20 +650,11 @@ class Reduction {
       const lo = this.cap;
       this.capStep *= 2;
       this.cap = Math.min(this.topRank, lo + this.capStep);
-      const v = this.vertices;
       for (let s = 0; s < this.scratchLength; s++) {
         const f = this.scratch[s];
-        if (degree === 1) {
-          const fj = edgeHighVertex(f);
-          const fi = f - this.c2[fj];
-          this.addEdgeCofacets(fi, fj, this.rankOf[fi * this.n + fj], lo, this.cap);
-        } else {
-          this.table.vertices(f, 3, v);
-          const a = v[0];
-          const b = v[1];
-          const c = v[2];
-          this.addTriangleCofacets(a, b, c, triangleRank(this.rankOf, this.n, a, b, c), lo, this.cap);
-        }
+        const fj = edgeHighVertex(f);
+        const fi = f - this.c2[fj];
+        this.addEdgeCofacets(fi, fj, this.rankOf[fi * this.n + fj], lo, this.cap);
       }
     }
     return true;
@@ -665,23 +685,30 @@ class Reduction {
 
   // ---------------------------------------------------------------- degree 2: triangles and tetrahedra
 
-  /** The oldest cofacet of the triangle a > b > c of rank r, as a tetrahedron number, or −1; sets `found`. */
+  /**
+   * The oldest cofacet of the triangle a > b > c of rank r, as a tetrahedron number, or −1; sets `found`.
+   * Its fourth vertex is the largest common neighbour of a, b and c joined to each by rank ≤ r.
+   */
   private oldestOfTriangle(a: number, b: number, c: number, r: number): number {
-    const { n, rankOf, c2, c3, c4 } = this;
+    const { n, rankOf, c2, c3, c4, words } = this;
+    const adjacency = this.adjacency as Uint32Array;
     const rowA = a * n;
     const rowB = b * n;
     const rowC = c * n;
-    // invariant: no cofacet with fourth vertex above k has rank r
-    for (let k = n - 1; k >= 0; k--) {
-      if (rankOf[rowA + k] > r || rankOf[rowB + k] > r || rankOf[rowC + k] > r) continue;
-      this.found = k;
-      return k > a
-        ? c4[k] + c3[a] + c2[b] + c
-        : k > b
-          ? c4[a] + c3[k] + c2[b] + c
-          : k > c
-            ? c4[a] + c3[b] + c2[k] + c
-            : c4[a] + c3[b] + c2[c] + k;
+    const wa = a * words;
+    const wb = b * words;
+    const wc = c * words;
+    // invariant: no cofacet with fourth vertex in a word above q has rank r
+    for (let q = words - 1; q >= 0; q--) {
+      let bits = adjacency[wa + q] & adjacency[wb + q] & adjacency[wc + q];
+      while (bits !== 0) {
+        const bit = 31 - Math.clz32(bits);
+        bits ^= 1 << bit;
+        const k = (q << 5) + bit;
+        if (rankOf[rowA + k] > r || rankOf[rowB + k] > r || rankOf[rowC + k] > r) continue;
+        this.found = k;
+        return fourthVertexNumber(a, b, c, k, c2, c3, c4);
+      }
     }
     return -1;
   }
@@ -740,34 +767,55 @@ class Reduction {
     return this.oldestOfTriangle(a, b, c, r) === q ? c3[a] + c2[b] + c : -1;
   }
 
-  /** Degree 2: columns are the triangles inside the threshold that are neither cleared nor apparent. */
-  reduceTriangles(levelCount: number): Diagram {
-    const { n, rankOf, levels, heap, c2, c3 } = this;
+  /**
+   * The degree-2 columns: triangles inside the threshold that are neither cleared nor in an apparent pair,
+   * in reverse filtration order (rank descending, ties by increasing number), with their ranks.
+   *
+   * Triangles are met through their last edge: the edges are taken in filtration order (low, high, ranks),
+   * and the triangles whose last edge is pq are p, q and a vertex joined to both by an earlier edge — the
+   * members of the bitset `before[p] & before[q]`, in increasing number. `upTo` holds every edge of rank at
+   * most the current one, so the oldest cofacet of a triangle of rank r is the largest vertex joined to all
+   * three by it.
+   */
+  private triangleColumns(
+    low: Int32Array,
+    high: Int32Array,
+    ranks: Int32Array,
+  ): { columns: Float64Array; columnRanks: Int32Array } {
+    const { n, c2, c3, words } = this;
     const cleared = this.cleared as Uint8Array;
-    const vertices = this.vertices;
-    // Pass over every triangle in increasing number; keep the columns that need work, with their ranks.
-    let found = new Float64Array(1 << 16);
-    let foundRanks = new Int32Array(1 << 16);
-    let foundCount = 0;
-    for (let a = 2; a < n; a++) {
-      const rowA = a * n;
-      for (let b = 1; b < a; b++) {
-        const rab = rankOf[rowA + b];
-        if (rab === NO_EDGE) continue;
-        const rowB = b * n;
-        const base = c3[a] + c2[b];
-        // invariant: triangles (a, b, c') with c' < c are classified
-        for (let c = 0; c < b; c++) {
-          const rac = rankOf[rowA + c];
-          const rbc = rankOf[rowB + c];
-          if (rac === NO_EDGE || rbc === NO_EDGE) continue;
-          const t = base + c;
+    const before = new Uint32Array(n * words);
+    const upTo = new Uint32Array(n * words);
+    const sorted = this.vertices;
+    let found = new Float64Array(1 << 12);
+    let foundRanks = new Int32Array(1 << 12);
+    let count = 0;
+    let added = 0;
+    const m = low.length;
+    for (let e = 0; e < m; e++) {
+      const p = low[e];
+      const q = high[e];
+      const r = ranks[e];
+      // invariant: upTo holds the edges of rank ≤ r, before the edges preceding e in filtration order
+      for (; added < m && ranks[added] <= r; added++) setEdge(upTo, words, low[added], high[added]);
+      const groupStart = count;
+      const wp = p * words;
+      const wq = q * words;
+      for (let w = 0; w < words; w++) {
+        let bits = before[wp + w] & before[wq + w];
+        while (bits !== 0) {
+          const lowest = bits & -bits;
+          bits ^= lowest;
+          const x = (w << 5) + 31 - Math.clz32(lowest);
+          sort3(p, q, x, sorted);
+          const a = sorted[0];
+          const b = sorted[1];
+          const c = sorted[2];
+          const t = c3[a] + c2[b] + c;
           if (cleared[t >>> 3] & (1 << (t & 7))) continue;
-          let r = rab > rac ? rab : rac;
-          if (rbc > r) r = rbc;
-          if (this.oldestOfTriangle(a, b, c, r) >= 0 && this.youngestTriangle(a, b, c, this.found, r, t))
-            continue;
-          if (foundCount === found.length) {
+          const k = highestCommon(upTo, words, a, b, c);
+          if (k >= 0 && this.youngestTriangle(a, b, c, k, r, t)) continue; // apparent: zero length
+          if (count === found.length) {
             const f2 = new Float64Array(found.length * 2);
             f2.set(found);
             found = f2;
@@ -775,34 +823,47 @@ class Reduction {
             r2.set(foundRanks);
             foundRanks = r2;
           }
-          found[foundCount] = t;
-          foundRanks[foundCount++] = r;
+          found[count] = t;
+          foundRanks[count++] = r;
         }
       }
+      // Triangles of equal rank but different last edges interleave by number: keep each rank's run sorted.
+      if (groupStart > 0 && count > groupStart && foundRanks[groupStart - 1] === r) {
+        let from = groupStart - 1;
+        while (from > 0 && foundRanks[from - 1] === r) from--;
+        found.subarray(from, count).sort();
+      }
+      setEdge(before, words, p, q);
     }
-    // Reverse filtration order: rank descending, ties by increasing number (stable counting sort).
-    const next = new Int32Array(levelCount + 1);
-    for (let q = 0; q < foundCount; q++) next[foundRanks[q]]++;
-    let acc = 0;
-    for (let r = levelCount - 1; r >= 0; r--) {
-      const cnt = next[r];
-      next[r] = acc;
-      acc += cnt;
+    // Reverse the runs of equal rank, keeping each run in increasing number.
+    const columns = new Float64Array(count);
+    const columnRanks = new Int32Array(count);
+    let out = 0;
+    for (let end = count; end > 0; ) {
+      let from = end - 1;
+      while (from > 0 && foundRanks[from - 1] === foundRanks[end - 1]) from--;
+      for (let i = from; i < end; i++) {
+        columns[out] = found[i];
+        columnRanks[out++] = foundRanks[i];
+      }
+      end = from;
     }
-    const columns = new Float64Array(foundCount);
-    const columnRanks = new Int32Array(foundCount);
-    for (let q = 0; q < foundCount; q++) {
-      const p = next[foundRanks[q]]++;
-      columns[p] = found[q];
-      columnRanks[p] = foundRanks[q];
-    }
+    return { columns, columnRanks };
+  }
 
+  /** Degree 2: the columns of `triangleColumns`, reduced; the edges are those of the filtration, in order. */
+  reduceTriangles(low: Int32Array, high: Int32Array, ranks: Int32Array): Diagram {
+    const { levels } = this;
+    const queue = this.queue as RankQueue;
+    const vertices = this.vertices;
+    const { columns, columnRanks } = this.triangleColumns(low, high, ranks);
+    const columnCount = columns.length;
     const births: number[] = [];
     const deaths: number[] = [];
     this.resetStore();
-    const pivots = new PivotMap(Math.max(16, foundCount));
+    const pivots = new PivotMap(Math.max(16, columnCount));
     let previousRank = -1;
-    for (let col = 0; col < foundCount; col++) {
+    for (let col = 0; col < columnCount; col++) {
       const t = columns[col];
       const r = columnRanks[col];
       this.table.vertices(t, 3, vertices);
@@ -822,31 +883,40 @@ class Reduction {
           continue;
         }
       }
-      // Degree 2 pushes every cofacet at once and lets the heap defer the far ones to its rank ranges: a
-      // few columns here grow very long, and enumerating their cofacets again per range would cost more.
-      heap.clear(r, this.step);
+      // The working column holds the cofacets of rank ≤ cap of the triangles added so far; each added
+      // triangle keeps a cursor in the neighbour rows of its three vertices, so raising cap enumerates only
+      // the cofacets in the new rank range. Columns that sweep far (a long-lived class) never push the
+      // cofacets beyond their pivot.
+      queue.clear(r);
       this.scratchLength = 0;
-      this.cap = this.topRank;
-      this.addTriangleCofacets(a, b, c, r, -1, this.cap);
-      this.pushScratch(t);
+      this.cap = Math.min(this.topRank, r + this.step);
+      this.floorRank = -1;
+      this.insertTriangle(t, a, b, c, r);
       while (true) {
-        if (!this.nextPivot(2)) {
-          births.push(levels[r]);
-          deaths.push(Infinity);
-          break;
+        if (!queue.popPivot()) {
+          if (this.cap >= this.topRank) {
+            births.push(levels[r]);
+            deaths.push(Infinity);
+            break;
+          }
+          this.cap = Math.min(this.topRank, this.cap + this.step);
+          for (let s = 0; s < this.scratchLength; s++) this.advanceCursors(s, this.cap);
+          continue;
         }
-        const pr = heap.pivotRank;
-        const pi = heap.pivotIndex;
+        const pr = queue.pivotRank;
+        const pi = queue.pivotIndex;
+        // What is added next cancels the pivot and sums to zero below it (the owner's reduced column starts
+        // at the pivot; an apparent facet's cofacets start there): entries up to the pivot are left out.
+        this.floorRank = pr;
+        this.floorIndex = pi;
         const owner = pivots.get(pi);
         if (owner >= 0) {
-          heap.push(pr, pi);
           for (let s = this.starts[owner]; s < this.starts[owner + 1]; s++) this.addTriangle(this.store[s]);
           continue;
         }
         this.table.vertices(pi, 4, vertices);
         const apparent = this.apparentTriangle(vertices[0], vertices[1], vertices[2], vertices[3], pr, pi);
         if (apparent >= 0) {
-          heap.push(pr, pi);
           this.addTriangle(apparent);
           continue;
         }
@@ -869,37 +939,113 @@ class Reduction {
     const a = v[0];
     const b = v[1];
     const c = v[2];
-    this.addTriangleCofacets(a, b, c, triangleRank(this.rankOf, this.n, a, b, c), -1, this.cap);
-    this.pushScratch(f);
+    this.insertTriangle(f, a, b, c, triangleRank(this.rankOf, this.n, a, b, c));
   }
 
-  /** Pushes every cofacet of the triangle a > b > c of rank r whose rank lies in (lo, hi]. */
-  private addTriangleCofacets(a: number, b: number, c: number, r: number, lo: number, hi: number): void {
-    const { n, rankOf, heap, c2, c3, c4 } = this;
+  /**
+   * Adds the triangle t = {a > b > c} of rank r to the reduction column and pushes its cofacets of rank ≤ cap
+   * that come after the floor (floorRank, floorIndex) in filtration order — all of them when floorRank is
+   * −1. Cofacets of rank r (all three new edges of rank ≤ r) are found on the shortest of the three rows
+   * cut at r; every later cofacet is met in the row of its last edge, where the triangle's cursors wait.
+   */
+  private insertTriangle(t: number, a: number, b: number, c: number, r: number): void {
+    const { n, rankOf, c2, c3, c4, floorRank, floorIndex } = this;
+    const queue = this.queue as RankQueue;
+    const { start, vertex, rank } = this.neighbours;
+    const s = this.scratchLength;
+    this.pushScratch(t);
+    const ta = this.triangleA;
+    const tb = this.triangleB;
+    const tc = this.triangleC;
+    ta[s] = a;
+    tb[s] = b;
+    tc[s] = c;
+    this.triangleRank[s] = r;
+    const endA = firstAbove(rank, start[a], start[a + 1], r);
+    const endB = firstAbove(rank, start[b], start[b + 1], r);
+    const endC = firstAbove(rank, start[c], start[c + 1], r);
+    if (r >= floorRank) {
+      // The row with the fewest entries of rank ≤ r, checked against the other two.
+      let x = a;
+      let from = start[a];
+      let to = endA;
+      if (endB - start[b] < to - from) {
+        x = b;
+        from = start[b];
+        to = endB;
+      }
+      if (endC - start[c] < to - from) {
+        x = c;
+        from = start[c];
+        to = endC;
+      }
+      const y = x === a ? b : a;
+      const z = x === c ? b : c;
+      const rowY = y * n;
+      const rowZ = z * n;
+      // invariant: the rank-r cofacets with fourth vertex before position p in x's row are pushed
+      for (let p = from; p < to; p++) {
+        const k = vertex[p];
+        if (rankOf[rowY + k] > r || rankOf[rowZ + k] > r) continue; // also k = y, z
+        const index = fourthVertexNumber(a, b, c, k, c2, c3, c4);
+        if (r === floorRank && index >= floorIndex) continue;
+        queue.push(r, index);
+      }
+    }
+    // Later cofacets below the floor sum to zero: the cursors start at the floor's rank.
+    const least = floorRank > r ? floorRank : r + 1;
+    this.cursorA[s] = least > r + 1 ? firstAtLeast(rank, endA, start[a + 1], least) : endA;
+    this.cursorB[s] = least > r + 1 ? firstAtLeast(rank, endB, start[b + 1], least) : endB;
+    this.cursorC[s] = least > r + 1 ? firstAtLeast(rank, endC, start[c + 1], least) : endC;
+    this.advanceCursors(s, this.cap);
+  }
+
+  /**
+   * Pushes the cofacets of the s-th added triangle whose last edge (the one of largest rank, ties to the row
+   * of the larger vertex) has rank in (cursor, hi], moving its cursors to hi. The floor applies to the
+   * equal-rank entries met at insertion, which are the only ones that can reach it.
+   */
+  private advanceCursors(s: number, hi: number): void {
+    const { n, rankOf, c2, c3, c4, floorRank, floorIndex } = this;
+    const queue = this.queue as RankQueue;
+    const { start, vertex, rank } = this.neighbours;
+    const a = this.triangleA[s];
+    const b = this.triangleB[s];
+    const c = this.triangleC[s];
     const rowA = a * n;
     const rowB = b * n;
     const rowC = c * n;
-    // invariant: cofacets with fourth vertex above k are in the working column
-    for (let k = n - 1; k >= 0; k--) {
-      const ra = rankOf[rowA + k];
-      const rb = rankOf[rowB + k];
-      const rc = rankOf[rowC + k];
-      if (ra === NO_EDGE || rb === NO_EDGE || rc === NO_EDGE) continue;
-      let rk = ra > rb ? ra : rb;
-      if (rc > rk) rk = rc;
-      if (r > rk) rk = r;
-      if (rk <= lo || rk > hi) continue;
-      heap.push(
-        rk,
-        k > a
-          ? c4[k] + c3[a] + c2[b] + c
-          : k > b
-            ? c4[a] + c3[k] + c2[b] + c
-            : k > c
-              ? c4[a] + c3[b] + c2[k] + c
-              : c4[a] + c3[b] + c2[c] + k,
-      );
+    let p = this.cursorA[s];
+    // invariant: the cofacets whose last edge is in a's row before p are pushed
+    for (const end = start[a + 1]; p < end && rank[p] <= hi; p++) {
+      const k = vertex[p];
+      const rk = rank[p];
+      if (rankOf[rowB + k] > rk || rankOf[rowC + k] > rk) continue;
+      const index = fourthVertexNumber(a, b, c, k, c2, c3, c4);
+      if (rk === floorRank && index >= floorIndex) continue;
+      queue.push(rk, index);
     }
+    this.cursorA[s] = p;
+    p = this.cursorB[s];
+    for (const end = start[b + 1]; p < end && rank[p] <= hi; p++) {
+      const k = vertex[p];
+      const rk = rank[p];
+      if (rankOf[rowA + k] >= rk || rankOf[rowC + k] > rk) continue;
+      const index = fourthVertexNumber(a, b, c, k, c2, c3, c4);
+      if (rk === floorRank && index >= floorIndex) continue;
+      queue.push(rk, index);
+    }
+    this.cursorB[s] = p;
+    p = this.cursorC[s];
+    for (const end = start[c + 1]; p < end && rank[p] <= hi; p++) {
+      const k = vertex[p];
+      const rk = rank[p];
+      if (rankOf[rowA + k] >= rk || rankOf[rowB + k] >= rk) continue;
+      const index = fourthVertexNumber(a, b, c, k, c2, c3, c4);
+      if (rk === floorRank && index >= floorIndex) continue;
+      queue.push(rk, index);
+    }
+    this.cursorC[s] = p;
   }
 
   // ---------------------------------------------------------------- stored reduction columns
@@ -915,6 +1061,15 @@ class Reduction {
       const s = new Float64Array(this.scratch.length * 2);
       s.set(this.scratch);
       this.scratch = s;
+      if (this.adjacency !== undefined) {
+        this.triangleA = grown(this.triangleA, s.length);
+        this.triangleB = grown(this.triangleB, s.length);
+        this.triangleC = grown(this.triangleC, s.length);
+        this.triangleRank = grown(this.triangleRank, s.length);
+        this.cursorA = grown(this.cursorA, s.length);
+        this.cursorB = grown(this.cursorB, s.length);
+        this.cursorC = grown(this.cursorC, s.length);
+      }
     }
     this.scratch[this.scratchLength++] = x;
   }
@@ -977,6 +1132,68 @@ function triangleRank(rankOf: Int32Array, n: number, a: number, b: number, c: nu
   let r = ab > ac ? ab : ac;
   if (bc > r) r = bc;
   return r;
+}
+
+/** The number of the tetrahedron of the triangle a > b > c and a fourth vertex k. */
+function fourthVertexNumber(
+  a: number,
+  b: number,
+  c: number,
+  k: number,
+  c2: Float64Array,
+  c3: Float64Array,
+  c4: Float64Array,
+): number {
+  return k > a
+    ? c4[k] + c3[a] + c2[b] + c
+    : k > b
+      ? c4[a] + c3[k] + c2[b] + c
+      : k > c
+        ? c4[a] + c3[b] + c2[k] + c
+        : c4[a] + c3[b] + c2[c] + k;
+}
+
+/** A copy of `array` with room for `length` entries. */
+function grown(array: Int32Array, length: number): Int32Array<ArrayBuffer> {
+  const copy = new Int32Array(length);
+  copy.set(array);
+  return copy;
+}
+
+/** The first position p in [from, to) with ranks[p] ≥ r (ranks ascending there), or `to`. */
+function firstAtLeast(ranks: Int32Array, from: number, to: number, r: number): number {
+  let lo = from;
+  let hi = to;
+  // invariant: ranks before lo are < r, from hi on ≥ r
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (ranks[mid] < r) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/** The first position p in [from, to) with ranks[p] > r, or `to`. */
+function firstAbove(ranks: Int32Array, from: number, to: number, r: number): number {
+  return firstAtLeast(ranks, from, to, r + 1);
+}
+
+/** Adds the edge pq to the adjacency bitsets (rows of `words` 32-bit words). */
+function setEdge(bits: Uint32Array, words: number, p: number, q: number): void {
+  bits[p * words + (q >>> 5)] |= 1 << (q & 31);
+  bits[q * words + (p >>> 5)] |= 1 << (p & 31);
+}
+
+/** The largest vertex in the bitsets of a, b and c alike, or −1. */
+function highestCommon(bits: Uint32Array, words: number, a: number, b: number, c: number): number {
+  const wa = a * words;
+  const wb = b * words;
+  const wc = c * words;
+  for (let q = words - 1; q >= 0; q--) {
+    const common = bits[wa + q] & bits[wb + q] & bits[wc + q];
+    if (common !== 0) return (q << 5) + 31 - Math.clz32(common);
+  }
+  return -1;
 }
 
 /** Writes p, q, s in decreasing order into out[0..3). */

@@ -18,7 +18,10 @@ function essentialOf(d: Diagram): number {
   return c;
 }
 
-/** Checks the engine against the naive reduction, degree by degree, pair for pair. */
+/**
+ * Checks the engine against the naive reduction, degree by degree, pair for pair, with and without the edge
+ * collapse (edge-collapse.ts): the collapsed filtration must give the same diagrams.
+ */
 function agree(
   coords: Float64Array,
   count: number,
@@ -27,17 +30,20 @@ function agree(
   extra: { maxScale?: number; vertexValues?: number[] } = {},
 ): void {
   const edges = pairwiseDistances(coords, count, dim, 'euclidean');
-  const got = ripsPersistence(count, edges, {
-    maxDegree,
-    maxScale: extra.maxScale,
-    vertexValues: extra.vertexValues ? Float64Array.from(extra.vertexValues) : undefined,
-  });
   const want = naiveRips(count, (i, j) => edges[condensedIndex(i, j, count)], maxDegree, extra);
-  expect(got.length).toBe(maxDegree + 1);
-  for (let d = 0; d <= maxDegree; d++) {
-    expect(got[d].degree).toBe(d);
-    expect(finiteOf(got[d])).toEqual(want.finite[d]);
-    expect(essentialOf(got[d])).toBe(want.essential[d]);
+  for (const collapse of [false, true]) {
+    const got = ripsPersistence(count, edges, {
+      maxDegree,
+      maxScale: extra.maxScale,
+      vertexValues: extra.vertexValues ? Float64Array.from(extra.vertexValues) : undefined,
+      collapse,
+    });
+    expect(got.length).toBe(maxDegree + 1);
+    for (let d = 0; d <= maxDegree; d++) {
+      expect(got[d].degree).toBe(d);
+      expect(finiteOf(got[d])).toEqual(want.finite[d]);
+      expect(essentialOf(got[d])).toBe(want.essential[d]);
+    }
   }
 }
 
