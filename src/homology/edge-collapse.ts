@@ -70,7 +70,8 @@ export function collapseEdges(
   // Edges not removed (waiting, or handled and kept): where common neighbours can still arrive from.
   const present = waiting.slice();
   const common = new Uint32Array(words);
-  const near = new Uint32Array(words);
+  const nearU = new Uint32Array(words);
+  const nearV = new Uint32Array(words);
   const candidates = new Uint32Array(words);
   const rows: Rows = { n, words, start, vertex, neighbourRank, rankOf, waiting };
   let kept = 0;
@@ -83,21 +84,30 @@ export function collapseEdges(
     const rowV = v * n;
     const baseU = u * words;
     const baseV = v * words;
+    const fromU = firstAtLeast(neighbourRank, start[u], start[u + 1], r);
+    const fromV = firstAtLeast(neighbourRank, start[v], start[v + 1], r);
     let s = r;
     // invariant: the edge is dominated at every value in [r, s)
     while (true) {
-      neighboursAt(rows, u, r, s, near);
-      for (let q = 0; q < words; q++) common[q] = waiting[baseU + q] | near[q];
-      neighboursAt(rows, v, r, s, near);
-      for (let q = 0; q < words; q++) common[q] &= waiting[baseV + q] | near[q];
+      const handledU = neighboursAt(rows, u, fromU, s, nearU);
+      const handledV = neighboursAt(rows, v, fromV, s, nearV);
+      for (let q = 0; q < words; q++) common[q] = waiting[baseU + q] & waiting[baseV + q];
+      if (handledU || handledV) {
+        if (!handledU) nearU.fill(0);
+        if (!handledV) nearV.fill(0);
+        for (let q = 0; q < words; q++)
+          common[q] = (waiting[baseU + q] | nearU[q]) & (waiting[baseV + q] | nearV[q]);
+      }
       const w = dominator(rows, s, common, candidates);
       if (w < 0) break;
       // The first later value at which a common neighbour x arrives that w is not joined to by then: x is
-      // joined to u and v by edges still present, and is not a common neighbour yet.
+      // joined to u and v by edges still present, is not a common neighbour yet, and is not joined to w by a
+      // waiting edge (those are there from r on).
       const rowW = w * n;
+      const baseW = w * words;
       let next = NO_EDGE;
       for (let q = 0; q < words; q++) {
-        let bits = present[baseU + q] & present[baseV + q] & ~common[q];
+        let bits = present[baseU + q] & present[baseV + q] & ~common[q] & ~waiting[baseW + q];
         while (bits !== 0) {
           const lowest = bits & -bits;
           bits ^= lowest;
@@ -149,29 +159,41 @@ function clearEdge(bits: Uint32Array, words: number, p: number, q: number): void
 }
 
 /**
- * Writes into `out` the neighbours of z joined by an already handled edge of current rank ≤ s. Handled edges
- * come after the current one (rank r) in the filtration, so they sit in z's row from listed rank r on; a
- * listed rank is never above the current one, so the walk stops at listed rank s.
+ * Writes into `out` the neighbours of z joined by an already handled edge of current rank ≤ s, and says
+ * whether there are any. Handled edges come after the current one (rank r) in the filtration, so they sit in
+ * z's row from listed rank r on (position `from`); a listed rank is never above the current one, so the walk
+ * stops at listed rank s.
  */
-function neighboursAt(rows: Rows, z: number, r: number, s: number, out: Uint32Array): void {
+function neighboursAt(rows: Rows, z: number, from: number, s: number, out: Uint32Array): boolean {
   const { n, words, start, vertex, neighbourRank, rankOf, waiting } = rows;
-  out.fill(0);
   const row = z * n;
   const base = z * words;
   const to = start[z + 1];
-  let lo = start[z];
-  let hi = to;
-  // invariant: listed ranks before lo are < r, from hi on ≥ r
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (neighbourRank[mid] < r) lo = mid + 1;
-    else hi = mid;
-  }
-  for (let p = lo; p < to && neighbourRank[p] <= s; p++) {
+  let any = false;
+  for (let p = from; p < to && neighbourRank[p] <= s; p++) {
     const x = vertex[p];
     const bit = 1 << (x & 31);
-    if ((waiting[base + (x >>> 5)] & bit) === 0 && rankOf[row + x] <= s) out[x >>> 5] |= bit;
+    if ((waiting[base + (x >>> 5)] & bit) !== 0 || rankOf[row + x] > s) continue;
+    if (!any) {
+      out.fill(0);
+      any = true;
+    }
+    out[x >>> 5] |= bit;
   }
+  return any;
+}
+
+/** The first position p in [from, to) with ranks[p] ≥ r (ranks ascending there), or `to`. */
+function firstAtLeast(ranks: Int32Array, from: number, to: number, r: number): number {
+  let lo = from;
+  let hi = to;
+  // invariant: ranks before lo are < r, from hi on ≥ r
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (ranks[mid] < r) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
 }
 
 /**
