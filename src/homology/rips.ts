@@ -787,6 +787,7 @@ class Reduction {
     const before = new Uint32Array(n * words);
     const upTo = new Uint32Array(n * words);
     const sorted = this.vertices;
+    const pair = new Uint32Array(words);
     let found = new Float64Array(1 << 12);
     let foundRanks = new Int32Array(1 << 12);
     let count = 0;
@@ -798,23 +799,39 @@ class Reduction {
       const r = ranks[e];
       // invariant: upTo holds the edges of rank ≤ r, before the edges preceding e in filtration order
       for (; added < m && ranks[added] <= r; added++) setEdge(upTo, words, low[added], high[added]);
+      // When pq is the only edge of rank r, a triangle pqx and its oldest cofacet pqxk have exactly two
+      // facets of rank r, pqx and pqk, and the triangle is the younger one when x < k.
+      const alone = (e === 0 || ranks[e - 1] !== r) && (e === m - 1 || ranks[e + 1] !== r);
       const groupStart = count;
       const wp = p * words;
       const wq = q * words;
+      for (let w = 0; w < words; w++) pair[w] = upTo[wp + w] & upTo[wq + w];
       for (let w = 0; w < words; w++) {
         let bits = before[wp + w] & before[wq + w];
         while (bits !== 0) {
           const lowest = bits & -bits;
           bits ^= lowest;
           const x = (w << 5) + 31 - Math.clz32(lowest);
-          sort3(p, q, x, sorted);
-          const a = sorted[0];
-          const b = sorted[1];
-          const c = sorted[2];
-          const t = c3[a] + c2[b] + c;
+          const t = x > q ? c3[x] + c2[q] + p : x > p ? c3[q] + c2[x] + p : c3[q] + c2[p] + x;
           if (cleared[t >>> 3] & (1 << (t & 7))) continue;
-          const k = highestCommon(upTo, words, a, b, c);
-          if (k >= 0 && this.youngestTriangle(a, b, c, k, r, t)) continue; // apparent: zero length
+          // The oldest cofacet's fourth vertex: the largest vertex joined to p, q and x by rank ≤ r.
+          let k = -1;
+          const wx = x * words;
+          for (let z = words - 1; z >= 0; z--) {
+            const both = pair[z] & upTo[wx + z];
+            if (both !== 0) {
+              k = (z << 5) + 31 - Math.clz32(both);
+              break;
+            }
+          }
+          if (k >= 0) {
+            if (alone) {
+              if (k > x) continue; // apparent: zero length
+            } else {
+              sort3(p, q, x, sorted);
+              if (this.youngestTriangle(sorted[0], sorted[1], sorted[2], k, r, t)) continue;
+            }
+          }
           if (count === found.length) {
             const f2 = new Float64Array(found.length * 2);
             f2.set(found);
@@ -1182,18 +1199,6 @@ function firstAbove(ranks: Int32Array, from: number, to: number, r: number): num
 function setEdge(bits: Uint32Array, words: number, p: number, q: number): void {
   bits[p * words + (q >>> 5)] |= 1 << (q & 31);
   bits[q * words + (p >>> 5)] |= 1 << (p & 31);
-}
-
-/** The largest vertex in the bitsets of a, b and c alike, or −1. */
-function highestCommon(bits: Uint32Array, words: number, a: number, b: number, c: number): number {
-  const wa = a * words;
-  const wb = b * words;
-  const wc = c * words;
-  for (let q = words - 1; q >= 0; q--) {
-    const common = bits[wa + q] & bits[wb + q] & bits[wc + q];
-    if (common !== 0) return (q << 5) + 31 - Math.clz32(common);
-  }
-  return -1;
 }
 
 /** Writes p, q, s in decreasing order into out[0..3). */
