@@ -18,7 +18,8 @@ import { report, time } from './harness.js';
  *   a points CSV against a floor process that reads the same file, computes every pairwise distance and
  *   sorts them (native typed-array sort). Wall time and CPU time (user + system, from the child's own
  *   resource usage, which is steadier on a shared machine) and the child's peak resident memory.
- * - Rips H0–H2 of 400 points near the unit sphere, and cubical H0+H1 of a 512 × 512 image, in process.
+ * - Rips H0–H2 of 400 points near the unit sphere (with and without the edge collapse), and cubical H0+H1
+ *   of a 512 × 512 image, in process.
  * - 200 clouds of 300 points on 2 worker threads against 1.
  */
 const root = fileURLToPath(new URL('../../', import.meta.url));
@@ -160,13 +161,19 @@ export async function run(): Promise<void> {
     const sortFloor = await time(() => Float64Array.from(edges).sort(), 3);
     const sortCpu = await cpuTime(() => Float64Array.from(edges).sort(), 3);
     const h1 = await time(() => ripsPersistence(400, edges, { maxDegree: 1 }), 3);
-    const h2Cpu = await cpuTime(() => ripsPersistence(400, edges, { maxDegree: 2 }), 1);
+    // The first degree-2 run in this process (code not yet optimised), then the median of three more.
+    const h2First = await cpuTime(() => ripsPersistence(400, edges, { maxDegree: 2 }), 1);
+    const h2Cpu = await cpuTime(() => ripsPersistence(400, edges, { maxDegree: 2 }), 3);
+    const plainCpu = await cpuTime(() => ripsPersistence(400, edges, { maxDegree: 2, collapse: false }), 1);
     report('Rips H0–H2, 400 points near the unit sphere', [
       { name: 'floor: sort the 79,800 distances, wall', value: sortFloor.ms, unit: 'ms' },
       { name: 'floor, CPU', value: sortCpu, unit: 'ms' },
       { name: 'H0+H1, wall', value: h1.ms, unit: 'ms' },
-      { name: 'H0–H2, CPU', value: h2Cpu, unit: 'ms', goal: '≤ 1000 ms', met: h2Cpu <= 1000 },
+      { name: 'H0–H2, first run in the process, CPU', value: h2First, unit: 'ms' },
+      { name: 'H0–H2, CPU (median of 3)', value: h2Cpu, unit: 'ms', goal: '≤ 1000 ms', met: h2Cpu <= 1000 },
       { name: 'H0–H2 ratio to floor, CPU', value: h2Cpu / sortCpu, unit: '×' },
+      { name: 'H0–H2 without the edge collapse, CPU', value: plainCpu, unit: 'ms' },
+      { name: 'speed-up from the collapse', value: plainCpu / h2Cpu, unit: '×' },
     ]);
 
     const rng = new Random(512);

@@ -27,7 +27,7 @@
 import { type NeighbourLists, NO_EDGE, tableEdges } from './neighbour-lists.js';
 
 /** Collapse passes at most (see collapseFiltration). */
-const MAX_PASSES = 6;
+const MAX_PASSES = 5;
 
 /**
  * Collapses the filtration whose dense rank table is `rankOf` and whose edges (in filtration order, ranks

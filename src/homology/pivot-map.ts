@@ -112,7 +112,8 @@ export class CofacetHeap {
   private runLow = 0;
   /** Set by `popPivot`. */
   pivotRank = 0;
-  pivotIndex = 0;
+  /** A simplex number: a double from the start, so the field never changes representation (which deoptimises). */
+  pivotIndex = 0.5;
 
   constructor(capacity = 1024) {
     this.ranks = new Int32Array(capacity);

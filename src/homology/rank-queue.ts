@@ -31,7 +31,8 @@ export class RankQueue {
   private merged = false;
   /** Set by `popPivot`. */
   pivotRank = 0;
-  pivotIndex = 0;
+  /** A simplex number: a double from the start, so the field never changes representation (which deoptimises). */
+  pivotIndex = 0.5;
 
   constructor(rankCount: number) {
     this.head = new Int32Array(rankCount);

@@ -469,7 +469,7 @@ class Reduction {
   private readonly adjacency: Uint32Array | undefined;
   /** Cofacets at or before (floorRank, floorIndex) in filtration order are not pushed (−1: none). */
   private floorRank = -1;
-  private floorIndex = 0;
+  private floorIndex = 0.5; // a double from the start, as simplex numbers outgrow small integers
   /** The degree-2 working column. */
   private readonly queue: RankQueue | undefined;
   /**
