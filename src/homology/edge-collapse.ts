@@ -24,7 +24,7 @@
  * last back, these are exactly the edges at or before the current one, all present at every value looked at.
  * The handled edges present at s are added from the neighbour lists, which are sorted by original rank.
  */
-import { type NeighbourLists, NO_EDGE, tableEdges } from './neighbour-lists.js';
+import { firstAtLeast, type NeighbourLists, NO_EDGE, setEdge, tableEdges } from './neighbour-lists.js';
 
 /** Collapse passes at most (see collapseFiltration). */
 const MAX_PASSES = 5;
@@ -148,11 +148,6 @@ interface Rows {
   waiting: Uint32Array;
 }
 
-function setEdge(bits: Uint32Array, words: number, p: number, q: number): void {
-  bits[p * words + (q >>> 5)] |= 1 << (q & 31);
-  bits[q * words + (p >>> 5)] |= 1 << (p & 31);
-}
-
 function clearEdge(bits: Uint32Array, words: number, p: number, q: number): void {
   bits[p * words + (q >>> 5)] &= ~(1 << (q & 31));
   bits[q * words + (p >>> 5)] &= ~(1 << (p & 31));
@@ -181,19 +176,6 @@ function neighboursAt(rows: Rows, z: number, from: number, s: number, out: Uint3
     out[x >>> 5] |= bit;
   }
   return any;
-}
-
-/** The first position p in [from, to) with ranks[p] ≥ r (ranks ascending there), or `to`. */
-function firstAtLeast(ranks: Int32Array, from: number, to: number, r: number): number {
-  let lo = from;
-  let hi = to;
-  // invariant: ranks before lo are < r, from hi on ≥ r
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (ranks[mid] < r) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
 }
 
 /**

@@ -98,3 +98,22 @@ export function tableEdges(n: number, rankOf: Int32Array): { lists: NeighbourLis
   }
   return { lists: listsOf(n, low, high, ranks), ranks };
 }
+
+/** The first position p in [from, to) with ranks[p] ≥ r (ranks ascending there, as in a row), or `to`. */
+export function firstAtLeast(ranks: Int32Array, from: number, to: number, r: number): number {
+  let lo = from;
+  let hi = to;
+  // invariant: ranks before lo are < r, from hi on ≥ r
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (ranks[mid] < r) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/** Adds the edge pq to adjacency bitsets: row v is `words` 32-bit words from v · words, bit x for neighbour x. */
+export function setEdge(bits: Uint32Array, words: number, p: number, q: number): void {
+  bits[p * words + (q >>> 5)] |= 1 << (q & 31);
+  bits[q * words + (p >>> 5)] |= 1 << (p & 31);
+}

@@ -2,7 +2,7 @@ import { freemem } from 'node:os';
 import { UserError } from '../core/errors.js';
 import type { Diagram } from './diagram.js';
 import { collapseFiltration } from './edge-collapse.js';
-import { type NeighbourLists, NO_EDGE, neighbourLists } from './neighbour-lists.js';
+import { firstAtLeast, type NeighbourLists, NO_EDGE, neighbourLists, setEdge } from './neighbour-lists.js';
 import { CofacetHeap, PivotMap } from './pivot-map.js';
 import { RankQueue } from './rank-queue.js';
 import { BinomialTable, binomial, condensedLength, edgeHighVertex, maxVertexCount } from './simplex-index.js';
@@ -1177,28 +1177,9 @@ function grown(array: Int32Array, length: number): Int32Array<ArrayBuffer> {
   return copy;
 }
 
-/** The first position p in [from, to) with ranks[p] ≥ r (ranks ascending there), or `to`. */
-function firstAtLeast(ranks: Int32Array, from: number, to: number, r: number): number {
-  let lo = from;
-  let hi = to;
-  // invariant: ranks before lo are < r, from hi on ≥ r
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (ranks[mid] < r) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
-}
-
 /** The first position p in [from, to) with ranks[p] > r, or `to`. */
 function firstAbove(ranks: Int32Array, from: number, to: number, r: number): number {
   return firstAtLeast(ranks, from, to, r + 1);
-}
-
-/** Adds the edge pq to the adjacency bitsets (rows of `words` 32-bit words). */
-function setEdge(bits: Uint32Array, words: number, p: number, q: number): void {
-  bits[p * words + (q >>> 5)] |= 1 << (q & 31);
-  bits[q * words + (p >>> 5)] |= 1 << (p & 31);
 }
 
 /** Writes p, q, s in decreasing order into out[0..3). */
