@@ -14,7 +14,12 @@ export { type DtmOptions, dtmEdgeValue, dtmPersistence, dtmPersistenceFromMatrix
 export { describeFiltration, type Filtration, parseFiltration } from './filtration.js';
 export { condenseMatrix, METRICS, type Metric, pairwiseDistances } from './metric.js';
 export { type NeighbourTable, nearestNeighbours } from './nearest.js';
-export { computeDiagramsParallel, type ParallelRun } from './parallel.js';
+export {
+  computeDiagramsParallel,
+  type ParallelRun,
+  startDiagramWorkers,
+  stopDiagramWorkers,
+} from './parallel.js';
 export { enclosingRadius, type RipsOptions, ripsPersistence } from './rips.js';
 export { type DelayEmbedding, delayEmbedding, signalPersistence } from './signal.js';
 export { condensedIndex, condensedLength, edgeEndpoints } from './simplex-index.js';

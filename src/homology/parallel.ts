@@ -19,11 +19,63 @@ export interface ParallelRun {
 }
 
 /**
- * The diagrams of many samples on worker threads, in the order of `samples`. Each thread takes the next
- * sample as soon as it is free; every started worker keeps two samples in hand, so that it never waits for
- * the calling thread, which computes samples too (one per turn of its event loop, so that the workers' replies
- * are handled between them): with two cores, the second thread is one worker, and no thread waits for a
- * worker to start. A user mistake in any sample stops the run with that sample's message.
+ * Worker threads outlive a run: a thread's engine compiles the hot loops only after running them for a
+ * while (a fresh thread's first 20 clouds of 300 points took 0.3–0.5 s more than warm ones, measured), so a
+ * second run in the same process reuses the threads of the first, and a command can start them before it
+ * loads its data (`startDiagramWorkers`). Threads not in a run are unreferenced: they never keep the
+ * process alive.
+ */
+interface PooledWorker {
+  worker: Worker;
+  /** Has sent a message (it says 'ready' once its modules are loaded): it can hold two samples at once. */
+  started: boolean;
+}
+
+const idle: PooledWorker[] = [];
+
+/**
+ * Starts worker threads for later runs in this process so that their start-up (about 0.1 s each) overlaps
+ * whatever the calling thread does next — typically loading the dataset. Tops the idle pool up to `count`.
+ */
+export function startDiagramWorkers(count: number): void {
+  const spawn = workerFactory();
+  while (idle.length < count) idle.push(pooled(spawn()));
+}
+
+/** Terminates the idle worker threads (a later run starts new ones). */
+export async function stopDiagramWorkers(): Promise<void> {
+  const all = idle.splice(0, idle.length);
+  await Promise.all(all.map((p) => p.worker.terminate()));
+}
+
+function pooled(worker: Worker): PooledWorker {
+  const p: PooledWorker = { worker, started: false };
+  worker.on('message', (m: WorkerReply) => {
+    if ('ready' in m) p.started = true;
+  });
+  // A worker that stops while idle leaves the pool; during a run the run's own listeners report it.
+  worker.on('exit', () => {
+    const at = idle.indexOf(p);
+    if (at >= 0) idle.splice(at, 1);
+  });
+  worker.on('error', () => {});
+  // After the listeners: adding a 'message' listener references the worker again.
+  worker.unref();
+  return p;
+}
+
+/** An idle worker, or a new one. */
+function takeWorker(): PooledWorker {
+  return idle.shift() ?? pooled(workerFactory()());
+}
+
+/**
+ * The diagrams of many samples on worker threads (from the pool above), in the order of `samples`. Each
+ * thread takes the next sample as soon as it is free; every started worker keeps two samples in hand, so
+ * that it never waits for the calling thread, which computes samples too (one per turn of its event loop, so
+ * that the workers' replies are handled between them): with two cores, the second thread is one worker, and
+ * no thread waits for a worker to start. A user mistake in any sample stops the run with that sample's
+ * message.
  * The compiled worker is worker.js beside this file; from TypeScript sources (tests, tsx) the worker runs
  * worker.ts through tsx.
  */
@@ -43,14 +95,14 @@ export async function computeDiagramsParallel(
     }
     return out;
   }
-  const spawn = workerFactory();
   const results: Array<DiagramSet | undefined> = new Array(total);
-  const workers: Worker[] = [];
+  const taken: PooledWorker[] = [];
+  const detach: Array<() => void> = [];
+  let failed = false;
   try {
     await new Promise<void>((resolve, reject) => {
       let next = 0;
       let done = 0;
-      let failed = false;
       const feed = (w: Worker): void => {
         if (failed || next >= total) return;
         const task: WorkerTask = { index: next, sample: samples[next], options };
@@ -73,11 +125,17 @@ export async function computeDiagramsParallel(
         else setImmediate(local);
       };
       for (let k = 0; k < workerCount - 1; k++) {
-        const w = spawn();
-        workers.push(w);
-        let started = false;
-        w.on('message', (reply: WorkerReply) => {
+        const p = takeWorker();
+        taken.push(p);
+        const w = p.worker;
+        w.ref();
+        const onMessage = (reply: WorkerReply): void => {
           if (failed) return;
+          // Started during this run: from now on it holds a second sample.
+          if ('ready' in reply) {
+            feed(w);
+            return;
+          }
           if (!reply.ok) {
             failed = true;
             const where = `sample '${samples[reply.index].id}'`;
@@ -98,30 +156,46 @@ export async function computeDiagramsParallel(
           run.onProgress?.(done, total);
           if (done === total) resolve();
           else feed(w);
-          // The first reply shows the worker has started: from then on it holds a second sample.
-          if (!started) {
-            started = true;
-            feed(w);
-          }
-        });
-        w.on('error', (error) => {
+        };
+        const onError = (error: Error): void => {
           if (!failed) {
             failed = true;
             reject(error);
           }
-        });
-        w.on('exit', (code) => {
-          if (!failed && done < total && code !== 0) {
+        };
+        const onExit = (code: number): void => {
+          if (!failed && done < total) {
             failed = true;
             reject(new Error(`a diagram worker stopped with code ${code}`));
           }
+        };
+        w.on('message', onMessage);
+        w.on('error', onError);
+        w.on('exit', onExit);
+        detach.push(() => {
+          w.off('message', onMessage);
+          w.off('error', onError);
+          w.off('exit', onExit);
         });
         feed(w);
+        // A worker already started holds its second sample at once.
+        if (p.started) feed(w);
       }
       setImmediate(local);
     });
   } finally {
-    await Promise.all(workers.map((w) => w.terminate()));
+    for (const d of detach) d();
+    if (failed) {
+      // Workers may still be computing samples of the failed run: stop them rather than reuse them.
+      await Promise.all(taken.map((p) => p.worker.terminate()));
+    } else {
+      const keep = Math.max(0, availableParallelism() - 1 - idle.length);
+      for (const p of taken.slice(0, keep)) {
+        p.worker.unref();
+        idle.push(p);
+      }
+      await Promise.all(taken.slice(keep).map((p) => p.worker.terminate()));
+    }
   }
   return results as DiagramSet[];
 }

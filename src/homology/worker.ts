@@ -3,7 +3,7 @@ import { isUserError } from '../core/errors.js';
 import type { Sample } from '../io/dataset.js';
 import { computeDiagrams, type DiagramOptions } from './compute.js';
 
-/** Worker thread body for computeDiagramsParallel: one message = one sample to compute. */
+/** Worker thread body for computeDiagramsParallel: one message = one sample to compute; says 'ready' once loaded. */
 export interface WorkerTask {
   index: number;
   sample: Sample;
@@ -11,6 +11,7 @@ export interface WorkerTask {
 }
 
 export type WorkerReply =
+  | { ready: true }
   | { index: number; ok: true; set: ReturnType<typeof computeDiagrams> }
   | {
       index: number;
@@ -24,6 +25,8 @@ export type WorkerReply =
 
 const port = parentPort;
 if (port) {
+  // Modules loaded: the pool may now hand this thread two samples at once (see parallel.ts).
+  port.postMessage({ ready: true } satisfies WorkerReply);
   port.on('message', (task: WorkerTask) => {
     try {
       const set = computeDiagrams(task.sample, task.options);

@@ -1,7 +1,8 @@
-import { describe, expect, it } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { afterAll, describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
 import { computeDiagrams } from '../../src/homology/compute.js';
-import { computeDiagramsParallel } from '../../src/homology/parallel.js';
+import { computeDiagramsParallel, stopDiagramWorkers } from '../../src/homology/parallel.js';
 import type { PointSample } from '../../src/io/dataset.js';
 
 function clouds(count: number): PointSample[] {
@@ -15,6 +16,8 @@ function clouds(count: number): PointSample[] {
 }
 
 describe('computeDiagramsParallel', () => {
+  afterAll(() => stopDiagramWorkers());
+
   it('matches the one-thread result, in order, on two workers', async () => {
     const samples = clouds(12);
     const seen: number[] = [];
@@ -49,4 +52,40 @@ describe('computeDiagramsParallel', () => {
       /sample 'c1'.*finite/,
     );
   }, 30000);
+
+  it('reuses its worker for the next run, and after a failed run starts a new one', async () => {
+    const samples = clouds(6);
+    const want = samples.map((s) => computeDiagrams(s, { degrees: [0, 1] }));
+    const bad = clouds(3);
+    bad[0] = { ...bad[0], coords: bad[0].coords.map((v, i) => (i === 1 ? Number.NaN : v)) };
+    for (const step of ['first', 'second', 'after a failure']) {
+      if (step === 'after a failure')
+        await expect(computeDiagramsParallel(bad, { degrees: [0] }, { workers: 2 })).rejects.toThrow(/c0/);
+      const got = await computeDiagramsParallel(samples, { degrees: [0, 1] }, { workers: 2 });
+      for (let k = 0; k < samples.length; k++) {
+        expect(Array.from(got[k].diagrams[1].deaths), `${step} run, sample ${k}`).toEqual(
+          Array.from(want[k].diagrams[1].deaths),
+        );
+      }
+    }
+  }, 60000);
+
+  it('never keeps the process alive with its idle workers, started early or after a run', () => {
+    const parallel = new URL('../../src/homology/parallel.ts', import.meta.url).href;
+    const script = `
+      import { computeDiagramsParallel, startDiagramWorkers } from ${JSON.stringify(parallel)};
+      startDiagramWorkers(2);
+      const coords = new Float64Array([0, 0, 1, 0, 0, 1, 1, 1]);
+      const sample = (id) => ({ kind: 'points', id, label: 'a', dim: 2, count: 4, coords });
+      const sets = await computeDiagramsParallel([sample('a'), sample('b'), sample('c')], { degrees: [0] }, { workers: 2 });
+      console.log(sets.length);`;
+    const r = spawnSync(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script], {
+      encoding: 'utf8',
+      timeout: 30000,
+    });
+    expect(r.error, 'the process did not end by itself within 30 s').toBeUndefined();
+    expect(r.stderr).toBe('');
+    expect(r.stdout.trim()).toBe('3');
+    expect(r.status).toBe(0);
+  }, 60000);
 });
