@@ -4,7 +4,7 @@ import { UserError } from '../../core/errors.js';
 import { provenance } from '../../core/version.js';
 import type { DiagramOptions } from '../../homology/compute.js';
 import { METRICS, type Metric } from '../../homology/metric.js';
-import { computeDiagramsParallel, startDiagramWorkers } from '../../homology/parallel.js';
+import { computeDiagramsParallel } from '../../homology/parallel.js';
 import type { DelayEmbedding } from '../../homology/signal.js';
 import type { SampleKind } from '../../io/dataset.js';
 import { expectKind, loadDataset, parseKind } from '../../io/load.js';
@@ -109,9 +109,6 @@ Example:
         kind = parseKind(options.kind);
         parseChoiceOption(kind, '--kind', INPUT_KINDS);
       }
-      // A few worker threads start while the data load, so that their start-up (~0.1 s each) is not added
-      // to the run; at most 3, since the sample count is not known yet (rule of thumb, no source).
-      startDiagramWorkers(Math.min(workers - 1, 3));
       const dataset = expectKind(await loadDataset(input, { kind }), INPUT_KINDS, 'landform diagrams');
       if (embed !== undefined && dataset.kind !== 'signal') {
         throw new UserError(
