@@ -9,6 +9,7 @@ import { cubicalPersistence } from '../src/homology/cubical.js';
 import { pairwiseDistances } from '../src/homology/metric.js';
 import { ripsPersistence } from '../src/homology/rips.js';
 import type { PointSample } from '../src/io/dataset.js';
+import { drawSphere } from '../src/io/scenarios/shapes.js';
 import { report, time } from './harness.js';
 
 /**
@@ -155,21 +156,6 @@ async function cpuTime(fn: () => unknown | Promise<unknown>, repeats: number): P
     xs.push((d.user + d.system) / 1000);
   }
   return xs.sort((a, b) => a - b)[Math.floor(xs.length / 2)];
-}
-
-function sphereCloud(count: number, seed: number): Float64Array {
-  const rng = new Random(seed);
-  const c = new Float64Array(count * 3);
-  for (let i = 0; i < count; i++) {
-    const x = rng.normal();
-    const y = rng.normal();
-    const z = rng.normal();
-    const r = Math.hypot(x, y, z);
-    c[3 * i] = x / r + 0.02 * rng.normal();
-    c[3 * i + 1] = y / r + 0.02 * rng.normal();
-    c[3 * i + 2] = z / r + 0.02 * rng.normal();
-  }
-  return c;
 }
 
 /** The 200 clouds of 300 uniform points in the unit cube of the thread benchmark (seed 300). */
@@ -362,7 +348,7 @@ export async function run(): Promise<void> {
     await wholeProcess(dir, 1000, 4);
     await wholeProcess(dir, 2000, 6, 300);
 
-    const sphere = sphereCloud(400, 7);
+    const sphere = drawSphere(400, 0.02, new Random(7));
     const edges = pairwiseDistances(sphere, 400, 3);
     const sortFloor = await time(() => Float64Array.from(edges).sort(), 3);
     const sortCpu = await cpuTime(() => Float64Array.from(edges).sort(), 3);

@@ -6,6 +6,7 @@ import { pairwiseDistances } from '../../src/homology/metric.js';
 import { NO_EDGE, tableEdges } from '../../src/homology/neighbour-lists.js';
 import { ripsPersistence } from '../../src/homology/rips.js';
 import { UnionFind } from '../../src/homology/union-find.js';
+import { drawSphere } from '../../src/io/scenarios/shapes.js';
 
 /** A dense rank table of n vertices with the given edges at the given ranks (NO_EDGE elsewhere). */
 function table(n: number, edges: Array<[number, number, number]>): Int32Array {
@@ -92,18 +93,8 @@ describe('collapseEdges on a graph at a single value', () => {
 
 describe('collapseFiltration on a sampled sphere', () => {
   it('keeps the diagrams of degrees 0–2, moves edges only later, and removes many', () => {
-    const rng = new Random(404);
     const n = 90;
-    const c = new Float64Array(n * 3);
-    for (let i = 0; i < n; i++) {
-      const x = rng.normal();
-      const y = rng.normal();
-      const z = rng.normal();
-      const r = Math.hypot(x, y, z);
-      c[3 * i] = x / r + 0.02 * rng.normal();
-      c[3 * i + 1] = y / r + 0.02 * rng.normal();
-      c[3 * i + 2] = z / r + 0.02 * rng.normal();
-    }
+    const c = drawSphere(n, 0.02, new Random(404));
     const edges = pairwiseDistances(c, n, 3);
     const plain = ripsPersistence(n, edges, { maxDegree: 2, collapse: false });
     const collapsed = ripsPersistence(n, edges, { maxDegree: 2, collapse: true });

@@ -33,3 +33,22 @@ export function drawShape(label: ShapeLabel, points: number, noise: number, rand
   }
   return coords;
 }
+
+/**
+ * `points` points near the unit sphere in R³ (one void), row-major x, y, z: a uniform direction (a normalised
+ * Gaussian triple) moved by Gaussian jitter of standard deviation `noise`. Invented data for benchmarks and
+ * for checks that a degree-2 computation sees the void.
+ */
+export function drawSphere(points: number, noise: number, random: Random): Float64Array {
+  const coords = new Float64Array(points * 3);
+  for (let i = 0; i < points; i++) {
+    const x = random.normal();
+    const y = random.normal();
+    const z = random.normal();
+    const r = Math.hypot(x, y, z);
+    coords[3 * i] = x / r + noise * random.normal();
+    coords[3 * i + 1] = y / r + noise * random.normal();
+    coords[3 * i + 2] = z / r + noise * random.normal();
+  }
+  return coords;
+}
