@@ -454,8 +454,9 @@ class Reduction {
   private found = -1;
   /**
    * The working column holds only the cofacets of rank ≤ cap of the simplices added so far (the scratch
-   * column); when it runs dry, cap rises (its step doubling) and the cofacets in the new rank range are
-   * enumerated again for every added simplex. Most columns find their pivot long before the top ranks, so
+   * column); when it runs dry, cap rises and the cofacets in the new rank range are pushed for every added
+   * simplex — in degree 1 by enumerating them again, the step doubling each time; in degree 2 from each
+   * triangle's cursors, a fixed step at a time. Most columns find their pivot long before the top ranks, so
    * most cofacets are never pushed at all.
    */
   private cap = 0;
