@@ -73,6 +73,8 @@ export function collapseEdges(
   const nearU = new Uint32Array(words);
   const nearV = new Uint32Array(words);
   const candidates = new Uint32Array(words);
+  const laterVertex = new Int32Array(n);
+  const laterArrival = new Int32Array(n);
   const rows: Rows = { n, words, start, vertex, neighbourRank, rankOf, waiting };
   let kept = 0;
   let moved = 0;
@@ -86,40 +88,59 @@ export function collapseEdges(
     const baseV = v * words;
     const fromU = firstAtLeast(neighbourRank, start[u], start[u + 1], r);
     const fromV = firstAtLeast(neighbourRank, start[v], start[v + 1], r);
+    // Common neighbours at r: joined to u and v by waiting edges, or by handled ones of rank ≤ r (ties).
+    const handledU = neighboursAt(rows, u, fromU, r, nearU);
+    const handledV = neighboursAt(rows, v, fromV, r, nearV);
+    for (let q = 0; q < words; q++) common[q] = waiting[baseU + q] & waiting[baseV + q];
+    if (handledU || handledV) {
+      if (!handledU) nearU.fill(0);
+      if (!handledV) nearV.fill(0);
+      for (let q = 0; q < words; q++)
+        common[q] = (waiting[baseU + q] | nearU[q]) & (waiting[baseV + q] | nearV[q]);
+    }
     let s = r;
-    // invariant: the edge is dominated at every value in [r, s)
-    while (true) {
-      const handledU = neighboursAt(rows, u, fromU, s, nearU);
-      const handledV = neighboursAt(rows, v, fromV, s, nearV);
-      for (let q = 0; q < words; q++) common[q] = waiting[baseU + q] & waiting[baseV + q];
-      if (handledU || handledV) {
-        if (!handledU) nearU.fill(0);
-        if (!handledV) nearV.fill(0);
-        for (let q = 0; q < words; q++)
-          common[q] = (waiting[baseU + q] | nearU[q]) & (waiting[baseV + q] | nearV[q]);
-      }
-      const w = dominator(rows, s, common, candidates);
-      if (w < 0) break;
-      // The first later value at which a common neighbour x arrives that w is not joined to by then: x is
-      // joined to u and v by edges still present, is not a common neighbour yet, and is not joined to w by a
-      // waiting edge (those are there from r on).
-      const rowW = w * n;
-      const baseW = w * words;
-      let next = NO_EDGE;
+    let w = dominator(rows, s, common, candidates);
+    if (w >= 0) {
+      // The later common neighbours and their arrivals (the later of their edges to u and v): joined to both
+      // by edges still present, not common yet. From here on `common` grows by arrivals alone.
+      let later = 0;
       for (let q = 0; q < words; q++) {
-        let bits = present[baseU + q] & present[baseV + q] & ~common[q] & ~waiting[baseW + q];
+        let bits = present[baseU + q] & present[baseV + q] & ~common[q];
         while (bits !== 0) {
           const lowest = bits & -bits;
           bits ^= lowest;
           const x = (q << 5) + 31 - Math.clz32(lowest);
           const ru = rankOf[rowU + x];
           const rv = rankOf[rowV + x];
-          const arrival = ru > rv ? ru : rv;
-          if (arrival < next && rankOf[rowW + x] > arrival) next = arrival;
+          laterVertex[later] = x;
+          laterArrival[later++] = ru > rv ? ru : rv;
         }
       }
-      s = next;
-      if (next === NO_EDGE) break;
+      // invariant: the edge is dominated at every value in [r, s), by w at s; `common` is the set at s and
+      // laterVertex/laterArrival[0 … later) the neighbours still to arrive
+      while (true) {
+        // w dominates until the first arrival it is not joined to by then.
+        const rowW = w * n;
+        let next = NO_EDGE;
+        for (let i = 0; i < later; i++) {
+          const arrival = laterArrival[i];
+          if (arrival < next && rankOf[rowW + laterVertex[i]] > arrival) next = arrival;
+        }
+        s = next;
+        if (next === NO_EDGE) break;
+        let still = 0;
+        for (let i = 0; i < later; i++) {
+          const x = laterVertex[i];
+          if (laterArrival[i] <= next) common[x >>> 5] |= 1 << (x & 31);
+          else {
+            laterVertex[still] = x;
+            laterArrival[still++] = laterArrival[i];
+          }
+        }
+        later = still;
+        w = dominator(rows, s, common, candidates);
+        if (w < 0) break;
+      }
     }
     if (s !== r) moved++;
     rankOf[rowU + v] = s;
