@@ -252,17 +252,8 @@ export class CofacetHeap {
     if (this.run.length < count) this.run = new Float64Array(Math.max(count, this.run.length * 2));
     const run = this.run;
     for (let k = 0; k < count; k++) run[k] = (ranks[k] - low) * TWO42 + (TWO42 - 1 - indices[k]);
-    const sorted = run.subarray(0, count).sort();
-    let w = 0;
-    // invariant: sorted[0..w) holds the keys of odd multiplicity among sorted[0..r)
-    for (let r = 0; r < count; ) {
-      let q = r + 1;
-      while (q < count && sorted[q] === sorted[r]) q++;
-      if ((q - r) & 1) sorted[w++] = sorted[r];
-      r = q;
-    }
     this.runPosition = 0;
-    this.runLength = w;
+    this.runLength = keepOdd(run.subarray(0, count).sort());
     this.runLow = low;
     return true;
   }
@@ -322,3 +313,20 @@ export class CofacetHeap {
 }
 
 const TWO42 = 2 ** 42;
+
+/**
+ * Over Z/2, entries that occur an even number of times cancel: moves the values of odd multiplicity of the
+ * sorted array `sorted` to its front, in order, and returns how many there are.
+ */
+export function keepOdd(sorted: Float64Array): number {
+  const length = sorted.length;
+  let kept = 0;
+  // invariant: sorted[0 … kept) holds the values of odd multiplicity among sorted[0 … r)
+  for (let r = 0; r < length; ) {
+    let q = r + 1;
+    while (q < length && sorted[q] === sorted[r]) q++;
+    if ((q - r) & 1) sorted[kept++] = sorted[r];
+    r = q;
+  }
+  return kept;
+}

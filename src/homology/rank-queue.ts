@@ -1,3 +1,5 @@
+import { keepOdd } from './pivot-map.js';
+
 /**
  * A working column whose entries never come before its last pivot: a multiset of cofacet entries
  * (rank, index) over Z/2, popped in filtration order — rank ascending, ties by descending index — with
@@ -119,16 +121,7 @@ export class RankQueue {
     const run = this.run;
     let w = 0;
     for (let e = this.head[rank]; e >= 0; e = this.link[e]) run[w++] = this.indices[e];
-    const sorted = run.subarray(0, w).sort();
-    let kept = 0;
-    // invariant: sorted[0 … kept) holds the indices of odd multiplicity among sorted[0 … r)
-    for (let r = 0; r < w; ) {
-      let q = r + 1;
-      while (q < w && sorted[q] === sorted[r]) q++;
-      if ((q - r) & 1) sorted[kept++] = sorted[r];
-      r = q;
-    }
-    this.runLength = kept;
+    this.runLength = keepOdd(run.subarray(0, w).sort());
   }
 
   private pushLate(index: number): void {

@@ -3,7 +3,7 @@ import { UserError } from '../core/errors.js';
 import type { Diagram } from './diagram.js';
 import { collapseFiltration } from './edge-collapse.js';
 import { firstAtLeast, type NeighbourLists, NO_EDGE, neighbourLists, setEdge } from './neighbour-lists.js';
-import { CofacetHeap, PivotMap } from './pivot-map.js';
+import { CofacetHeap, keepOdd, PivotMap } from './pivot-map.js';
 import { RankQueue } from './rank-queue.js';
 import { BinomialTable, binomial, condensedLength, edgeHighVertex, maxVertexCount } from './simplex-index.js';
 import { UnionFind } from './union-find.js';
@@ -1120,19 +1120,7 @@ class Reduction {
   /** Stores the scratch column with repeated simplices cancelled over Z/2; returns its column number. */
   private storeScratch(): number {
     let len = this.scratchLength;
-    if (len > 1) {
-      const s = this.scratch.subarray(0, len);
-      s.sort();
-      let w = 0;
-      // invariant: s[0..w) holds the simplices of odd multiplicity among s[0..r)
-      for (let r = 0; r < len; ) {
-        let q = r + 1;
-        while (q < len && s[q] === s[r]) q++;
-        if ((q - r) & 1) s[w++] = s[r];
-        r = q;
-      }
-      len = w;
-    }
+    if (len > 1) len = keepOdd(this.scratch.subarray(0, len).sort());
     if (this.storeLength + len > this.store.length) this.growStore(this.storeLength + len);
     const store = this.store;
     const scratch = this.scratch;

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
-import { CofacetHeap, PivotMap } from '../../src/homology/pivot-map.js';
+import { CofacetHeap, keepOdd, PivotMap } from '../../src/homology/pivot-map.js';
 
 describe('PivotMap', () => {
   it('stores and finds keys beyond 2^32, growing as needed', () => {
@@ -51,5 +51,15 @@ describe('CofacetHeap', () => {
       while (heap.popPivot()) got.push([heap.pivotRank, heap.pivotIndex]);
       expect(got).toEqual(reference(entries));
     }
+  });
+});
+
+describe('keepOdd', () => {
+  it('keeps, in order, the values that occur an odd number of times (cancellation over Z/2)', () => {
+    const a = Float64Array.from([1, 1, 2, 3, 3, 3, 5, 7, 7, 7, 7, 9]);
+    const kept = keepOdd(a);
+    expect(Array.from(a.subarray(0, kept))).toEqual([2, 3, 5, 9]);
+    expect(keepOdd(new Float64Array(0))).toBe(0);
+    expect(keepOdd(Float64Array.from([4, 4]))).toBe(0);
   });
 });
