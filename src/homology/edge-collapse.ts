@@ -22,9 +22,11 @@
  *
  * Neighbourhoods are bitsets of 32-bit words. `waiting` holds the edges not handled yet: handled from the
  * last back, these are exactly the edges at or before the current one, all present at every value looked at.
- * The handled edges present at s are added from the neighbour lists, which are sorted by original rank.
+ * The handled edges kept are also listed per vertex, sorted by their new rank; merging the lists of u and v
+ * gives the later common neighbours in order of arrival, so the walk stops at the edge's new value instead of
+ * reading every later neighbour (400 points near the sphere: five passes 0.42 s from 0.77 s, the same edges).
  */
-import { firstAtLeast, type NeighbourLists, NO_EDGE, setEdge, tableEdges } from './neighbour-lists.js';
+import { type NeighbourLists, NO_EDGE, setEdge, tableEdges } from './neighbour-lists.js';
 
 /** Collapse passes at most (see collapseFiltration). */
 const MAX_PASSES = 5;
@@ -62,20 +64,18 @@ export function collapseEdges(
   lists: NeighbourLists,
   rank: Int32Array,
 ): CollapseCount {
-  const { low, high, start, vertex } = lists;
-  const neighbourRank = lists.rank;
+  const { low, high, start } = lists;
   const words = (n + 31) >>> 5;
   const waiting = new Uint32Array(n * words);
   for (let k = 0; k < low.length; k++) setEdge(waiting, words, low[k], high[k]);
-  // Edges not removed (waiting, or handled and kept): where common neighbours can still arrive from.
-  const present = waiting.slice();
+  // The handled edges kept, per vertex, sorted by their current rank: row z is laterRank/laterVertex from
+  // start[z], count[z] long (a vertex's handled edges are at most its edges, the row's room).
+  const count = new Int32Array(n);
+  const laterRank = new Int32Array(start[n]);
+  const laterVertex = new Int32Array(start[n]);
   const common = new Uint32Array(words);
-  const nearU = new Uint32Array(words);
-  const nearV = new Uint32Array(words);
   const candidates = new Uint32Array(words);
-  const laterVertex = new Int32Array(n);
-  const laterArrival = new Int32Array(n);
-  const rows: Rows = { n, words, start, vertex, neighbourRank, rankOf, waiting };
+  const rows: Rows = { n, words, rankOf, waiting };
   let kept = 0;
   let moved = 0;
   for (let k = low.length - 1; k >= 0; k--) {
@@ -86,70 +86,100 @@ export function collapseEdges(
     const rowV = v * n;
     const baseU = u * words;
     const baseV = v * words;
-    const fromU = firstAtLeast(neighbourRank, start[u], start[u + 1], r);
-    const fromV = firstAtLeast(neighbourRank, start[v], start[v + 1], r);
-    // Common neighbours at r: joined to u and v by waiting edges, or by handled ones of rank ≤ r (ties).
-    const handledU = neighboursAt(rows, u, fromU, r, nearU);
-    const handledV = neighboursAt(rows, v, fromV, r, nearV);
+    // Common neighbours at r: joined to u and v by waiting edges, or by handled ones of rank r (ties; a
+    // handled edge comes later in the filtration, so its rank is r or more, and rank-r ones lead each row).
+    let pu = start[u];
+    let pv = start[v];
+    const endU = pu + count[u];
+    const endV = pv + count[v];
     for (let q = 0; q < words; q++) common[q] = waiting[baseU + q] & waiting[baseV + q];
-    if (handledU || handledV) {
-      if (!handledU) nearU.fill(0);
-      if (!handledV) nearV.fill(0);
-      for (let q = 0; q < words; q++)
-        common[q] = (waiting[baseU + q] | nearU[q]) & (waiting[baseV + q] | nearV[q]);
+    if ((pu < endU && laterRank[pu] <= r) || (pv < endV && laterRank[pv] <= r)) {
+      while (pu < endU && laterRank[pu] <= r) {
+        const x = laterVertex[pu++];
+        if (rankOf[rowV + x] <= r) common[x >>> 5] |= 1 << (x & 31);
+      }
+      while (pv < endV && laterRank[pv] <= r) {
+        const x = laterVertex[pv++];
+        if (rankOf[rowU + x] <= r) common[x >>> 5] |= 1 << (x & 31);
+      }
     }
     let s = r;
     let w = dominator(rows, s, common, candidates);
     if (w >= 0) {
-      // The later common neighbours and their arrivals (the later of their edges to u and v): joined to both
-      // by edges still present, not common yet. From here on `common` grows by arrivals alone.
-      let later = 0;
-      for (let q = 0; q < words; q++) {
-        let bits = present[baseU + q] & present[baseV + q] & ~common[q];
-        while (bits !== 0) {
-          const lowest = bits & -bits;
-          bits ^= lowest;
-          const x = (q << 5) + 31 - Math.clz32(lowest);
-          const ru = rankOf[rowU + x];
-          const rv = rankOf[rowV + x];
-          laterVertex[later] = x;
-          laterArrival[later++] = ru > rv ? ru : rv;
+      // Later common neighbours in order of arrival (the later of their edges to u and v), by merging the
+      // rows of u and v: x listed at u at rank a arrives then if it is joined to v by a; listed at v, if it
+      // is joined to u before a (a tie is taken at u). w dominates until the first arrival it is not
+      // joined to by then; there a new dominator is sought, with every neighbour arrived by then.
+      // invariant: the edge is dominated at every value in [r, s), by w at s; `common` is the set at s plus
+      // the arrivals taken since, each joined to w by its arrival
+      s = NO_EDGE;
+      while (pu < endU || pv < endV) {
+        let x: number;
+        let a: number;
+        if (pv >= endV || (pu < endU && laterRank[pu] <= laterRank[pv])) {
+          x = laterVertex[pu];
+          a = laterRank[pu++];
+          if (rankOf[rowV + x] > a) continue;
+        } else {
+          x = laterVertex[pv];
+          a = laterRank[pv++];
+          if (rankOf[rowU + x] >= a) continue;
         }
-      }
-      // invariant: the edge is dominated at every value in [r, s), by w at s; `common` is the set at s and
-      // laterVertex/laterArrival[0 … later) the neighbours still to arrive
-      while (true) {
-        // w dominates until the first arrival it is not joined to by then.
-        const rowW = w * n;
-        let next = NO_EDGE;
-        for (let i = 0; i < later; i++) {
-          const arrival = laterArrival[i];
-          if (arrival < next && rankOf[rowW + laterVertex[i]] > arrival) next = arrival;
+        common[x >>> 5] |= 1 << (x & 31);
+        if (rankOf[w * n + x] <= a) continue;
+        // w stops dominating at a: take every other arrival at a, then look for a dominator there.
+        while (pu < endU && laterRank[pu] === a) {
+          const y = laterVertex[pu++];
+          if (rankOf[rowV + y] <= a) common[y >>> 5] |= 1 << (y & 31);
         }
-        s = next;
-        if (next === NO_EDGE) break;
-        let still = 0;
-        for (let i = 0; i < later; i++) {
-          const x = laterVertex[i];
-          if (laterArrival[i] <= next) common[x >>> 5] |= 1 << (x & 31);
-          else {
-            laterVertex[still] = x;
-            laterArrival[still++] = laterArrival[i];
-          }
+        while (pv < endV && laterRank[pv] === a) {
+          const y = laterVertex[pv++];
+          if (rankOf[rowU + y] < a) common[y >>> 5] |= 1 << (y & 31);
         }
-        later = still;
-        w = dominator(rows, s, common, candidates);
-        if (w < 0) break;
+        w = dominator(rows, a, common, candidates);
+        if (w < 0) {
+          s = a;
+          break;
+        }
       }
     }
     if (s !== r) moved++;
     rankOf[rowU + v] = s;
     rankOf[rowV + u] = s;
-    if (s === NO_EDGE) clearEdge(present, words, u, v);
-    else kept++;
+    if (s !== NO_EDGE) {
+      kept++;
+      insertSorted(laterRank, laterVertex, start[u], count[u]++, s, v);
+      insertSorted(laterRank, laterVertex, start[v], count[v]++, s, u);
+    }
     clearEdge(waiting, words, u, v);
   }
   return { kept, moved };
+}
+
+/** Inserts (rank, vertex) into the row of `length` entries from `from`, sorted by rank, after equal ranks. */
+function insertSorted(
+  ranks: Int32Array,
+  vertices: Int32Array,
+  from: number,
+  length: number,
+  rank: number,
+  vertex: number,
+): void {
+  const end = from + length;
+  let lo = from;
+  let hi = end;
+  // invariant: ranks before lo are ≤ rank, from hi on > rank
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (ranks[mid] <= rank) lo = mid + 1;
+    else hi = mid;
+  }
+  if (lo < end) {
+    ranks.copyWithin(lo + 1, lo, end);
+    vertices.copyWithin(lo + 1, lo, end);
+  }
+  ranks[lo] = rank;
+  vertices[lo] = vertex;
 }
 
 /** What a collapse pass did: edges kept (at their old rank or a later one) and edges moved or removed. */
@@ -158,13 +188,10 @@ export interface CollapseCount {
   moved: number;
 }
 
-/** What the searches below read: the rank table, the neighbour lists and the waiting edges as bitsets. */
+/** What the searches below read: the rank table and the waiting edges as bitsets. */
 interface Rows {
   n: number;
   words: number;
-  start: Int32Array;
-  vertex: Int32Array;
-  neighbourRank: Int32Array;
   rankOf: Int32Array;
   waiting: Uint32Array;
 }
@@ -172,31 +199,6 @@ interface Rows {
 function clearEdge(bits: Uint32Array, words: number, p: number, q: number): void {
   bits[p * words + (q >>> 5)] &= ~(1 << (q & 31));
   bits[q * words + (p >>> 5)] &= ~(1 << (p & 31));
-}
-
-/**
- * Writes into `out` the neighbours of z joined by an already handled edge of current rank ≤ s, and says
- * whether there are any. Handled edges come after the current one (rank r) in the filtration, so they sit in
- * z's row from listed rank r on (position `from`); a listed rank is never above the current one, so the walk
- * stops at listed rank s.
- */
-function neighboursAt(rows: Rows, z: number, from: number, s: number, out: Uint32Array): boolean {
-  const { n, words, start, vertex, neighbourRank, rankOf, waiting } = rows;
-  const row = z * n;
-  const base = z * words;
-  const to = start[z + 1];
-  let any = false;
-  for (let p = from; p < to && neighbourRank[p] <= s; p++) {
-    const x = vertex[p];
-    const bit = 1 << (x & 31);
-    if ((waiting[base + (x >>> 5)] & bit) !== 0 || rankOf[row + x] > s) continue;
-    if (!any) {
-      out.fill(0);
-      any = true;
-    }
-    out[x >>> 5] |= bit;
-  }
-  return any;
 }
 
 /**
