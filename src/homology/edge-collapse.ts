@@ -113,6 +113,7 @@ export function collapseEdges(
       // invariant: the edge is dominated at every value in [r, s), by w at s; `common` is the set at s plus
       // the arrivals taken since, each joined to w by its arrival
       s = NO_EDGE;
+      let rowW = w * n;
       while (pu < endU || pv < endV) {
         let x: number;
         let a: number;
@@ -126,7 +127,7 @@ export function collapseEdges(
           if (rankOf[rowU + x] >= a) continue;
         }
         common[x >>> 5] |= 1 << (x & 31);
-        if (rankOf[w * n + x] <= a) continue;
+        if (rankOf[rowW + x] <= a) continue;
         // w stops dominating at a: take every other arrival at a, then look for a dominator there.
         while (pu < endU && laterRank[pu] === a) {
           const y = laterVertex[pu++];
@@ -141,6 +142,7 @@ export function collapseEdges(
           s = a;
           break;
         }
+        rowW = w * n;
       }
     }
     if (s !== r) moved++;
