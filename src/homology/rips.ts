@@ -174,17 +174,20 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
   let lists = neighbours as NeighbourLists;
   let edgeRanks: Int32Array = rankSorted;
   let cycles: CycleEdges = { low: cycleI, high: cycleJ, rank: cycleRank, count: cycleCount };
+  let reductionLevels = levels;
   if (options.collapse ?? maxDegree >= 2) {
     const collapsed = collapseFiltration(n, rankOf, lists, rankSorted);
     lists = collapsed.lists;
     edgeRanks = collapsed.ranks;
+    reductionLevels = new Float64Array(edgeRanks.length);
+    for (let k = 0; k < edgeRanks.length; k++) reductionLevels[k] = levels[collapsed.levelOf[k]];
     cycles = cycleEdges(n, lists.low, lists.high, edgeRanks);
   }
 
   const table = new BinomialTable(n, 4);
   // Triangles paired in degree 1 are cleared from degree 2: a bitset over all triangle numbers.
   const cleared = maxDegree >= 2 ? new Uint8Array(Math.ceil(binomial(n, 3) / 8)) : undefined;
-  const engine = new Reduction(n, rankOf, levels, table, cleared, lists);
+  const engine = new Reduction(n, rankOf, reductionLevels, table, cleared, lists);
   diagrams.push(engine.reduceEdges(cycles.low, cycles.high, cycles.rank, cycles.count));
   if (maxDegree === 1) return diagrams;
   diagrams.push(engine.reduceTriangles(lists.low, lists.high, edgeRanks));

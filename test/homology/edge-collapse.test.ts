@@ -92,7 +92,7 @@ describe('collapseEdges on a graph at a single value', () => {
 });
 
 describe('collapseFiltration on a sampled sphere', () => {
-  it('keeps the diagrams of degrees 0–2, moves edges only later, and removes many', () => {
+  it('keeps the diagrams of degrees 0–2, moves edges only later, removes many and refines the ranks', () => {
     const n = 90;
     const c = drawSphere(n, 0.02, new Random(404));
     const edges = pairwiseDistances(c, n, 3);
@@ -124,9 +124,14 @@ describe('collapseFiltration on a sampled sphere', () => {
         if (before[p] !== NO_EDGE) removed++;
         continue;
       }
-      expect(rankOf[p]).toBeGreaterThanOrEqual(before[p]);
+      // Refined ranks are positions; read back through levelOf they are the collapsed ranks.
+      expect(after.levelOf[rankOf[p]]).toBeGreaterThanOrEqual(before[p]);
     }
     expect(removed / 2 + after.ranks.length).toBe(order.length);
+    // One rank per edge, in filtration order, the collapsed ranks never decreasing along it.
+    expect(Array.from(after.ranks)).toEqual(Array.from(after.ranks, (_, k) => k));
+    for (let k = 1; k < after.levelOf.length; k++)
+      expect(after.levelOf[k]).toBeGreaterThanOrEqual(after.levelOf[k - 1]);
     expect(after.ranks.length).toBeLessThan(0.8 * order.length);
   });
 });
