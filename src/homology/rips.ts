@@ -70,24 +70,14 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
   }
 
   // Effective edge values: max of the edge and its two vertices.
-  let values = edgeValues;
-  if (vertexValues !== undefined) {
-    values = new Float64Array(edgeCount);
-    for (let j = 1, e = 0; j < n; j++) {
-      // invariant: e = condensed index of (i, j)
-      for (let i = 0; i < j; i++, e++) {
-        const v = edgeValues[e];
-        values[e] = Math.max(v, vertexValues[i], vertexValues[j]);
-      }
-    }
-  }
-  for (let e = 0; e < edgeCount; e++) {
-    if (Number.isNaN(values[e]) || values[e] < 0) {
-      const [i, j] = [e - (edgeHighVertex(e) * (edgeHighVertex(e) - 1)) / 2, edgeHighVertex(e)];
-      throw new UserError(
-        `the distance between points ${i + 1} and ${j + 1} is ${values[e]}; distances must be numbers ≥ 0`,
-      );
-    }
+  const values = vertexValues === undefined ? edgeValues : raisedByVertices(n, edgeValues, vertexValues);
+  const bad = firstInvalidEdge(values);
+  if (bad >= 0) {
+    const j = edgeHighVertex(bad);
+    const i = bad - (j * (j - 1)) / 2;
+    throw new UserError(
+      `the distance between points ${i + 1} and ${j + 1} is ${values[bad]}; distances must be numbers ≥ 0`,
+    );
   }
 
   let threshold = options.maxScale ?? Infinity;
@@ -101,71 +91,30 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
   const kept = orderedEdges.length;
   const rankCond = new Int32Array(edgeCount).fill(NO_EDGE);
   const rankSorted = new Int32Array(kept);
-  let levelCount = 0;
-  for (let k = 0; k < kept; k++) {
-    const v = sortedValues[k];
-    // invariant: sortedValues[0..levelCount) holds the distinct values among the first k, in order
-    if (levelCount === 0 || sortedValues[levelCount - 1] !== v) sortedValues[levelCount++] = v;
-    rankSorted[k] = levelCount - 1;
-    rankCond[orderedEdges[k]] = levelCount - 1;
-  }
+  const levelCount = rankEdges(sortedValues, orderedEdges, rankSorted, rankCond);
   const levels = sortedValues.slice(0, levelCount);
   const rankOf = denseRanks(n, rankCond);
 
   const births0: number[] = [];
   const deaths0: number[] = [];
-  const vertexValue = (v: number): number => (vertexValues === undefined ? 0 : vertexValues[v]);
   // The endpoints of the ordered edges (and, for degree ≥ 1, every vertex's neighbours in rank order).
   const neighbours = maxDegree >= 1 ? neighbourLists(n, orderedEdges, rankSorted) : undefined;
-  const lowEnd = neighbours?.low ?? new Int32Array(0);
-  const highEnd = neighbours?.high ?? new Int32Array(0);
   // H0 by union-find; edges that close a cycle become the degree-1 columns.
   const uf = new UnionFind(n);
   const cycleI = new Int32Array(kept);
   const cycleJ = new Int32Array(kept);
   const cycleRank = new Int32Array(kept);
-  let cycleCount = 0;
-  for (let k = 0; k < kept; k++) {
-    let i: number;
-    let j: number;
-    if (neighbours !== undefined) {
-      i = lowEnd[k];
-      j = highEnd[k];
-    } else {
-      const e = orderedEdges[k];
-      j = edgeHighVertex(e);
-      i = e - (j * (j - 1)) / 2;
-    }
-    const ri = uf.find(i);
-    const rj = uf.find(j);
-    if (ri === rj) {
-      cycleI[cycleCount] = i;
-      cycleJ[cycleCount] = j;
-      cycleRank[cycleCount] = rankSorted[k];
-      cycleCount++;
-      continue;
-    }
-    const oi = uf.oldest[ri];
-    const oj = uf.oldest[rj];
-    const bi = vertexValue(oi);
-    const bj = vertexValue(oj);
-    const iOlder = bi < bj || (bi === bj && oi < oj);
-    const younger = iOlder ? oj : oi;
-    const death = levels[rankSorted[k]];
-    const birth = vertexValue(younger);
-    if (death > birth) {
-      births0.push(birth);
-      deaths0.push(death);
-    }
-    uf.link(ri, rj, iOlder ? oi : oj);
-  }
-  for (let v = 0; v < n; v++) {
-    if (uf.find(v) !== v) continue;
-    const o = uf.oldest[v];
-    if (vertexValue(o) > threshold) continue;
-    births0.push(vertexValue(o));
-    deaths0.push(Infinity);
-  }
+  const cycleCount = componentPairs(
+    uf,
+    orderedEdges,
+    neighbours,
+    rankSorted,
+    levels,
+    vertexValues,
+    { births: births0, deaths: deaths0 },
+    { low: cycleI, high: cycleJ, rank: cycleRank, count: 0 },
+  );
+  essentialComponents(uf, n, vertexValues, threshold, births0, deaths0);
   const diagrams: Diagram[] = [
     { degree: 0, births: Float64Array.from(births0), deaths: Float64Array.from(deaths0) },
   ];
@@ -192,6 +141,126 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
   if (maxDegree === 1) return diagrams;
   diagrams.push(engine.reduceTriangles(lists.low, lists.high, edgeRanks));
   return diagrams;
+}
+
+/*
+ * The loops of ripsPersistence and sortEdges are functions of their own with nothing after the loop: a
+ * thread's engine compiles a loop that runs long on the first call while the code after it has never run,
+ * and that code, reused on later calls, was thrown away again at the first statement after the loop, call
+ * after call (`--trace-deopt` over 100 clouds of 300 points; each throw-away also meant compiling again).
+ */
+
+/** The edge values raised to the larger of their two vertices' values. */
+function raisedByVertices(n: number, edgeValues: Float64Array, vertexValues: Float64Array): Float64Array {
+  const values = new Float64Array(edgeValues.length);
+  for (let j = 1, e = 0; j < n; j++) {
+    // invariant: e = condensed index of (i, j)
+    for (let i = 0; i < j; i++, e++) {
+      const v = edgeValues[e];
+      values[e] = Math.max(v, vertexValues[i], vertexValues[j]);
+    }
+  }
+  return values;
+}
+
+/** The first edge whose value is NaN or negative, or −1. */
+function firstInvalidEdge(values: Float64Array): number {
+  for (let e = 0; e < values.length; e++) if (!(values[e] >= 0)) return e;
+  return -1;
+}
+
+/**
+ * Ranks the sorted edges by distinct value: writes each edge's rank (in order, and by condensed index),
+ * moves the distinct values to the front of `sortedValues` and returns how many there are.
+ */
+function rankEdges(
+  sortedValues: Float64Array,
+  orderedEdges: Int32Array,
+  rankSorted: Int32Array,
+  rankCond: Int32Array,
+): number {
+  let levelCount = 0;
+  for (let k = 0; k < orderedEdges.length; k++) {
+    const v = sortedValues[k];
+    // invariant: sortedValues[0..levelCount) holds the distinct values among the first k, in order
+    if (levelCount === 0 || sortedValues[levelCount - 1] !== v) sortedValues[levelCount++] = v;
+    rankSorted[k] = levelCount - 1;
+    rankCond[orderedEdges[k]] = levelCount - 1;
+  }
+  return levelCount;
+}
+
+/**
+ * H0 over the ordered edges (elder rule): the finite pairs go to `pairs`, the edges closing a cycle to
+ * `cycles`; returns their count. Endpoints come from the neighbour lists when there are any.
+ */
+function componentPairs(
+  uf: UnionFind,
+  orderedEdges: Int32Array,
+  neighbours: NeighbourLists | undefined,
+  rankSorted: Int32Array,
+  levels: Float64Array,
+  vertexValues: Float64Array | undefined,
+  pairs: { births: number[]; deaths: number[] },
+  cycles: CycleEdges,
+): number {
+  const lowEnd = neighbours?.low;
+  const highEnd = neighbours?.high;
+  const { low, high, rank } = cycles;
+  let count = 0;
+  for (let k = 0; k < orderedEdges.length; k++) {
+    let i: number;
+    let j: number;
+    if (lowEnd !== undefined && highEnd !== undefined) {
+      i = lowEnd[k];
+      j = highEnd[k];
+    } else {
+      const e = orderedEdges[k];
+      j = edgeHighVertex(e);
+      i = e - (j * (j - 1)) / 2;
+    }
+    const ri = uf.find(i);
+    const rj = uf.find(j);
+    if (ri === rj) {
+      low[count] = i;
+      high[count] = j;
+      rank[count] = rankSorted[k];
+      count++;
+      continue;
+    }
+    const oi = uf.oldest[ri];
+    const oj = uf.oldest[rj];
+    const bi = vertexValues === undefined ? 0 : vertexValues[oi];
+    const bj = vertexValues === undefined ? 0 : vertexValues[oj];
+    const iOlder = bi < bj || (bi === bj && oi < oj);
+    const death = levels[rankSorted[k]];
+    const birth = iOlder ? bj : bi;
+    if (death > birth) {
+      pairs.births.push(birth);
+      pairs.deaths.push(death);
+    }
+    uf.link(ri, rj, iOlder ? oi : oj);
+  }
+  return count;
+}
+
+/** The components never merged: one essential H0 class each, born at its oldest vertex (if inside the threshold). */
+function essentialComponents(
+  uf: UnionFind,
+  n: number,
+  vertexValues: Float64Array | undefined,
+  threshold: number,
+  births: number[],
+  deaths: number[],
+): void {
+  for (let v = 0; v < n; v++) {
+    if (uf.find(v) !== v) continue;
+    const o = uf.oldest[v];
+    const b = vertexValues === undefined ? 0 : vertexValues[o];
+    if (b > threshold) continue;
+    births.push(b);
+    deaths.push(Infinity);
+  }
 }
 
 interface CycleEdges {
@@ -232,17 +301,10 @@ export function sortEdges(
   values: Float64Array,
   threshold: number,
 ): { order: Int32Array; sorted: Float64Array } {
-  const m = values.length;
-  let kept = 0;
-  for (let e = 0; e < m; e++) if (values[e] <= threshold) kept++;
+  const kept = countAtMost(values, threshold);
   let order = new Int32Array(kept);
   let vals = new Float64Array(kept);
-  for (let e = m - 1, k = 0; e >= 0; e--) {
-    const v = values[e];
-    if (!(v <= threshold)) continue;
-    order[k] = e;
-    vals[k++] = v === 0 ? 0 : v; // −0 sorts as 0
-  }
+  keptInReverse(values, threshold, order, vals);
   const little = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
   const hiWord = little ? 1 : 0;
   let order2 = new Int32Array(kept);
@@ -256,21 +318,10 @@ export function sortEdges(
   for (let round = 0; round < 2; round++) {
     for (const [word, shift] of passes) {
       const words = new Uint32Array(vals.buffer);
-      counts.fill(0);
-      for (let k = 0; k < kept; k++) counts[(words[2 * k + word] >>> shift) & 0xffff]++;
+      digitCounts(words, word, shift, counts);
       if (kept === 0 || counts[(words[word] >>> shift) & 0xffff] === kept) continue;
-      let acc = 0;
-      for (let d = 0; d < 65536; d++) {
-        const c = counts[d];
-        counts[d] = acc;
-        acc += c;
-      }
-      // invariant: entries before k are placed, stably, by the digit of this pass
-      for (let k = 0; k < kept; k++) {
-        const p = counts[(words[2 * k + word] >>> shift) & 0xffff]++;
-        order2[p] = order[k];
-        vals2[p] = vals[k];
-      }
+      exclusiveSums(counts);
+      scatter(words, word, shift, counts, order, vals, order2, vals2);
       const o = order;
       order = order2;
       order2 = o;
@@ -287,7 +338,64 @@ export function sortEdges(
     ];
   }
   // Entries now agree in order on their high 32 bits; finish by value with a stable insertion pass.
-  for (let k = 1; k < kept; k++) {
+  insertionPass(vals, order);
+  return { order, sorted: vals };
+}
+
+function countAtMost(values: Float64Array, threshold: number): number {
+  let kept = 0;
+  for (let e = 0; e < values.length; e++) if (values[e] <= threshold) kept++;
+  return kept;
+}
+
+/** The edges of value ≤ threshold in decreasing index order, with their values (−0 as 0). */
+function keptInReverse(values: Float64Array, threshold: number, order: Int32Array, vals: Float64Array): void {
+  for (let e = values.length - 1, k = 0; e >= 0; e--) {
+    const v = values[e];
+    if (!(v <= threshold)) continue;
+    order[k] = e;
+    vals[k++] = v === 0 ? 0 : v; // −0 sorts as 0
+  }
+}
+
+/** counts[d] = how many of the doubles (as 32-bit words) have the 16-bit digit d at (word, shift). */
+function digitCounts(words: Uint32Array, word: number, shift: number, counts: Int32Array): void {
+  counts.fill(0);
+  for (let k = word; k < words.length; k += 2) counts[(words[k] >>> shift) & 0xffff]++;
+}
+
+/** Counts to starting positions, in place. */
+function exclusiveSums(counts: Int32Array): void {
+  let acc = 0;
+  for (let d = 0; d < counts.length; d++) {
+    const c = counts[d];
+    counts[d] = acc;
+    acc += c;
+  }
+}
+
+/** One stable pass: every entry to its digit's next position. */
+function scatter(
+  words: Uint32Array,
+  word: number,
+  shift: number,
+  counts: Int32Array,
+  order: Int32Array,
+  vals: Float64Array,
+  order2: Int32Array,
+  vals2: Float64Array,
+): void {
+  // invariant: entries before k are placed, stably, by the digit of this pass
+  for (let k = 0; k < order.length; k++) {
+    const p = counts[(words[2 * k + word] >>> shift) & 0xffff]++;
+    order2[p] = order[k];
+    vals2[p] = vals[k];
+  }
+}
+
+/** Stable insertion sort by value of entries already nearly in order, with their edges. */
+function insertionPass(vals: Float64Array, order: Int32Array): void {
+  for (let k = 1; k < vals.length; k++) {
     const v = vals[k];
     if (vals[k - 1] <= v) continue;
     const e = order[k];
@@ -301,7 +409,6 @@ export function sortEdges(
     vals[q + 1] = v;
     order[q + 1] = e;
   }
-  return { order, sorted: vals };
 }
 
 /** The longest run of entries sharing their high 32 bits in a sorted-by-high-bits array. */
@@ -344,6 +451,12 @@ function denseRanks(n: number, rankCond: Int32Array): Int32Array {
 /** min over vertices i of max over j of the edge value (i, j): above it the complex is a cone. */
 export function enclosingRadius(n: number, values: Float64Array): number {
   const far = new Float64Array(n);
+  farthest(n, values, far);
+  return smallest(far);
+}
+
+/** far[v] = the largest value of the edges at v. */
+function farthest(n: number, values: Float64Array, far: Float64Array): void {
   for (let j = 1, e = 0; j < n; j++) {
     // invariant: far[v] is the largest value seen among edges at v so far
     for (let i = 0; i < j; i++, e++) {
@@ -352,8 +465,12 @@ export function enclosingRadius(n: number, values: Float64Array): number {
       if (v > far[j]) far[j] = v;
     }
   }
+}
+
+/** The smallest entry (Infinity when empty). */
+function smallest(xs: Float64Array): number {
   let r = Infinity;
-  for (let i = 0; i < n; i++) if (far[i] < r) r = far[i];
+  for (let i = 0; i < xs.length; i++) if (xs[i] < r) r = xs[i];
   return r;
 }
 
