@@ -87,8 +87,7 @@ export function collapseEdges(
 ): CollapseCount {
   const { low, high, start } = lists;
   const words = (n + 31) >>> 5;
-  const waiting = new Uint32Array(n * words);
-  for (let k = 0; k < low.length; k++) setEdge(waiting, words, low[k], high[k]);
+  const waiting = adjacencyBits(n, words, low, high);
   // The handled edges kept, per vertex, sorted by their current rank: row z is laterRank/laterVertex from
   // start[z], count[z] long (a vertex's handled edges are at most its edges, the row's room).
   const count = new Int32Array(n);
@@ -177,6 +176,13 @@ export function collapseEdges(
     clearEdge(waiting, words, u, v);
   }
   return { kept, moved };
+}
+
+/** The graph of the edges low[k]–high[k] as adjacency bitsets of `words` words per vertex. */
+function adjacencyBits(n: number, words: number, low: Int32Array, high: Int32Array): Uint32Array {
+  const bits = new Uint32Array(n * words);
+  for (let k = 0; k < low.length; k++) setEdge(bits, words, low[k], high[k]);
+  return bits;
 }
 
 /** Inserts (rank, vertex) into the row of `length` entries from `from`, sorted by rank, after equal ranks. */

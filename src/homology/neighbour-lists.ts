@@ -93,26 +93,54 @@ function fillRows(
  * ties by decreasing condensed index — by a counting sort over the ranks, as lists with the ranks in order.
  */
 export function tableEdges(n: number, rankOf: Int32Array): { lists: NeighbourLists; ranks: Int32Array } {
-  let count = 0;
+  const top = highestRank(n, rankOf);
+  const next = new Int32Array(top + 2);
+  const count = rankCounts(n, rankOf, next);
+  prefixSums(next);
+  const low = new Int32Array(count);
+  const high = new Int32Array(count);
+  const ranks = new Int32Array(count);
+  placeEdges(n, rankOf, next, low, high, ranks);
+  return { lists: listsOf(n, low, high, ranks), ranks };
+}
+
+/** The highest rank in the table's lower triangle (0 when there is no edge). */
+function highestRank(n: number, rankOf: Int32Array): number {
   let top = 0;
   for (let j = 1; j < n; j++) {
     const row = j * n;
     for (let i = 0; i < j; i++) {
       const r = rankOf[row + i];
-      if (r === NO_EDGE) continue;
-      count++;
-      if (r > top) top = r;
+      if (r !== NO_EDGE && r > top) top = r;
     }
   }
-  const next = new Int32Array(top + 2);
+  return top;
+}
+
+/** next[r + 1] += the number of edges of rank r; returns the number of edges. */
+function rankCounts(n: number, rankOf: Int32Array, next: Int32Array): number {
+  let count = 0;
   for (let j = 1; j < n; j++) {
     const row = j * n;
-    for (let i = 0; i < j; i++) if (rankOf[row + i] !== NO_EDGE) next[rankOf[row + i] + 1]++;
+    for (let i = 0; i < j; i++) {
+      const r = rankOf[row + i];
+      if (r === NO_EDGE) continue;
+      next[r + 1]++;
+      count++;
+    }
   }
-  for (let r = 0; r <= top; r++) next[r + 1] += next[r];
-  const low = new Int32Array(count);
-  const high = new Int32Array(count);
-  const ranks = new Int32Array(count);
+  return count;
+}
+
+/** The edges in filtration order (each rank's from next[rank] on, by decreasing condensed index). */
+function placeEdges(
+  n: number,
+  rankOf: Int32Array,
+  next: Int32Array,
+  low: Int32Array,
+  high: Int32Array,
+  ranks: Int32Array,
+): void {
   // invariant: the edges of greater condensed index than (i, j) are placed, each rank's by decreasing index
   for (let j = n - 1; j >= 1; j--) {
     const row = j * n;
@@ -125,7 +153,6 @@ export function tableEdges(n: number, rankOf: Int32Array): { lists: NeighbourLis
       ranks[p] = r;
     }
   }
-  return { lists: listsOf(n, low, high, ranks), ranks };
 }
 
 /** The first position p in [from, to) with ranks[p] ≥ r (ranks ascending there, as in a row), or `to`. */

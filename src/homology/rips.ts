@@ -572,6 +572,8 @@ class Reduction {
   private readonly c4: Float64Array;
   /** The added vertex of the cofacet found by the last oldest-cofacet scan. */
   private found = -1;
+  /** The triangle of the apparent pair found by apparentTriangle (a double from the start, as in RankQueue). */
+  private facet = 0.5;
   /**
    * The working column holds only the cofacets of rank ≤ cap of the simplices added so far (the scratch
    * column); when it runs dry, cap rises and the cofacets in the new rank range are pushed for every added
@@ -834,8 +836,12 @@ class Reduction {
     return -1;
   }
 
-  /** The triangle number forming an apparent pair with the tetrahedron w > x > y > z (number q, rank r), or −1. */
-  private apparentTriangle(w: number, x: number, y: number, z: number, r: number, q: number): number {
+  /**
+   * Whether the tetrahedron w > x > y > z (number q, rank r) is in an apparent pair; its triangle goes to
+   * `facet` (a number kept apart from the answer: a result that was a small integer or a large double
+   * deoptimised the comparison that read it on every run).
+   */
+  private apparentTriangle(w: number, x: number, y: number, z: number, r: number, q: number): boolean {
     const { n, rankOf, c2, c3 } = this;
     const wx = rankOf[w * n + x];
     const wy = rankOf[w * n + y];
@@ -864,7 +870,9 @@ class Reduction {
       b = x;
       c = y;
     }
-    return this.oldestOfTriangle(a, b, c, r) === q ? c3[a] + c2[b] + c : -1;
+    if (this.oldestOfTriangle(a, b, c, r) !== q) return false;
+    this.facet = c3[a] + c2[b] + c;
+    return true;
   }
 
   /**
@@ -887,8 +895,9 @@ class Reduction {
     const before = new Uint32Array(n * words);
     const upTo = new Uint32Array(n * words);
     const pair = new Uint32Array(words);
-    let found = new Float64Array(1 << 12);
-    let foundRanks = new Int32Array(1 << 12);
+    // Room for a column per edge to start with (14,905 columns for 48,873 edges on 400 points near the sphere).
+    let found = new Float64Array(Math.max(1 << 12, low.length));
+    let foundRanks = new Int32Array(found.length);
     let count = 0;
     let added = 0;
     const m = low.length;
@@ -957,19 +966,9 @@ class Reduction {
       }
       setEdge(before, words, p, q);
     }
-    // Reverse the runs of equal rank, keeping each run in increasing number.
     const columns = new Float64Array(count);
     const columnRanks = new Int32Array(count);
-    let out = 0;
-    for (let end = count; end > 0; ) {
-      let from = end - 1;
-      while (from > 0 && foundRanks[from - 1] === foundRanks[end - 1]) from--;
-      for (let i = from; i < end; i++) {
-        columns[out] = found[i];
-        columnRanks[out++] = foundRanks[i];
-      }
-      end = from;
-    }
+    reverseRuns(found, foundRanks, columns, columnRanks);
     return { columns, columnRanks };
   }
 
@@ -999,7 +998,7 @@ class Reduction {
         sort4(a, b, c, this.found, vertices);
         if (
           !(tied && pivots.has(q)) &&
-          this.apparentTriangle(vertices[0], vertices[1], vertices[2], vertices[3], r, q) < 0
+          !this.apparentTriangle(vertices[0], vertices[1], vertices[2], vertices[3], r, q)
         ) {
           pivots.set(q, this.storeColumn1(t)); // emergent pair
           continue;
@@ -1037,9 +1036,8 @@ class Reduction {
           continue;
         }
         this.table.vertices(pi, 4, vertices);
-        const apparent = this.apparentTriangle(vertices[0], vertices[1], vertices[2], vertices[3], pr, pi);
-        if (apparent >= 0) {
-          this.addTriangle(apparent);
+        if (this.apparentTriangle(vertices[0], vertices[1], vertices[2], vertices[3], pr, pi)) {
+          this.addTriangle(this.facet);
           continue;
         }
         const death = levels[pr];
@@ -1310,5 +1308,24 @@ function sort4(a: number, b: number, c: number, k: number, out: Int32Array): voi
     out[1] = b;
     out[2] = c;
     out[3] = k;
+  }
+}
+
+/** Copies the first columns.length entries with the runs of equal rank in reverse order, each run kept in order. */
+function reverseRuns(
+  found: Float64Array,
+  foundRanks: Int32Array,
+  columns: Float64Array,
+  columnRanks: Int32Array,
+): void {
+  let out = 0;
+  for (let end = columns.length; end > 0; ) {
+    let from = end - 1;
+    while (from > 0 && foundRanks[from - 1] === foundRanks[end - 1]) from--;
+    for (let i = from; i < end; i++) {
+      columns[out] = found[i];
+      columnRanks[out++] = foundRanks[i];
+    }
+    end = from;
   }
 }
