@@ -572,7 +572,7 @@ class Reduction {
   private readonly c4: Float64Array;
   /** The added vertex of the cofacet found by the last oldest-cofacet scan. */
   private found = -1;
-  /** The triangle of the apparent pair found by apparentTriangle (a double from the start, as in RankQueue). */
+  /** The facet of the apparent pair found by apparentEdge or apparentTriangle (a double from the start, as in RankQueue). */
   private facet = 0.5;
   /**
    * The working column holds only the cofacets of rank ≤ cap of the simplices added so far (the scratch
@@ -655,8 +655,11 @@ class Reduction {
     return true;
   }
 
-  /** The edge number that forms an apparent pair with the triangle a > b > c of rank r, or −1. */
-  private apparentEdge(a: number, b: number, c: number, r: number, t: number): number {
+  /**
+   * Whether the triangle a > b > c (number t, rank r) is in an apparent pair; its edge goes to `facet` (see
+   * apparentTriangle).
+   */
+  private apparentEdge(a: number, b: number, c: number, r: number, t: number): boolean {
     const { n, rankOf, c2 } = this;
     // Facets by increasing number: (c, b), (c, a), (b, a); the first of rank r is the youngest.
     let lo: number;
@@ -671,7 +674,9 @@ class Reduction {
       lo = b;
       hi = a;
     }
-    return this.oldestOfEdge(lo, hi, r) === t ? c2[hi] + lo : -1;
+    if (this.oldestOfEdge(lo, hi, r) !== t) return false;
+    this.facet = c2[hi] + lo;
+    return true;
   }
 
   private markCleared(t: number): void {
@@ -707,7 +712,7 @@ class Reduction {
           continue;
         }
         sort3(i, j, k, vertices);
-        if (!(tied && pivots.has(t)) && this.apparentEdge(vertices[0], vertices[1], vertices[2], r, t) < 0) {
+        if (!(tied && pivots.has(t)) && !this.apparentEdge(vertices[0], vertices[1], vertices[2], r, t)) {
           pivots.set(t, this.storeColumn1(e)); // emergent pair
           this.markCleared(t);
           continue;
@@ -734,10 +739,9 @@ class Reduction {
           continue;
         }
         this.table.vertices(pi, 3, vertices);
-        const apparent = this.apparentEdge(vertices[0], vertices[1], vertices[2], pr, pi);
-        if (apparent >= 0) {
+        if (this.apparentEdge(vertices[0], vertices[1], vertices[2], pr, pi)) {
           heap.push(pr, pi);
-          this.addEdge(apparent);
+          this.addEdge(this.facet);
           continue;
         }
         const death = levels[pr];
