@@ -57,20 +57,31 @@ export function collapseFiltration(
     current = tableEdges(n, rankOf);
     if (moved * 20 < kept) break;
   }
-  const { low, high, start, vertex, rank } = current.lists;
-  const m = low.length;
-  const positions = new Int32Array(m);
-  for (let k = 0; k < m; k++) {
+  const positions = renumberEdges(n, rankOf, current.lists);
+  // Rows were filled in filtration order, so they stay sorted by the refined ranks.
+  rowRanks(n, rankOf, current.lists);
+  return { lists: current.lists, ranks: positions, levelOf: current.ranks };
+}
+
+/** Gives the k-th edge (in filtration order) rank k in the table; returns the new ranks, 0 … m − 1. */
+function renumberEdges(n: number, rankOf: Int32Array, lists: NeighbourLists): Int32Array {
+  const { low, high } = lists;
+  const positions = new Int32Array(low.length);
+  for (let k = 0; k < low.length; k++) {
     positions[k] = k;
     rankOf[low[k] * n + high[k]] = k;
     rankOf[high[k] * n + low[k]] = k;
   }
-  // Rows were filled in filtration order, so they stay sorted by the refined ranks.
+  return positions;
+}
+
+/** Copies every row entry's rank from the table. */
+function rowRanks(n: number, rankOf: Int32Array, lists: NeighbourLists): void {
+  const { start, vertex, rank } = lists;
   for (let z = 0; z < n; z++) {
     const row = z * n;
     for (let p = start[z]; p < start[z + 1]; p++) rank[p] = rankOf[row + vertex[p]];
   }
-  return { lists: current.lists, ranks: positions, levelOf: current.ranks };
 }
 
 /**
@@ -113,15 +124,13 @@ export function collapseEdges(
     const endU = pu + count[u];
     const endV = pv + count[v];
     for (let q = 0; q < words; q++) common[q] = waiting[baseU + q] & waiting[baseV + q];
-    if ((pu < endU && laterRank[pu] <= r) || (pv < endV && laterRank[pv] <= r)) {
-      while (pu < endU && laterRank[pu] <= r) {
-        const x = laterVertex[pu++];
-        if (rankOf[rowV + x] <= r) common[x >>> 5] |= 1 << (x & 31);
-      }
-      while (pv < endV && laterRank[pv] <= r) {
-        const x = laterVertex[pv++];
-        if (rankOf[rowU + x] <= r) common[x >>> 5] |= 1 << (x & 31);
-      }
+    while (pu < endU && laterRank[pu] <= r) {
+      const x = laterVertex[pu++];
+      if (rankOf[rowV + x] <= r) common[x >>> 5] |= 1 << (x & 31);
+    }
+    while (pv < endV && laterRank[pv] <= r) {
+      const x = laterVertex[pv++];
+      if (rankOf[rowU + x] <= r) common[x >>> 5] |= 1 << (x & 31);
     }
     let s = r;
     let w = dominator(rows, s, common, candidates);
