@@ -101,18 +101,22 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
   const neighbours = maxDegree >= 1 ? neighbourLists(n, orderedEdges, rankSorted) : undefined;
   // H0 by union-find; edges that close a cycle become the degree-1 columns.
   const uf = new UnionFind(n);
-  const cycleI = new Int32Array(kept);
-  const cycleJ = new Int32Array(kept);
-  const cycleRank = new Int32Array(kept);
-  const cycleCount = componentPairs(
+  let cycles: CycleEdges = {
+    low: new Int32Array(kept),
+    high: new Int32Array(kept),
+    rank: new Int32Array(kept),
+    count: 0,
+  };
+  cycles.count = componentPairs(
     uf,
     orderedEdges,
     neighbours,
     rankSorted,
     levels,
     vertexValues,
-    { births: births0, deaths: deaths0 },
-    { low: cycleI, high: cycleJ, rank: cycleRank, count: 0 },
+    births0,
+    deaths0,
+    cycles,
   );
   essentialComponents(uf, n, vertexValues, threshold, births0, deaths0);
   const diagrams: Diagram[] = [
@@ -122,14 +126,12 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
 
   let lists = neighbours as NeighbourLists;
   let edgeRanks: Int32Array = rankSorted;
-  let cycles: CycleEdges = { low: cycleI, high: cycleJ, rank: cycleRank, count: cycleCount };
-  let reductionLevels = levels;
+  let reductionLevels: Float64Array = levels;
   if (options.collapse ?? maxDegree >= 2) {
     const collapsed = collapseFiltration(n, rankOf, lists, rankSorted);
     lists = collapsed.lists;
     edgeRanks = collapsed.ranks;
-    reductionLevels = new Float64Array(edgeRanks.length);
-    for (let k = 0; k < edgeRanks.length; k++) reductionLevels[k] = levels[collapsed.levelOf[k]];
+    reductionLevels = valuesOf(levels, collapsed.levelOf);
     cycles = cycleEdges(n, lists.low, lists.high, edgeRanks);
   }
 
@@ -190,8 +192,15 @@ function rankEdges(
   return levelCount;
 }
 
+/** levels[levelOf[k]] for every k: the values of refined ranks. */
+function valuesOf(levels: Float64Array, levelOf: Int32Array): Float64Array {
+  const values = new Float64Array(levelOf.length);
+  for (let k = 0; k < levelOf.length; k++) values[k] = levels[levelOf[k]];
+  return values;
+}
+
 /**
- * H0 over the ordered edges (elder rule): the finite pairs go to `pairs`, the edges closing a cycle to
+ * H0 over the ordered edges (elder rule): the finite pairs go to births/deaths, the edges closing a cycle to
  * `cycles`; returns their count. Endpoints come from the neighbour lists when there are any.
  */
 function componentPairs(
@@ -201,7 +210,8 @@ function componentPairs(
   rankSorted: Int32Array,
   levels: Float64Array,
   vertexValues: Float64Array | undefined,
-  pairs: { births: number[]; deaths: number[] },
+  births: number[],
+  deaths: number[],
   cycles: CycleEdges,
 ): number {
   const lowEnd = neighbours?.low;
@@ -236,8 +246,8 @@ function componentPairs(
     const death = levels[rankSorted[k]];
     const birth = iOlder ? bj : bi;
     if (death > birth) {
-      pairs.births.push(birth);
-      pairs.deaths.push(death);
+      births.push(birth);
+      deaths.push(death);
     }
     uf.link(ri, rj, iOlder ? oi : oj);
   }
