@@ -7,7 +7,9 @@ import type { Dataset } from '../../src/io/dataset.js';
 import { parsePgm } from '../../src/io/image-file.js';
 import { loadDataset } from '../../src/io/load.js';
 import { formatNpy, parseNpy } from '../../src/io/npy.js';
-import { readCsvHeader, readSampleCsv } from '../../src/io/sample-csv.js';
+import { parse } from 'csv-parse/sync';
+import { CSV_OPTIONS, lineBreaksIn } from '../../src/io/csv.js';
+import { plainRecords, readCsvHeader, readSampleCsv } from '../../src/io/sample-csv.js';
 import { tempDir } from '../helpers/cli.js';
 
 const VALID = [
@@ -210,6 +212,92 @@ describe('the CSV reader under random mutations of valid files', () => {
     ]);
     // Buffers are trimmed to the rows read.
     expect(csv.samples[0].values.length).toBe(4);
+  });
+});
+
+// The plain reader (files without quotes) must give the records csv-parse gives with the same options: the
+// reference is the general-purpose parser csv-parse (Adaltas, csv-parse 6, npm), run on the same text.
+describe('the plain reader of quote-free CSV files', () => {
+  /** csv-parse's records of `text`, each with the line it starts on (counted as readSampleCsv does). */
+  function reference(text: string): Array<[string[], number]> {
+    const out: Array<[string[], number]> = [];
+    let line = 1;
+    for (const fields of parse(text, CSV_OPTIONS) as string[][]) {
+      out.push([fields, line]);
+      line += 1 + lineBreaksIn(fields);
+    }
+    return out;
+  }
+
+  async function plain(file: string): Promise<Array<[string[], number]> | false> {
+    const out: Array<[string[], number]> = [];
+    const read = await plainRecords(file, {}, (fields, line) => out.push([fields, line]));
+    return read ? out : false;
+  }
+
+  it('splits like csv-parse: three line endings, blank lines, a BOM, padded fields, no final break', async () => {
+    const dir = tempDir();
+    let n = 0;
+    const piece = fc.constantFrom('a', 'b1', '2.5', '-3e-2', ' x ', '\tt\t', '\f', '  ', 'é', '測', '🙂', '', 'inf');
+    const row = fc.array(piece, { minLength: 1, maxLength: 5 }).map((fields) => fields.join(','));
+    await fc.assert(
+      fc.asyncProperty(
+        fc.array(fc.tuple(row, fc.constantFrom('\n', '\r\n', '\r')), { minLength: 1, maxLength: 20 }),
+        fc.boolean(),
+        fc.boolean(),
+        async (lines, bom, finalBreak) => {
+          let text = (bom ? '\uFEFF' : '') + lines.map(([r, eol]) => r + eol).join('');
+          if (!finalBreak) text = text.replace(/(\r\n|\n|\r)$/, '');
+          const file = join(dir, `p${n++}.csv`);
+          writeFileSync(file, text);
+          expect(await plain(file)).toEqual(reference(text));
+        },
+      ),
+      { numRuns: 300, seed: 23 },
+    );
+  });
+
+  it('keeps a CRLF and a multi-byte character whole across 64 KB reads', async () => {
+    const dir = tempDir();
+    const rows: string[] = ['sample,label,x'];
+    let bytes = rows[0].length + 2;
+    // Rows up to just before the first read boundary (65,536 bytes), then one whose CR is its last byte.
+    while (bytes < 65536 - 40) {
+      const r = `s${rows.length % 7},ok,${rows.length}`;
+      rows.push(r);
+      bytes += r.length + 2;
+    }
+    rows.push(`t,${'y'.repeat(65536 - bytes - 5)},1`);
+    let text = `${rows.join('\r\n')}\r\n`;
+    expect(text.indexOf('\r', 65535 - 2)).toBe(65535);
+    // And a 4-byte character split by the second boundary.
+    const pad = 2 * 65536 - 2 - Buffer.byteLength(text) - 'u,'.length;
+    text += `u,${'z'.repeat(pad)}🙂,2\r\nv,w,3`;
+    expect(Buffer.byteLength(text.slice(0, text.indexOf('🙂')))).toBeLessThan(2 * 65536);
+    expect(Buffer.byteLength(text.slice(0, text.indexOf('🙂') + 2))).toBeGreaterThan(2 * 65536);
+    const file = join(dir, 'edges.csv');
+    writeFileSync(file, text);
+    expect(await plain(file)).toEqual(reference(text));
+  });
+
+  it('gives a file with a quote to csv-parse, with the same samples as the plain reading', async () => {
+    const dir = tempDir();
+    const plainFile = join(dir, 'plain.csv');
+    const quotedFile = join(dir, 'quoted.csv');
+    const lines = ['sample,label,x,y'];
+    const eols = ['\n', '\r\n', '\r'];
+    for (let k = 0; k < 20000; k++) lines.push(`c${k % 97}, l${k % 97} ,${(k * 0.37) % 5},${-k / 3}`);
+    let text = '';
+    for (let k = 0; k < lines.length; k++) text += lines[k] + eols[k % 3] + (k % 1000 === 999 ? '\n' : '');
+    writeFileSync(plainFile, text);
+    writeFileSync(quotedFile, `"sample"${text.slice('sample'.length)}`);
+    expect(await plain(plainFile)).not.toBe(false);
+    expect(await plain(quotedFile)).toBe(false);
+    const a = await readSampleCsv(plainFile);
+    const b = await readSampleCsv(quotedFile);
+    expect({ ...a, file: '' }).toEqual({ ...b, file: '' });
+    expect(a.rowCount).toBe(20000);
+    expect(a.samples[1].label).toBe('l1');
   });
 });
 
