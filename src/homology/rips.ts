@@ -1140,46 +1140,47 @@ class Reduction {
    * equal-rank entries met at insertion, which are the only ones that can reach it.
    */
   private advanceCursors(s: number, hi: number): void {
-    const { n, rankOf, c2, c3, c4, floorRank, floorIndex } = this;
-    const queue = this.queue as RankQueue;
-    const { start, vertex, rank } = this.neighbours;
+    const n = this.n;
     const a = this.triangleA[s];
     const b = this.triangleB[s];
     const c = this.triangleC[s];
-    const rowA = a * n;
-    const rowB = b * n;
-    const rowC = c * n;
-    let p = this.cursorA[s];
-    // invariant: the cofacets whose last edge is in a's row before p are pushed
-    for (const end = start[a + 1]; p < end && rank[p] <= hi; p++) {
+    // A cofacet's last edge is in the row of the larger vertex on a tie: a's row takes ties with both, b's
+    // with c only, c's with none.
+    this.cursorA[s] = this.pushRow(a, this.cursorA[s], hi, b * n, 0, c * n, 0, a, b, c);
+    this.cursorB[s] = this.pushRow(b, this.cursorB[s], hi, a * n, 1, c * n, 0, a, b, c);
+    this.cursorC[s] = this.pushRow(c, this.cursorC[s], hi, a * n, 1, b * n, 1, a, b, c);
+  }
+
+  /**
+   * Pushes the cofacets of triangle abc met in x's row from position p up to rank hi whose last edge is there:
+   * the fourth vertex k is joined to the other two (rows rowY, rowZ) by rank ≤ its edge to x, or < when the
+   * tie goes to the other row (tieY, tieZ = 1). Returns the position reached.
+   */
+  private pushRow(
+    x: number,
+    p: number,
+    hi: number,
+    rowY: number,
+    tieY: number,
+    rowZ: number,
+    tieZ: number,
+    a: number,
+    b: number,
+    c: number,
+  ): number {
+    const { rankOf, c2, c3, c4, floorRank, floorIndex } = this;
+    const queue = this.queue as RankQueue;
+    const { start, vertex, rank } = this.neighbours;
+    // invariant: the cofacets whose last edge is in x's row before p are pushed
+    for (const end = start[x + 1]; p < end && rank[p] <= hi; p++) {
       const k = vertex[p];
       const rk = rank[p];
-      if (rankOf[rowB + k] > rk || rankOf[rowC + k] > rk) continue;
+      if (rankOf[rowY + k] > rk - tieY || rankOf[rowZ + k] > rk - tieZ) continue;
       const index = fourthVertexNumber(a, b, c, k, c2, c3, c4);
       if (rk === floorRank && index >= floorIndex) continue;
       queue.push(rk, index);
     }
-    this.cursorA[s] = p;
-    p = this.cursorB[s];
-    for (const end = start[b + 1]; p < end && rank[p] <= hi; p++) {
-      const k = vertex[p];
-      const rk = rank[p];
-      if (rankOf[rowA + k] >= rk || rankOf[rowC + k] > rk) continue;
-      const index = fourthVertexNumber(a, b, c, k, c2, c3, c4);
-      if (rk === floorRank && index >= floorIndex) continue;
-      queue.push(rk, index);
-    }
-    this.cursorB[s] = p;
-    p = this.cursorC[s];
-    for (const end = start[c + 1]; p < end && rank[p] <= hi; p++) {
-      const k = vertex[p];
-      const rk = rank[p];
-      if (rankOf[rowA + k] >= rk || rankOf[rowB + k] >= rk) continue;
-      const index = fourthVertexNumber(a, b, c, k, c2, c3, c4);
-      if (rk === floorRank && index >= floorIndex) continue;
-      queue.push(rk, index);
-    }
-    this.cursorC[s] = p;
+    return p;
   }
 
   // ---------------------------------------------------------------- stored reduction columns
