@@ -99,8 +99,11 @@ export function collapseEdges(
   const { low, high, start } = lists;
   const words = (n + 31) >>> 5;
   const waiting = adjacencyBits(n, words, low, high);
-  // The handled edges kept, per vertex, sorted by their current rank: row z is laterRank/laterVertex from
-  // start[z], count[z] long (a vertex's handled edges are at most its edges, the row's room).
+  // The handled edges kept, per vertex, by decreasing current rank: row z is laterRank/laterVertex from
+  // start[z], count[z] long (a vertex's handled edges are at most its edges, the row's room). Read from its
+  // end, a row goes by increasing rank. Decreasing, because edges are handled from the last back and their new
+  // ranks mostly fall below the row's: an insert then moves a few entries, not most of the row (on 400 points
+  // near the sphere 8.9 million moves in five passes instead of 71 million).
   const count = new Int32Array(n);
   const laterRank = new Int32Array(start[n]);
   const laterVertex = new Int32Array(start[n]);
@@ -118,18 +121,18 @@ export function collapseEdges(
     const baseU = u * words;
     const baseV = v * words;
     // Common neighbours at r: joined to u and v by waiting edges, or by handled ones of rank r (ties; a
-    // handled edge comes later in the filtration, so its rank is r or more, and rank-r ones lead each row).
-    let pu = start[u];
-    let pv = start[v];
-    const endU = pu + count[u];
-    const endV = pv + count[v];
+    // handled edge comes later in the filtration, so its rank is r or more, and rank-r ones end each row).
+    const firstU = start[u];
+    const firstV = start[v];
+    let pu = firstU + count[u] - 1;
+    let pv = firstV + count[v] - 1;
     for (let q = 0; q < words; q++) common[q] = waiting[baseU + q] & waiting[baseV + q];
-    while (pu < endU && laterRank[pu] <= r) {
-      const x = laterVertex[pu++];
+    while (pu >= firstU && laterRank[pu] <= r) {
+      const x = laterVertex[pu--];
       if (rankOf[rowV + x] <= r) common[x >>> 5] |= 1 << (x & 31);
     }
-    while (pv < endV && laterRank[pv] <= r) {
-      const x = laterVertex[pv++];
+    while (pv >= firstV && laterRank[pv] <= r) {
+      const x = laterVertex[pv--];
       if (rankOf[rowU + x] <= r) common[x >>> 5] |= 1 << (x & 31);
     }
     let s = r;
@@ -143,27 +146,27 @@ export function collapseEdges(
       // the arrivals taken since, each joined to w by its arrival
       s = NO_EDGE;
       let rowW = w * n;
-      while (pu < endU || pv < endV) {
+      while (pu >= firstU || pv >= firstV) {
         let x: number;
         let a: number;
-        if (pv >= endV || (pu < endU && laterRank[pu] <= laterRank[pv])) {
+        if (pv < firstV || (pu >= firstU && laterRank[pu] <= laterRank[pv])) {
           x = laterVertex[pu];
-          a = laterRank[pu++];
+          a = laterRank[pu--];
           if (rankOf[rowV + x] > a) continue;
         } else {
           x = laterVertex[pv];
-          a = laterRank[pv++];
+          a = laterRank[pv--];
           if (rankOf[rowU + x] >= a) continue;
         }
         common[x >>> 5] |= 1 << (x & 31);
         if (rankOf[rowW + x] <= a) continue;
         // w stops dominating at a: take every other arrival at a, then look for a dominator there.
-        while (pu < endU && laterRank[pu] === a) {
-          const y = laterVertex[pu++];
+        while (pu >= firstU && laterRank[pu] === a) {
+          const y = laterVertex[pu--];
           if (rankOf[rowV + y] <= a) common[y >>> 5] |= 1 << (y & 31);
         }
-        while (pv < endV && laterRank[pv] === a) {
-          const y = laterVertex[pv++];
+        while (pv >= firstV && laterRank[pv] === a) {
+          const y = laterVertex[pv--];
           if (rankOf[rowU + y] < a) common[y >>> 5] |= 1 << (y & 31);
         }
         w = dominator(rows, a, common, candidates);
@@ -194,7 +197,10 @@ function adjacencyBits(n: number, words: number, low: Int32Array, high: Int32Arr
   return bits;
 }
 
-/** Inserts (rank, vertex) into the row of `length` entries from `from`, sorted by rank, after equal ranks. */
+/**
+ * Inserts (rank, vertex) into the row of `length` entries from `from`, sorted by decreasing rank, before the
+ * entries of equal rank (so that, read from the end, it comes after them).
+ */
 function insertSorted(
   ranks: Int32Array,
   vertices: Int32Array,
@@ -206,10 +212,10 @@ function insertSorted(
   const end = from + length;
   let lo = from;
   let hi = end;
-  // invariant: ranks before lo are ≤ rank, from hi on > rank
+  // invariant: ranks before lo are > rank, from hi on ≤ rank
   while (lo < hi) {
     const mid = (lo + hi) >>> 1;
-    if (ranks[mid] <= rank) lo = mid + 1;
+    if (ranks[mid] > rank) lo = mid + 1;
     else hi = mid;
   }
   if (lo < end) {
