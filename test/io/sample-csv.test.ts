@@ -1,14 +1,14 @@
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { parse } from 'csv-parse/sync';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/core/errors.js';
+import { CSV_OPTIONS, lineBreaksIn } from '../../src/io/csv.js';
 import type { Dataset } from '../../src/io/dataset.js';
 import { parsePgm } from '../../src/io/image-file.js';
 import { loadDataset } from '../../src/io/load.js';
 import { formatNpy, parseNpy } from '../../src/io/npy.js';
-import { parse } from 'csv-parse/sync';
-import { CSV_OPTIONS, lineBreaksIn } from '../../src/io/csv.js';
 import { plainRecords, readCsvHeader, readSampleCsv } from '../../src/io/sample-csv.js';
 import { tempDir } from '../helpers/cli.js';
 
@@ -238,7 +238,21 @@ describe('the plain reader of quote-free CSV files', () => {
   it('splits like csv-parse: three line endings, blank lines, a BOM, padded fields, no final break', async () => {
     const dir = tempDir();
     let n = 0;
-    const piece = fc.constantFrom('a', 'b1', '2.5', '-3e-2', ' x ', '\tt\t', '\f', '  ', 'é', '測', '🙂', '', 'inf');
+    const piece = fc.constantFrom(
+      'a',
+      'b1',
+      '2.5',
+      '-3e-2',
+      ' x ',
+      '\tt\t',
+      '\f',
+      '  ',
+      'é',
+      '測',
+      '🙂',
+      '',
+      'inf',
+    );
     const row = fc.array(piece, { minLength: 1, maxLength: 5 }).map((fields) => fields.join(','));
     await fc.assert(
       fc.asyncProperty(
