@@ -9,8 +9,8 @@ import {
   matrixFiltrationDiagrams,
   subsampleForFiltration,
 } from './filtration.js';
-import { condenseMatrix, type Metric, pairwiseDistances } from './metric.js';
-import { ripsPersistence } from './rips.js';
+import { condenseMatrix, type Metric } from './metric.js';
+import { cloudRipsPersistence, ripsPersistence } from './rips.js';
 import { type DelayEmbedding, delayEmbedding, signalPersistence } from './signal.js';
 import type { SubsampleSpec } from './subsample.js';
 
@@ -153,8 +153,10 @@ function cloudDiagrams(
       metric: options.metric,
       id,
     });
-  const edges = pairwiseDistances(coords, count, dim, options.metric ?? 'euclidean');
-  return ripsPersistence(count, edges, { maxDegree: maxDegree as 0 | 1 | 2, maxScale: options.maxScale });
+  return cloudRipsPersistence(coords, count, dim, options.metric ?? 'euclidean', {
+    maxDegree: maxDegree as 0 | 1 | 2,
+    maxScale: options.maxScale,
+  });
 }
 
 function checkDegrees(degrees: number[]): number[] {

@@ -7,7 +7,8 @@ import { isUserError, UserError } from '../core/errors.js';
 import type { Sample } from '../io/dataset.js';
 import { computeDiagrams, type DiagramOptions } from './compute.js';
 import type { DiagramSet } from './diagram.js';
-import type { WorkerReply, WorkerTask } from './worker.js';
+import { kernelModule } from './rips-kernel.js';
+import type { WorkerReply, WorkerStart, WorkerTask } from './worker.js';
 
 export interface ParallelRun {
   /**
@@ -218,13 +219,15 @@ function sampleError(id: string, error: unknown): Error {
  * source — a small bootstrap that registers tsx in the worker before importing worker.ts.
  */
 function workerFactory(): () => Worker {
+  // The compiled WebAssembly kernel goes to every worker: its compiled code is shared, not compiled again.
+  const workerData: WorkerStart = { ripsKernel: kernelModule() };
   if (!import.meta.url.endsWith('.ts')) {
     const script = new URL('./worker.js', import.meta.url);
-    return () => new Worker(script);
+    return () => new Worker(script, { workerData });
   }
   const tsxRoot = dirname(createRequire(import.meta.url).resolve('tsx/package.json'));
   const api = pathToFileURL(join(tsxRoot, 'dist/esm/api/index.mjs')).href;
   const script = new URL('./worker.ts', import.meta.url).href;
   const boot = `import(${JSON.stringify(api)}).then((m) => { m.register(); return import(${JSON.stringify(script)}); });`;
-  return () => new Worker(boot, { eval: true });
+  return () => new Worker(boot, { eval: true, workerData });
 }

@@ -2,9 +2,11 @@ import { freemem } from 'node:os';
 import { UserError } from '../core/errors.js';
 import type { Diagram } from './diagram.js';
 import { collapseFiltration } from './edge-collapse.js';
+import { type Metric, pairwiseDistances } from './metric.js';
 import { firstAtLeast, type NeighbourLists, NO_EDGE, neighbourLists, setEdge } from './neighbour-lists.js';
 import { CofacetHeap, keepOdd, PivotMap } from './pivot-map.js';
 import { RankQueue } from './rank-queue.js';
+import { kernelCloudRips, kernelFits, kernelRips } from './rips-kernel.js';
 import { BinomialTable, binomial, condensedLength, edgeHighVertex, maxVertexCount } from './simplex-index.js';
 import { UnionFind } from './union-find.js';
 
@@ -41,6 +43,11 @@ export interface RipsOptions {
    * same either way. Default: when degree 2 is computed, where it shrinks the work by orders of magnitude.
    */
   collapse?: boolean;
+  /**
+   * Degrees 0 and 1 without collapse run on the WebAssembly engine (rips-kernel.ts; the same diagrams, pair
+   * for pair and in the same order) unless this is false or the cloud is too large for it. Default true.
+   */
+  kernel?: boolean;
   /** Refuse when the estimated working memory exceeds this many bytes (default: 80 % of free memory, at least 1 GiB). */
   memoryLimit?: number;
 }
@@ -67,6 +74,24 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
     throw new UserError(
       `${n} points are too many for degree 2 (over 2^32 triangles); subsample the cloud or compute degrees 0,1`,
     );
+  }
+
+  if (
+    maxDegree <= 1 &&
+    options.collapse !== true &&
+    options.kernel !== false &&
+    kernelFits(n) &&
+    cheapBoundFits(n, maxDegree, options.memoryLimit)
+  ) {
+    const diagrams = kernelRips(
+      n,
+      edgeValues,
+      maxDegree as 0 | 1,
+      options.maxScale ?? Infinity,
+      vertexValues,
+    );
+    // undefined: an edge value is invalid, which the checks below word.
+    if (diagrams !== undefined) return diagrams;
   }
 
   // Effective edge values: max of the edge and its two vertices.
@@ -143,6 +168,37 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
   if (maxDegree === 1) return diagrams;
   diagrams.push(engine.reduceTriangles(lists.low, lists.high, edgeRanks));
   return diagrams;
+}
+
+/**
+ * ripsPersistence of a point cloud (row-major finite coordinates) under `metric`. On the WebAssembly engine
+ * (when ripsPersistence would use it) the distances are computed there too, as the same doubles.
+ */
+export function cloudRipsPersistence(
+  coords: Float64Array,
+  n: number,
+  dim: number,
+  metric: Metric,
+  options: RipsOptions,
+): Diagram[] {
+  if (
+    options.maxDegree <= 1 &&
+    options.vertexValues === undefined &&
+    options.collapse !== true &&
+    options.kernel !== false &&
+    cheapBoundFits(n, options.maxDegree, options.memoryLimit)
+  ) {
+    const diagrams = kernelCloudRips(
+      coords,
+      n,
+      dim,
+      metric,
+      options.maxDegree as 0 | 1,
+      options.maxScale ?? Infinity,
+    );
+    if (diagrams !== undefined) return diagrams;
+  }
+  return ripsPersistence(n, pairwiseDistances(coords, n, dim, metric), options);
 }
 
 /*
@@ -532,6 +588,20 @@ export function estimateRipsBytes(
   return { bytes, edges: kept, triangles };
 }
 
+/** The memory budget of a computation: the limit given, or 80 % of free memory and at least 1 GiB. */
+function memoryBudget(limit?: number): number {
+  return limit ?? Math.max(2 ** 30, 0.8 * freemem());
+}
+
+/** Whether every edge kept fits the budget without degree 2 (the cheap bound of checkSize). */
+function cheapBoundFits(n: number, maxDegree: number, limit?: number): boolean {
+  if (maxDegree >= 2) return false;
+  const bound = 4 * n * n + 72 * condensedLength(n);
+  // Within the smallest default budget there is no need to ask the system for free memory (a system call,
+  // 2% of the time of a cloud of 300 points).
+  return (limit === undefined && bound <= 2 ** 30) || bound <= memoryBudget(limit);
+}
+
 function checkSize(
   n: number,
   values: Float64Array,
@@ -539,9 +609,9 @@ function checkSize(
   maxDegree: number,
   limit?: number,
 ): void {
-  const budget = limit ?? Math.max(2 ** 30, 0.8 * freemem());
+  const budget = memoryBudget(limit);
   // Without degree 2, every edge kept is a cheap upper bound; count exactly only when it does not fit.
-  if (maxDegree < 2 && 4 * n * n + 72 * condensedLength(n) <= budget) return;
+  if (cheapBoundFits(n, maxDegree, limit)) return;
   const { bytes, edges, triangles } = estimateRipsBytes(n, values, threshold, maxDegree);
   if (bytes > budget) {
     const mb = (x: number): string => `${Math.round(x / 2 ** 20)} MB`;

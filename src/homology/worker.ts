@@ -1,7 +1,13 @@
-import { parentPort } from 'node:worker_threads';
+import { parentPort, workerData } from 'node:worker_threads';
 import { isUserError } from '../core/errors.js';
 import type { Sample } from '../io/dataset.js';
 import { computeDiagrams, type DiagramOptions } from './compute.js';
+import { adoptKernelModule, type KernelModule } from './rips-kernel.js';
+
+/** What a worker is started with: the process's compiled Rips kernel (see rips-kernel.ts). */
+export interface WorkerStart {
+  ripsKernel: KernelModule;
+}
 
 /** Worker thread body for computeDiagramsParallel: one message = one sample to compute; says 'ready' once loaded. */
 export interface WorkerTask {
@@ -25,6 +31,8 @@ export type WorkerReply =
 
 const port = parentPort;
 if (port) {
+  const start = workerData as WorkerStart | undefined;
+  if (start?.ripsKernel !== undefined) adoptKernelModule(start.ripsKernel);
   // Modules loaded: the pool may now hand this thread two samples at once (see parallel.ts).
   port.postMessage({ ready: true } satisfies WorkerReply);
   port.on('message', (task: WorkerTask) => {

@@ -20,7 +20,8 @@ function essentialOf(d: Diagram): number {
 
 /**
  * Checks the engine against the naive reduction, degree by degree, pair for pair, with and without the edge
- * collapse (edge-collapse.ts): the collapsed filtration must give the same diagrams.
+ * collapse (edge-collapse.ts): the collapsed filtration must give the same diagrams. Degrees 0–1 are also
+ * checked on both engines of that range: the WebAssembly kernel (rips-kernel.ts) and the TypeScript one.
  */
 function agree(
   coords: Float64Array,
@@ -43,6 +44,18 @@ function agree(
       expect(got[d].degree).toBe(d);
       expect(finiteOf(got[d])).toEqual(want.finite[d]);
       expect(essentialOf(got[d])).toBe(want.essential[d]);
+    }
+  }
+  for (const kernel of [true, false]) {
+    const low = ripsPersistence(count, edges, {
+      maxDegree: maxDegree === 0 ? 0 : 1,
+      maxScale: extra.maxScale,
+      vertexValues: extra.vertexValues ? Float64Array.from(extra.vertexValues) : undefined,
+      kernel,
+    });
+    for (let d = 0; d < low.length; d++) {
+      expect(finiteOf(low[d])).toEqual(want.finite[d]);
+      expect(essentialOf(low[d])).toBe(want.essential[d]);
     }
   }
 }
