@@ -22,7 +22,7 @@ import { report, time } from './harness.js';
  * - Rips H0–H2 of 400 points near the unit sphere (with and without the edge collapse), and cubical H0+H1
  *   of a 512 × 512 image, in process.
  * - 200 clouds of 300 points (H0+H1), two computing threads (the calling one and a worker) against one — see
- *   `threads` below for how, and why three ways.
+ *   `threads` below for how, and why four ways.
  */
 const root = fileURLToPath(new URL('../../', import.meta.url));
 const cli = join(root, 'dist/src/cli/main.js');
@@ -172,12 +172,13 @@ function threadClouds(): PointSample[] {
 
 /**
  * A fresh process that makes the same clouds and times computeDiagramsParallel alone: `1` or `2` threads once
- * (cold: COMPUTE), or `warm`: 1 and 2 threads alternately three times each, the faster of the last two of each
- * (WARM1, WARM2) — both threads then run compiled code, warmed on the same work.
+ * (cold: COMPUTE; with `started`, the worker is started and has loaded its modules before the clock starts, as
+ * `landform diagrams` starts it while it reads the CSV), or `warm`: 1 and 2 threads alternately three times
+ * each, the faster of the last two of each (WARM1, WARM2) — both threads then run compiled code.
  */
 const freshComputeScript = (distSrc: string): string => `
 import { Random } from ${JSON.stringify(pathToFileURL(join(distSrc, 'core/random.js')).href)};
-import { computeDiagramsParallel } from ${JSON.stringify(pathToFileURL(join(distSrc, 'homology/parallel.js')).href)};
+import { computeDiagramsParallel, startDiagramWorkers } from ${JSON.stringify(pathToFileURL(join(distSrc, 'homology/parallel.js')).href)};
 const clouds = [];
 const cr = new Random(300);
 for (let k = 0; k < 200; k++) {
@@ -194,7 +195,11 @@ if (process.argv[2] === 'warm') {
   const ms = { 1: [], 2: [] };
   for (let r = 0; r < 3; r++) for (const w of [1, 2]) ms[w].push(await timed(w));
   process.stdout.write('WARM1 ' + Math.min(ms[1][1], ms[1][2]) + ' WARM2 ' + Math.min(ms[2][1], ms[2][2]) + '\\n');
-} else process.stdout.write('COMPUTE ' + (await timed(Number(process.argv[2]))) + '\\n');
+} else {
+  const workers = Number(process.argv[2]);
+  if (process.argv[3] === 'started') await startDiagramWorkers(workers - 1);
+  process.stdout.write('COMPUTE ' + (await timed(workers)) + '\\n');
+}
 `;
 
 /** Runs two commands alternately `repeats` times; the median of each (wall, CPU, COMPUTE), the peak memory. */
@@ -246,24 +251,23 @@ async function twoThreadCeiling(): Promise<number> {
 
 /**
  * 200 clouds of 300 points, H0+H1: one computing thread against two (`--workers 2`: the calling thread and
- * one worker), measured three ways and printed side by side, because a thread's engine compiles the hot
- * loops only after running them a while: a fresh thread's first ~20 clouds cost 0.3–0.5 s more than warm
- * ones, and the compiling itself (0.35–0.6 s per thread by the engine's own trace) runs on the idle core when
- * one thread computes but competes with the computing threads when two do. So two fresh threads pay that
- * warm-up twice, on a machine with no core to spare.
- * - Whole process — the headline, what a user sees: `landform diagrams` on a points CSV of these clouds with
- *   `--workers 1` and `--workers 2`, fresh processes, alternating, median of 5 each. Start-up, loading and
- *   writing are the same one-thread work in both.
- * - Compute only, fresh threads: a fresh process per run times computeDiagramsParallel alone (both runs start
- *   cold), alternating, median of 5.
+ * one worker), measured four ways and printed side by side. The engine of degrees 0–1 is the WebAssembly
+ * kernel (rips-kernel.ts), compiled once per process and shared by the worker, so a fresh thread no longer
+ * compiles the hot code for itself (that warm-up held two fresh threads to 1.07–1.35× one with the TypeScript
+ * engine); what a fresh run still pays is starting the worker, 0.10–0.16 s.
+ * - Whole process, what a user sees: `landform diagrams` on a points CSV of these clouds with `--workers 1`
+ *   and `--workers 2`, fresh processes, alternating, median of 5 each. Start-up, reading and writing are the
+ *   same one-thread work in both, and they are most of the time (Amdahl's law bounds this ratio).
+ * - Compute only, fresh threads started beforehand: a fresh process per run starts its worker and waits until
+ *   it has loaded its modules (as `landform diagrams` starts it while it reads the CSV), then times
+ *   computeDiagramsParallel alone: both runs compute with cold code; alternating, median of 5.
+ * - Compute only, fresh threads with the worker's start-up inside the timed call; alternating, median of 5.
  * - Compute only, warm threads: in a fresh process, one and two threads alternately three times each, the
- *   faster of the last two of each (the worker is kept between runs), median of 3 processes: both compute
- *   with compiled code — what later datasets of one process (the demo's) get. Not in this process: the
- *   benchmarks above leave its thread's compiled code tuned to other work (H0–H2); one thread took 1.4–1.8 s
- *   here against 1.2–1.3 s in a fresh process, which flattered two (measured).
+ *   faster of the last two of each (the worker is kept between runs), median of 3 processes — what later
+ *   datasets of one process (the demo's) get. Not in this process: the benchmarks above leave its thread's
+ *   compiled code tuned to other work (H0–H2), which flattered two threads (measured).
  * Beside them: two threads of plain arithmetic against one, before and after (what the cores give), and the
  * CPU other processes used meanwhile (from /proc/stat, Linux), to tell a busy machine from a slow program.
- * Earlier this benchmark timed one warm thread against a cold worker, which was fair to neither.
  */
 async function threads(dir: string): Promise<void> {
   const busy0 = machineBusy();
@@ -295,6 +299,7 @@ async function threads(dir: string): Promise<void> {
   const fresh = join(dir, 'fresh-compute.mjs');
   writeFileSync(fresh, freshComputeScript(join(root, 'dist/src')));
   const [fresh1, fresh2] = alternate([fresh, '1'], [fresh, '2'], 5);
+  const [started1, started2] = alternate([fresh, '1', 'started'], [fresh, '2', 'started'], 5);
 
   const warmRuns = Array.from({ length: 3 }, () => {
     const m = /WARM1 ([\d.]+) WARM2 ([\d.]+)/.exec(runChild([fresh, 'warm']).stdout);
@@ -333,9 +338,24 @@ async function threads(dir: string): Promise<void> {
     speedUp('speed-up, whole process (what a user sees)', cli1.wall, cli2.wall),
     { name: 'whole process, --workers 1, CPU', value: cli1.cpu, unit: 'ms' },
     { name: 'whole process, --workers 2, CPU (both threads compile)', value: cli2.cpu, unit: 'ms' },
+    {
+      name: 'compute only, fresh threads started beforehand, 1 thread (median of 5)',
+      value: started1.compute,
+      unit: 'ms',
+    },
+    {
+      name: 'compute only, fresh threads started beforehand, 2 threads (median of 5)',
+      value: started2.compute,
+      unit: 'ms',
+    },
+    speedUp('speed-up, fresh threads started beforehand', started1.compute, started2.compute),
     { name: 'compute only, fresh threads, 1 thread (median of 5)', value: fresh1.compute, unit: 'ms' },
-    { name: 'compute only, fresh threads, 2 threads (median of 5)', value: fresh2.compute, unit: 'ms' },
-    speedUp('speed-up, fresh threads', fresh1.compute, fresh2.compute),
+    {
+      name: 'compute only, fresh threads, 2 threads, start-up included (median of 5)',
+      value: fresh2.compute,
+      unit: 'ms',
+    },
+    speedUp('speed-up, fresh threads, worker start-up included', fresh1.compute, fresh2.compute),
     { name: 'compute only, warm threads, 1 thread (median of 3)', value: warm1, unit: 'ms' },
     { name: 'compute only, warm threads, 2 threads (median of 3)', value: warm2, unit: 'ms' },
     speedUp('speed-up, warm threads', warm1, warm2),

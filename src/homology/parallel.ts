@@ -30,6 +30,8 @@ interface PooledWorker {
   worker: Worker;
   /** Has sent a message (it says 'ready' once its modules are loaded): it can hold two samples at once. */
   started: boolean;
+  /** Settles when the worker has said 'ready' or stopped. */
+  ready: Promise<void>;
 }
 
 const idle: PooledWorker[] = [];
@@ -37,10 +39,19 @@ const idle: PooledWorker[] = [];
 /**
  * Starts worker threads for later runs in this process so that their start-up (about 0.1 s each) overlaps
  * whatever the calling thread does next — typically loading the dataset. Tops the idle pool up to `count`.
+ * The promise settles when every idle worker has loaded its modules (or stopped); callers need not wait.
  */
-export function startDiagramWorkers(count: number): void {
-  const spawn = workerFactory();
-  while (idle.length < count) idle.push(pooled(spawn()));
+export function startDiagramWorkers(count: number): Promise<void> {
+  if (idle.length < count) {
+    const spawn = workerFactory();
+    while (idle.length < count) {
+      const p = pooled(spawn());
+      // Referenced until ready, so that a caller awaiting the promise is not left with an empty event loop.
+      p.worker.ref();
+      idle.push(p);
+    }
+  }
+  return Promise.all(idle.map((p) => p.ready)).then(() => undefined);
 }
 
 /** Terminates the idle worker threads (a later run starts new ones). */
@@ -50,12 +61,22 @@ export async function stopDiagramWorkers(): Promise<void> {
 }
 
 function pooled(worker: Worker): PooledWorker {
-  const p: PooledWorker = { worker, started: false };
+  let settle = (): void => {};
+  const ready = new Promise<void>((resolve) => {
+    settle = resolve;
+  });
+  const p: PooledWorker = { worker, started: false, ready };
   worker.on('message', (m: WorkerReply) => {
-    if ('ready' in m) p.started = true;
+    if ('ready' in m) {
+      p.started = true;
+      // Still waiting in the pool (not taken by a run): unreferenced again.
+      if (idle.includes(p)) worker.unref();
+      settle();
+    }
   });
   // A worker that stops while idle leaves the pool; during a run the run's own listeners report it.
   worker.on('exit', () => {
+    settle();
     const at = idle.indexOf(p);
     if (at >= 0) idle.splice(at, 1);
   });

@@ -2,7 +2,7 @@ import { parentPort, workerData } from 'node:worker_threads';
 import { isUserError } from '../core/errors.js';
 import type { Sample } from '../io/dataset.js';
 import { computeDiagrams, type DiagramOptions } from './compute.js';
-import { adoptKernelModule, type KernelModule } from './rips-kernel.js';
+import { adoptKernelModule, type KernelModule, warmKernel } from './rips-kernel.js';
 
 /** What a worker is started with: the process's compiled Rips kernel (see rips-kernel.ts). */
 export interface WorkerStart {
@@ -33,6 +33,7 @@ const port = parentPort;
 if (port) {
   const start = workerData as WorkerStart | undefined;
   if (start?.ripsKernel !== undefined) adoptKernelModule(start.ripsKernel);
+  warmKernel();
   // Modules loaded: the pool may now hand this thread two samples at once (see parallel.ts).
   port.postMessage({ ready: true } satisfies WorkerReply);
   port.on('message', (task: WorkerTask) => {

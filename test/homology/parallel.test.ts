@@ -75,6 +75,8 @@ describe('computeDiagramsParallel', () => {
     const script = `
       import { computeDiagramsParallel, startDiagramWorkers } from ${JSON.stringify(parallel)};
       startDiagramWorkers(2);
+      // A caller may also wait until the workers have loaded (the promise must settle, not leave an empty loop).
+      await startDiagramWorkers(1);
       const coords = new Float64Array([0, 0, 1, 0, 0, 1, 1, 1]);
       const sample = (id) => ({ kind: 'points', id, label: 'a', dim: 2, count: 4, coords });
       const sets = await computeDiagramsParallel([sample('a'), sample('b'), sample('c')], { degrees: [0] }, { workers: 2 });

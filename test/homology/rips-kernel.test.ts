@@ -6,7 +6,7 @@ import { Random } from '../../src/core/random.js';
 import type { Diagram } from '../../src/homology/diagram.js';
 import { METRICS, pairwiseDistances } from '../../src/homology/metric.js';
 import { cloudRipsPersistence, ripsPersistence } from '../../src/homology/rips.js';
-import { kernelFits } from '../../src/homology/rips-kernel.js';
+import { kernelFits, kernelMemoryBytes } from '../../src/homology/rips-kernel.js';
 
 /*
  * The WebAssembly engine of degrees 0–1 (wasm/rips-low.ts) must give the TypeScript engine's diagrams
@@ -87,8 +87,24 @@ describe('the WebAssembly Rips kernel against the TypeScript engine', () => {
         ripsPersistence(count, edges, { maxDegree: 1, kernel: false }),
       );
     }
+    expect(kernelMemoryBytes()).toBeLessThan(2 ** 28);
     expect(kernelFits(5000)).toBe(true);
     expect(kernelFits(8000)).toBe(false);
+  });
+
+  it('gives its memory back after a cloud that needed more than 128 MB', () => {
+    const rng = new Random(9);
+    const count = 2700;
+    const [h0] = ripsPersistence(count, pairwiseDistances(cloud(rng, count, 3, 0), count, 3), {
+      maxDegree: 0,
+    });
+    // Uniform points in a cube: one component in the end, all others die (textbook: b0 of a connected set).
+    expect(h0.births.length).toBe(count);
+    expect(h0.deaths.filter((d) => d === Infinity).length).toBe(1);
+    expect(kernelMemoryBytes()).toBe(0);
+    ripsPersistence(30, pairwiseDistances(cloud(rng, 30, 3, 0), 30, 3), { maxDegree: 1 });
+    expect(kernelMemoryBytes()).toBeGreaterThan(0);
+    expect(kernelMemoryBytes()).toBeLessThan(2 ** 24);
   });
 
   it('leaves an invalid distance to the checks that name it', () => {

@@ -110,7 +110,7 @@ Example:
         parseChoiceOption(kind, '--kind', INPUT_KINDS);
       }
       // The worker threads start while the data loads (about 0.1 s each, on the cores loading leaves idle).
-      if (workers > 1) startDiagramWorkers(workers - 1);
+      if (workers > 1) void startDiagramWorkers(workers - 1);
       const dataset = expectKind(await loadDataset(input, { kind }), INPUT_KINDS, 'landform diagrams');
       if (embed !== undefined && dataset.kind !== 'signal') {
         throw new UserError(
