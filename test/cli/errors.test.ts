@@ -113,7 +113,7 @@ describe('the error contract', () => {
     const root = new URL('../../', import.meta.url).pathname;
     const script = `
       const { COMMANDS } = await import(${JSON.stringify(join(root, 'src/cli/commands/index.ts'))});
-      COMMANDS.push((p) => p.command('explode').action(() => { null.property; }));
+      COMMANDS.push({ name: 'explode', load: async () => (p) => p.command('explode').action(() => { null.property; }) });
       const { main } = await import(${JSON.stringify(join(root, 'src/cli/main.ts'))});
       process.exitCode = await main(process.argv.slice(1));
     `;
