@@ -2,13 +2,15 @@
 // src/homology/rips-kernel-bytes.ts. Not part of the TypeScript build: i32, f64, load and store are
 // AssemblyScript's.
 //
-// Vietoris–Rips persistence in degrees 0 and 1 — the same algorithm, step for step, as ripsPersistence in
-// src/homology/rips.ts with maxDegree ≤ 1 and no collapse (read the comments there): edges sorted by value
-// (ties by decreasing condensed index), H0 by union-find with the elder rule, H1 by the cohomology reduction
-// with apparent and emergent pairs, the cofacets of an edge enumerated from neighbour rows up to a cap that
-// doubles. The diagrams are the same pairs in the same order; the engine exists because compiled WebAssembly
-// is shared by every thread of a process, where each thread compiles JavaScript for itself (the warm-up that
-// kept two threads from doubling the speed).
+// Vietoris–Rips persistence in degrees 0–2 — the same algorithm, step for step, as ripsPersistence in
+// src/homology/rips.ts (read the comments there and in edge-collapse.ts and rank-queue.ts): edges sorted by
+// value (ties by decreasing condensed index), H0 by union-find with the elder rule, H1 by the cohomology
+// reduction with apparent and emergent pairs, the cofacets of an edge enumerated from neighbour rows up to a
+// cap that doubles; for degree 2 the edge collapse first, the triangles paired in degree 1 cleared, the
+// degree-2 columns met through their last edges and reduced with the rank queue and per-triangle cursors.
+// The diagrams are the same pairs in the same order. The engine exists because compiled WebAssembly is
+// shared by every thread of a process, where each thread compiles JavaScript for itself (the warm-up that
+// kept two threads from doubling the speed); it is also 1.6–1.7× faster.
 //
 // Memory: a bump allocator over the module's memory, reset at the start of each sample (`prepare`). Simplex
 // numbers are i64.
@@ -69,6 +71,9 @@ let count0: i32 = 0;
 let births1: usize = 0;
 let deaths1: usize = 0;
 let count1: i32 = 0;
+let births2: usize = 0;
+let deaths2: usize = 0;
+let count2: i32 = 0;
 let badEdge: i32 = -1;
 
 /** Starts a sample of n vertices: returns where its n(n−1)/2 edge values go (then n vertex values). */
@@ -127,13 +132,13 @@ export function vertexValues(): usize {
   return vertexPtr;
 }
 export function pairCount(degree: i32): i32 {
-  return degree == 0 ? count0 : count1;
+  return degree == 0 ? count0 : degree == 1 ? count1 : count2;
 }
 export function birthsOf(degree: i32): usize {
-  return degree == 0 ? births0 : births1;
+  return degree == 0 ? births0 : degree == 1 ? births1 : births2;
 }
 export function deathsOf(degree: i32): usize {
-  return degree == 0 ? deaths0 : deaths1;
+  return degree == 0 ? deaths0 : degree == 1 ? deaths1 : deaths2;
 }
 /** The first edge whose value is NaN or negative, after `compute` returned 1. */
 export function invalidEdge(): i32 {
@@ -244,6 +249,8 @@ export function compute(n: i32, hasVertexValues: i32, maxScale: f64, maxDegree: 
     count0++;
   }
   count1 = 0;
+  count2 = 0;
+  clearedP = 0;
   if (maxDegree == 0) return 0;
 
   // Neighbour rows in filtration order.
@@ -255,6 +262,10 @@ export function compute(n: i32, hasVertexValues: i32, maxScale: f64, maxDegree: 
     setI(start, b, getI(start, b) + 1);
   }
   for (let v = 1; v <= n; v++) setI(start, v, getI(start, v) + getI(start, v - 1));
+  if (maxDegree == 2) {
+    degreeTwo(n, kept, low, high, rankSorted, start, levels);
+    return 0;
+  }
   // The rank table and the rows in 16-bit entries when ranks and vertices fit: half the memory read at
   // random (clouds of 300 points: 2–3% faster, measured).
   if (levelCount < 0xffff && n < 0xffff)
@@ -463,6 +474,9 @@ let rowVertexP: usize = 0;
 let rowRankP: usize = 0;
 let c2P: usize = 0; // C(v, 2), i64
 let c3P: usize = 0; // C(v, 3), i64
+let c4P: usize = 0; // C(v, 4), i64
+/** Degree 2 is computed: the triangles paired in degree 1 are marked in this bitset (0: none). */
+let clearedP: usize = 0;
 let topRank: i32 = 0;
 let cap: i32 = 0;
 let capStep: i32 = 1;
@@ -512,13 +526,7 @@ function reduceEdges<R>(
   startP = start;
   rowVertexP = rowVertex;
   rowRankP = rowRank;
-  c2P = alloc((<usize>(n + 1)) << 3);
-  c3P = alloc((<usize>(n + 1)) << 3);
-  for (let v = 0; v <= n; v++) {
-    const w = <i64>v;
-    setL(c2P, v, (w * (w - 1)) / 2);
-    setL(c3P, v, (w * (w - 1) * (w - 2)) / 6);
-  }
+  binomials(n);
   const step = max<i32>(1, (levelCount + 63) / 64);
   topRank = levelCount - 1;
   births1 = alloc((<usize>max<i32>(count, 1)) << 3);
@@ -536,13 +544,7 @@ function reduceEdges<R>(
   storeLength = 0;
   columnCount = 0;
   setI(startsP, 0, 0);
-  let cap0 = 16;
-  while (cap0 < max<i32>(16, count >> 3) * 2) cap0 *= 2;
-  mapKeys = alloc((<usize>cap0) << 3);
-  memory.fill(mapKeys, 0xff, (<usize>cap0) << 3); // −1: empty
-  mapValues = alloc((<usize>cap0) << 2);
-  mapMask = cap0 - 1;
-  mapCount = 0;
+  mapInit(max<i32>(16, count >> 3));
 
   let previousRank = -1;
   for (let col = count - 1; col >= 0; col--) {
@@ -555,7 +557,10 @@ function reduceEdges<R>(
     const t = oldestOfEdge<R>(i, j, r);
     if (t >= 0) {
       const k = found;
-      if (youngestEdge<R>(i, j, k, r)) continue; // apparent pair
+      if (youngestEdge<R>(i, j, k, r)) {
+        markCleared(t); // apparent pair
+        continue;
+      }
       // sort3(i, j, k) descending
       let a = i;
       let b = j;
@@ -577,6 +582,7 @@ function reduceEdges<R>(
       }
       if (!(tied && mapGet(t) >= 0) && !apparentEdge<R>(a, b, c, r, t)) {
         mapSet(t, storeColumn1(e)); // emergent pair
+        markCleared(t);
         continue;
       }
     }
@@ -619,8 +625,30 @@ function reduceEdges<R>(
         count1++;
       }
       mapSet(pi, storeScratch());
+      markCleared(pi);
       break;
     }
+  }
+}
+
+// @ts-ignore: decorator
+@inline function markCleared(t: i64): void {
+  if (clearedP != 0) {
+    const at = clearedP + <usize>(t >>> 3);
+    store<u8>(at, load<u8>(at) | (<u8>1 << <u8>(t & 7)));
+  }
+}
+
+/** The rows C(v, 2), C(v, 3), C(v, 4) for v = 0 … n, as i64. */
+function binomials(n: i32): void {
+  c2P = alloc((<usize>(n + 1)) << 3);
+  c3P = alloc((<usize>(n + 1)) << 3);
+  c4P = alloc((<usize>(n + 1)) << 3);
+  for (let v = 0; v <= n; v++) {
+    const w = <i64>v;
+    setL(c2P, v, (w * (w - 1)) / 2);
+    setL(c3P, v, (w * (w - 1) * (w - 2)) / 6);
+    setL(c4P, v, (w * (w - 1) * (w - 2) * (w - 3)) / 24);
   }
 }
 
@@ -911,6 +939,17 @@ function sortL(p: usize, lo: i32, hi: i32): void {
   return h & mapMask;
 }
 
+/** An empty pivot map with room for `expected` keys at half load. */
+function mapInit(expected: i32): void {
+  let cap = 16;
+  while (cap < expected * 2) cap *= 2;
+  mapKeys = alloc((<usize>cap) << 3);
+  memory.fill(mapKeys, 0xff, (<usize>cap) << 3); // −1: empty
+  mapValues = alloc((<usize>cap) << 2);
+  mapMask = cap - 1;
+  mapCount = 0;
+}
+
 function mapGet(key: i64): i32 {
   let s = slot(key);
   while (true) {
@@ -944,4 +983,989 @@ function mapGrow(): void {
     const k = getL(oldKeys, s);
     if (k != -1) mapSet(k, getI(oldValues, s));
   }
+}
+
+// ------------------------------------------------------------------------------------------------ degree 2
+
+// The edge collapse and the degree-2 reduction, as in edge-collapse.ts and rips.ts (read the comments
+// there); edges removed by the collapse have rank NO_EDGE32 in the 32-bit table.
+const NO_EDGE32: i32 = 0x7f7f7f7f;
+const MAX_PASSES = 5;
+
+// Lists of edges in filtration order (low[k] < high[k], rank[k]) with each vertex's neighbours in that order:
+// row v is listVertex/listRank[listStart[v] … listStart[v + 1]). Written by buildLists and tableEdges.
+let listLow: usize = 0;
+let listHigh: usize = 0;
+let listRankOfEdge: usize = 0;
+let listCount: i32 = 0;
+let listStart: usize = 0;
+let listVertex: usize = 0;
+let listRank: usize = 0;
+
+/** Neighbour rows (32-bit) of the edges low/high/ranks[0 … count) into the list globals. */
+function buildLists(n: i32, low: usize, high: usize, ranks: usize, count: i32): void {
+  listLow = low;
+  listHigh = high;
+  listRankOfEdge = ranks;
+  listCount = count;
+  const start = zeroed((<usize>(n + 1)) << 2);
+  for (let k = 0; k < count; k++) {
+    const a = getI(low, k) + 1;
+    const b = getI(high, k) + 1;
+    setI(start, a, getI(start, a) + 1);
+    setI(start, b, getI(start, b) + 1);
+  }
+  for (let v = 1; v <= n; v++) setI(start, v, getI(start, v) + getI(start, v - 1));
+  const fill = alloc((<usize>n) << 2);
+  memory.copy(fill, start, (<usize>n) << 2);
+  const vertex = alloc((<usize>count) << 3);
+  const rank = alloc((<usize>count) << 3);
+  for (let k = 0; k < count; k++) {
+    const i = getI(low, k);
+    const j = getI(high, k);
+    const r = getI(ranks, k);
+    let p = getI(fill, i);
+    setI(fill, i, p + 1);
+    setI(vertex, p, j);
+    setI(rank, p, r);
+    p = getI(fill, j);
+    setI(fill, j, p + 1);
+    setI(vertex, p, i);
+    setI(rank, p, r);
+  }
+  listStart = start;
+  listVertex = vertex;
+  listRank = rank;
+}
+
+/** The edges of the 32-bit table in filtration order (rank ascending, ties by decreasing condensed index), as lists. */
+function tableEdges(n: i32, rankOf: usize): void {
+  let top = 0;
+  let count = 0;
+  for (let j = 1; j < n; j++) {
+    const row = j * n;
+    for (let i = 0; i < j; i++) {
+      const r = getI(rankOf, row + i);
+      if (r == NO_EDGE32) continue;
+      if (r > top) top = r;
+      count++;
+    }
+  }
+  const next = zeroed((<usize>(top + 2)) << 2);
+  for (let j = 1; j < n; j++) {
+    const row = j * n;
+    for (let i = 0; i < j; i++) {
+      const r = getI(rankOf, row + i);
+      if (r != NO_EDGE32) setI(next, r + 1, getI(next, r + 1) + 1);
+    }
+  }
+  for (let v = 1; v < top + 2; v++) setI(next, v, getI(next, v) + getI(next, v - 1));
+  const low = alloc((<usize>count) << 2);
+  const high = alloc((<usize>count) << 2);
+  const ranks = alloc((<usize>count) << 2);
+  for (let j = n - 1; j >= 1; j--) {
+    const row = j * n;
+    for (let i = j - 1; i >= 0; i--) {
+      const r = getI(rankOf, row + i);
+      if (r == NO_EDGE32) continue;
+      const p = getI(next, r);
+      setI(next, r, p + 1);
+      setI(low, p, i);
+      setI(high, p, j);
+      setI(ranks, p, r);
+    }
+  }
+  buildLists(n, low, high, ranks, count);
+}
+
+function degreeTwo(n: i32, kept: i32, low: usize, high: usize, rankSorted: usize, start: usize, levels: usize): void {
+  const cells = <usize>n * <usize>n;
+  const rankOf32 = alloc(cells << 2);
+  memory.fill(rankOf32, 0x7f, cells << 2);
+  for (let k = 0; k < kept; k++) {
+    const i = getI(low, k);
+    const j = getI(high, k);
+    const r = getI(rankSorted, k);
+    setI(rankOf32, i * n + j, r);
+    setI(rankOf32, j * n + i, r);
+  }
+  buildLists(n, low, high, rankSorted, kept);
+
+  // The collapse, in passes; then one rank per edge (its position), levelOf mapping back.
+  for (let pass = 0; pass < MAX_PASSES; pass++) {
+    collapseEdges(n, rankOf32);
+    tableEdges(n, rankOf32);
+    if (collapseMoved * 20 < collapseKept) break;
+  }
+  const m = listCount;
+  const levelsC = alloc((<usize>max<i32>(m, 1)) << 3);
+  for (let k = 0; k < m; k++) {
+    setF(levelsC, k, getF(levels, getI(listRankOfEdge, k)));
+    setI(listRankOfEdge, k, k);
+    setI(rankOf32, getI(listLow, k) * n + getI(listHigh, k), k);
+    setI(rankOf32, getI(listHigh, k) * n + getI(listLow, k), k);
+  }
+  for (let z = 0; z < n; z++) {
+    const row = z * n;
+    const end = getI(listStart, z + 1);
+    for (let p = getI(listStart, z); p < end; p++) setI(listRank, p, getI(rankOf32, row + getI(listVertex, p)));
+  }
+
+  // Degree-1 columns: the collapsed edges that close a cycle.
+  const parent = alloc((<usize>n) << 2);
+  const size = alloc((<usize>n) << 2);
+  for (let v = 0; v < n; v++) {
+    setI(parent, v, v);
+    setI(size, v, 1);
+  }
+  const cycleLow = alloc((<usize>max<i32>(m, 1)) << 2);
+  const cycleHigh = alloc((<usize>max<i32>(m, 1)) << 2);
+  const cycleRank = alloc((<usize>max<i32>(m, 1)) << 2);
+  let cycles = 0;
+  for (let k = 0; k < m; k++) {
+    const i = getI(listLow, k);
+    const j = getI(listHigh, k);
+    const ri = find(parent, i);
+    const rj = find(parent, j);
+    if (ri == rj) {
+      setI(cycleLow, cycles, i);
+      setI(cycleHigh, cycles, j);
+      setI(cycleRank, cycles++, k);
+      continue;
+    }
+    let root = ri;
+    let child = rj;
+    if (getI(size, ri) < getI(size, rj)) {
+      root = rj;
+      child = ri;
+    }
+    setI(parent, child, root);
+    setI(size, root, getI(size, root) + getI(size, child));
+  }
+
+  // Triangles paired in degree 1 are cleared from degree 2.
+  const triangles = (<i64>n * <i64>(n - 1) * <i64>(n - 2)) / 6;
+  const clearedBytes = <usize>((triangles + 7) >>> 3) + 8;
+  clearedP = zeroed(clearedBytes);
+
+  if (m < 0xffff && n < 0xffff) {
+    const table = alloc(cells << 1);
+    for (let c = 0; c < <i32>cells; c++) {
+      const r = getI(rankOf32, c);
+      store<u16>(table + ((<usize>c) << 1), r == NO_EDGE32 ? 0xffff : <u16>r);
+    }
+    const vertex = alloc((<usize>m) << 2);
+    const rank = alloc((<usize>m) << 2);
+    for (let p = 0; p < 2 * m; p++) {
+      store<u16>(vertex + ((<usize>p) << 1), <u16>getI(listVertex, p));
+      store<u16>(rank + ((<usize>p) << 1), <u16>getI(listRank, p));
+    }
+    reduceEdges<u16>(n, table, levelsC, m, listStart, vertex, rank, cycleLow, cycleHigh, cycleRank, cycles);
+    reduceTriangles<u16>(n, m, levelsC);
+  } else {
+    reduceEdges<i32>(n, rankOf32, levelsC, m, listStart, listVertex, listRank, cycleLow, cycleHigh, cycleRank, cycles);
+    reduceTriangles<i32>(n, m, levelsC);
+  }
+}
+
+// ---------------------------------------------------------------- the collapse
+
+let collapseKept: i32 = 0;
+let collapseMoved: i32 = 0;
+let words: i32 = 0;
+let waitingP: usize = 0;
+let commonP: usize = 0;
+let candidatesP: usize = 0;
+let collapseRankOf: usize = 0;
+
+// @ts-ignore: decorator
+@inline function setBit(bits: usize, x: i32): void {
+  const at = bits + ((<usize>(x >>> 5)) << 2);
+  store<u32>(at, load<u32>(at) | (<u32>1 << <u32>(x & 31)));
+}
+
+/** One collapse pass over the lists, in place on the table (see collapseEdges in edge-collapse.ts). */
+function collapseEdges(n: i32, rankOf: usize): void {
+  const low = listLow;
+  const high = listHigh;
+  const rank = listRankOfEdge;
+  const start = listStart;
+  const count = listCount;
+  words = (n + 31) >>> 5;
+  collapseRankOf = rankOf;
+  const waiting = zeroed(<usize>n * <usize>words * 4);
+  for (let k = 0; k < count; k++) {
+    setBit(waiting + <usize>getI(low, k) * <usize>words * 4, getI(high, k));
+    setBit(waiting + <usize>getI(high, k) * <usize>words * 4, getI(low, k));
+  }
+  waitingP = waiting;
+  const rowCount = zeroed((<usize>n) << 2);
+  const total = getI(start, n);
+  const laterRank = alloc((<usize>max<i32>(total, 1)) << 2);
+  const laterVertex = alloc((<usize>max<i32>(total, 1)) << 2);
+  const common = alloc((<usize>words) << 2);
+  commonP = common;
+  candidatesP = alloc((<usize>words) << 2);
+  let kept = 0;
+  let moved = 0;
+  for (let k = count - 1; k >= 0; k--) {
+    const u = getI(low, k);
+    const v = getI(high, k);
+    const r = getI(rank, k);
+    const rowU = u * n;
+    const rowV = v * n;
+    const baseU = waiting + <usize>u * <usize>words * 4;
+    const baseV = waiting + <usize>v * <usize>words * 4;
+    const firstU = getI(start, u);
+    const firstV = getI(start, v);
+    let pu = firstU + getI(rowCount, u) - 1;
+    let pv = firstV + getI(rowCount, v) - 1;
+    for (let q = 0; q < words; q++)
+      store<u32>(common + ((<usize>q) << 2), load<u32>(baseU + ((<usize>q) << 2)) & load<u32>(baseV + ((<usize>q) << 2)));
+    while (pu >= firstU && getI(laterRank, pu) <= r) {
+      const x = getI(laterVertex, pu--);
+      if (getI(rankOf, rowV + x) <= r) setBit(common, x);
+    }
+    while (pv >= firstV && getI(laterRank, pv) <= r) {
+      const x = getI(laterVertex, pv--);
+      if (getI(rankOf, rowU + x) <= r) setBit(common, x);
+    }
+    let s = r;
+    let w = dominator(n, s);
+    if (w >= 0) {
+      s = NO_EDGE32;
+      let rowW = w * n;
+      while (pu >= firstU || pv >= firstV) {
+        let x: i32;
+        let a: i32;
+        if (pv < firstV || (pu >= firstU && getI(laterRank, pu) <= getI(laterRank, pv))) {
+          x = getI(laterVertex, pu);
+          a = getI(laterRank, pu--);
+          if (getI(rankOf, rowV + x) > a) continue;
+        } else {
+          x = getI(laterVertex, pv);
+          a = getI(laterRank, pv--);
+          if (getI(rankOf, rowU + x) >= a) continue;
+        }
+        setBit(common, x);
+        if (getI(rankOf, rowW + x) <= a) continue;
+        while (pu >= firstU && getI(laterRank, pu) == a) {
+          const y = getI(laterVertex, pu--);
+          if (getI(rankOf, rowV + y) <= a) setBit(common, y);
+        }
+        while (pv >= firstV && getI(laterRank, pv) == a) {
+          const y = getI(laterVertex, pv--);
+          if (getI(rankOf, rowU + y) < a) setBit(common, y);
+        }
+        w = dominator(n, a);
+        if (w < 0) {
+          s = a;
+          break;
+        }
+        rowW = w * n;
+      }
+    }
+    if (s != r) moved++;
+    setI(rankOf, rowU + v, s);
+    setI(rankOf, rowV + u, s);
+    if (s != NO_EDGE32) {
+      kept++;
+      const cu = getI(rowCount, u);
+      insertSorted(laterRank, laterVertex, firstU, cu, s, v);
+      setI(rowCount, u, cu + 1);
+      const cv = getI(rowCount, v);
+      insertSorted(laterRank, laterVertex, firstV, cv, s, u);
+      setI(rowCount, v, cv + 1);
+    }
+    // clear the waiting edge
+    let at = baseU + ((<usize>(v >>> 5)) << 2);
+    store<u32>(at, load<u32>(at) & ~(<u32>1 << <u32>(v & 31)));
+    at = baseV + ((<usize>(u >>> 5)) << 2);
+    store<u32>(at, load<u32>(at) & ~(<u32>1 << <u32>(u & 31)));
+  }
+  collapseKept = kept;
+  collapseMoved = moved;
+}
+
+function insertSorted(ranks: usize, vertices: usize, from: i32, length: i32, rank: i32, vertex: i32): void {
+  const end = from + length;
+  let lo = from;
+  let hi = end;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (getI(ranks, mid) > rank) lo = mid + 1;
+    else hi = mid;
+  }
+  if (lo < end) {
+    memory.copy(ranks + ((<usize>(lo + 1)) << 2), ranks + ((<usize>lo) << 2), (<usize>(end - lo)) << 2);
+    memory.copy(vertices + ((<usize>(lo + 1)) << 2), vertices + ((<usize>lo) << 2), (<usize>(end - lo)) << 2);
+  }
+  setI(ranks, lo, rank);
+  setI(vertices, lo, vertex);
+}
+
+/** A member of `common` joined by rank ≤ s to every other member, or −1 (see dominator in edge-collapse.ts). */
+function dominator(n: i32, s: i32): i32 {
+  const candidates = candidatesP;
+  memory.copy(candidates, commonP, (<usize>words) << 2);
+  let q = words - 1;
+  while (q >= 0) {
+    const bits = load<u32>(candidates + ((<usize>q) << 2));
+    if (bits == 0) {
+      q--;
+      continue;
+    }
+    const c = (q << 5) + 31 - <i32>clz<u32>(bits);
+    const x = firstMiss(n, c, s);
+    if (x < 0) return c;
+    store<u32>(candidates + ((<usize>q) << 2), bits & ~(<u32>1 << <u32>(c & 31)));
+    const base = waitingP + <usize>x * <usize>words * 4;
+    const xAt = candidates + ((<usize>(x >>> 5)) << 2);
+    const keepX = load<u32>(xAt) & (<u32>1 << <u32>(x & 31));
+    for (let p = 0; p <= q; p++) {
+      const at = candidates + ((<usize>p) << 2);
+      store<u32>(at, load<u32>(at) & load<u32>(base + ((<usize>p) << 2)));
+    }
+    store<u32>(xAt, load<u32>(xAt) | keepX);
+  }
+  return -1;
+}
+
+/** The first member of `common` other than w that w is not joined to by rank ≤ s, or −1. */
+function firstMiss(n: i32, w: i32, s: i32): i32 {
+  const base = waitingP + <usize>w * <usize>words * 4;
+  const row = w * n;
+  const own = w >>> 5;
+  const ownBit = <u32>1 << <u32>(w & 31);
+  for (let q = 0; q < words; q++) {
+    let miss = load<u32>(commonP + ((<usize>q) << 2)) & ~load<u32>(base + ((<usize>q) << 2));
+    if (q == own) miss &= ~ownBit;
+    while (miss != 0) {
+      const lowest = miss & (~miss + 1);
+      miss ^= lowest;
+      const x = (q << 5) + 31 - <i32>clz<u32>(lowest);
+      if (getI(collapseRankOf, row + x) > s) return x;
+    }
+  }
+  return -1;
+}
+
+// ---------------------------------------------------------------- the degree-2 reduction
+
+let adjacencyP: usize = 0;
+let step2: i32 = 1;
+let floorRank: i32 = -1;
+let floorIndex: i64 = 0;
+// Beside each triangle of the scratch column: its vertices a > b > c, its rank, its cursors in the rows of a, b, c.
+let triA: usize = 0;
+let triB: usize = 0;
+let triC: usize = 0;
+let triRank: usize = 0;
+let curA: usize = 0;
+let curB: usize = 0;
+let curC: usize = 0;
+let vA: i32 = 0;
+let vB: i32 = 0;
+let vC: i32 = 0;
+let vD: i32 = 0;
+
+/** Decodes the triangle t into vA > vB > vC. */
+function triangleVertices(t: i64): void {
+  const a = maxVertex(c3P, t, N - 1);
+  const rest = t - getL(c3P, a);
+  const b = maxVertex(c2P, rest, a - 1);
+  vA = a;
+  vB = b;
+  vC = <i32>(rest - getL(c2P, b));
+}
+
+/** Decodes the tetrahedron q into vA > vB > vC > vD. */
+function tetrahedronVertices(q: i64): void {
+  const a = maxVertex(c4P, q, N - 1);
+  let rest = q - getL(c4P, a);
+  const b = maxVertex(c3P, rest, a - 1);
+  rest -= getL(c3P, b);
+  const c = maxVertex(c2P, rest, b - 1);
+  vA = a;
+  vB = b;
+  vC = c;
+  vD = <i32>(rest - getL(c2P, c));
+}
+
+// @ts-ignore: decorator
+@inline function fourthVertexNumber(a: i32, b: i32, c: i32, k: i32): i64 {
+  return k > a
+    ? getL(c4P, k) + getL(c3P, a) + getL(c2P, b) + <i64>c
+    : k > b
+      ? getL(c4P, a) + getL(c3P, k) + getL(c2P, b) + <i64>c
+      : k > c
+        ? getL(c4P, a) + getL(c3P, b) + getL(c2P, k) + <i64>c
+        : getL(c4P, a) + getL(c3P, b) + getL(c2P, c) + <i64>k;
+}
+
+/** The oldest cofacet of the triangle a > b > c of rank r as a tetrahedron number, or −1; sets `found`. */
+function oldestOfTriangle<R>(a: i32, b: i32, c: i32, r: i32): i64 {
+  const rowA = a * N;
+  const rowB = b * N;
+  const rowC = c * N;
+  const wa = adjacencyP + <usize>a * <usize>words * 4;
+  const wb = adjacencyP + <usize>b * <usize>words * 4;
+  const wc = adjacencyP + <usize>c * <usize>words * 4;
+  for (let q = words - 1; q >= 0; q--) {
+    const o = (<usize>q) << 2;
+    let bits = load<u32>(wa + o) & load<u32>(wb + o) & load<u32>(wc + o);
+    while (bits != 0) {
+      const bit = 31 - <i32>clz<u32>(bits);
+      bits ^= <u32>1 << <u32>bit;
+      const k = (q << 5) + bit;
+      if (getR<R>(rankOfP, rowA + k) > r || getR<R>(rankOfP, rowB + k) > r || getR<R>(rankOfP, rowC + k) > r) continue;
+      found = k;
+      return fourthVertexNumber(a, b, c, k);
+    }
+  }
+  return -1;
+}
+
+/** Whether the tetrahedron w > x > y > z (number q, rank r) is in an apparent pair; its triangle goes to `facet`. */
+function apparentTriangle<R>(w: i32, x: i32, y: i32, z: i32, r: i32, q: i64): bool {
+  const wx = getR<R>(rankOfP, w * N + x);
+  const wy = getR<R>(rankOfP, w * N + y);
+  const wz = getR<R>(rankOfP, w * N + z);
+  const xy = getR<R>(rankOfP, x * N + y);
+  const xz = getR<R>(rankOfP, x * N + z);
+  const yz = getR<R>(rankOfP, y * N + z);
+  let a: i32;
+  let b: i32;
+  let c: i32;
+  if (max<i32>(max<i32>(xy, xz), yz) == r) {
+    a = x;
+    b = y;
+    c = z;
+  } else if (max<i32>(max<i32>(wy, wz), yz) == r) {
+    a = w;
+    b = y;
+    c = z;
+  } else if (max<i32>(max<i32>(wx, wz), xz) == r) {
+    a = w;
+    b = x;
+    c = z;
+  } else {
+    a = w;
+    b = x;
+    c = y;
+  }
+  if (oldestOfTriangle<R>(a, b, c, r) != q) return false;
+  facet = getL(c3P, a) + getL(c2P, b) + <i64>c;
+  return true;
+}
+
+// Columns listed by triangleColumns.
+let columnsP: usize = 0;
+let columnRanksP: usize = 0;
+let columnTotal: i32 = 0;
+
+/** The degree-2 columns in reverse filtration order (see triangleColumns in rips.ts). */
+function triangleColumns<R>(n: i32, m: i32): void {
+  const cleared = clearedP;
+  const low = listLow;
+  const high = listHigh;
+  const ranks = listRankOfEdge;
+  const rowBytes = <usize>words * 4;
+  const before = zeroed(<usize>n * rowBytes);
+  const upTo = zeroed(<usize>n * rowBytes);
+  const pair = alloc(rowBytes);
+  let capacity = max<i32>(1 << 12, m);
+  let found = alloc((<usize>capacity) << 3);
+  let foundRanks = alloc((<usize>capacity) << 2);
+  let count = 0;
+  let added = 0;
+  for (let e = 0; e < m; e++) {
+    const p = getI(low, e);
+    const q = getI(high, e);
+    const r = getI(ranks, e);
+    for (; added < m && getI(ranks, added) <= r; added++) {
+      setBit(upTo + <usize>getI(low, added) * rowBytes, getI(high, added));
+      setBit(upTo + <usize>getI(high, added) * rowBytes, getI(low, added));
+    }
+    const groupStart = count;
+    const wp = <usize>p * rowBytes;
+    const wq = <usize>q * rowBytes;
+    const rowP = p * n;
+    const rowQ = q * n;
+    for (let w = 0; w < words; w++) {
+      const o = (<usize>w) << 2;
+      store<u32>(pair + o, load<u32>(upTo + wp + o) & load<u32>(upTo + wq + o));
+    }
+    for (let w = 0; w < words; w++) {
+      const o = (<usize>w) << 2;
+      let bits = load<u32>(before + wp + o) & load<u32>(before + wq + o);
+      while (bits != 0) {
+        const lowest = bits & (~bits + 1);
+        bits ^= lowest;
+        const x = (w << 5) + 31 - <i32>clz<u32>(lowest);
+        const t =
+          x > q
+            ? getL(c3P, x) + getL(c2P, q) + <i64>p
+            : x > p
+              ? getL(c3P, q) + getL(c2P, x) + <i64>p
+              : getL(c3P, q) + getL(c2P, p) + <i64>x;
+        let k = -1;
+        const wx = upTo + <usize>x * rowBytes;
+        for (let z = words - 1; z >= 0; z--) {
+          const oz = (<usize>z) << 2;
+          const both = load<u32>(pair + oz) & load<u32>(wx + oz);
+          if (both != 0) {
+            k = (z << 5) + 31 - <i32>clz<u32>(both);
+            break;
+          }
+        }
+        if (
+          k > x &&
+          (k > q ||
+            (getR<R>(rankOfP, rowP + x) != r &&
+              getR<R>(rankOfP, rowP + k) != r &&
+              getR<R>(rankOfP, x * n + k) != r &&
+              (k > p || (getR<R>(rankOfP, rowQ + x) != r && getR<R>(rankOfP, rowQ + k) != r))))
+        )
+          continue;
+        if ((load<u8>(cleared + <usize>(t >>> 3)) & (<u8>1 << <u8>(t & 7))) != 0) continue;
+        if (count == capacity) {
+          const f2 = alloc((<usize>capacity) << 4);
+          memory.copy(f2, found, (<usize>capacity) << 3);
+          found = f2;
+          const r2 = alloc((<usize>capacity) << 3);
+          memory.copy(r2, foundRanks, (<usize>capacity) << 2);
+          foundRanks = r2;
+          capacity *= 2;
+        }
+        setL(found, count, t);
+        setI(foundRanks, count++, r);
+      }
+    }
+    if (groupStart > 0 && count > groupStart && getI(foundRanks, groupStart - 1) == r) {
+      let from = groupStart - 1;
+      while (from > 0 && getI(foundRanks, from - 1) == r) from--;
+      sortL(found, from, count - 1);
+    }
+    setBit(before + wp, q);
+    setBit(before + wq, p);
+  }
+  // The runs of equal rank in reverse order, each kept in order.
+  columnsP = alloc((<usize>max<i32>(count, 1)) << 3);
+  columnRanksP = alloc((<usize>max<i32>(count, 1)) << 2);
+  columnTotal = count;
+  let out = 0;
+  for (let end = count; end > 0; ) {
+    let from = end - 1;
+    while (from > 0 && getI(foundRanks, from - 1) == getI(foundRanks, end - 1)) from--;
+    for (let i = from; i < end; i++) {
+      setL(columnsP, out, getL(found, i));
+      setI(columnRanksP, out++, getI(foundRanks, i));
+    }
+    end = from;
+  }
+}
+
+function reduceTriangles<R>(n: i32, m: i32, levels: usize): void {
+  words = (n + 31) >>> 5;
+  const rowBytes = <usize>words * 4;
+  adjacencyP = zeroed(<usize>n * rowBytes);
+  for (let k = 0; k < m; k++) {
+    setBit(adjacencyP + <usize>getI(listLow, k) * rowBytes, getI(listHigh, k));
+    setBit(adjacencyP + <usize>getI(listHigh, k) * rowBytes, getI(listLow, k));
+  }
+  queueInit(m);
+  step2 = max<i32>(1, (m + 63) / 64);
+  topRank = m - 1;
+  triangleColumns<R>(n, m);
+  const columnCount = columnTotal;
+  births2 = alloc((<usize>max<i32>(columnCount, 1)) << 3);
+  deaths2 = alloc((<usize>max<i32>(columnCount, 1)) << 3);
+  count2 = 0;
+  storeLength = 0;
+  columnCount_reset();
+  mapInit(max<i32>(16, columnCount));
+  triA = alloc((<usize>scratchCapacity) << 2);
+  triB = alloc((<usize>scratchCapacity) << 2);
+  triC = alloc((<usize>scratchCapacity) << 2);
+  triRank = alloc((<usize>scratchCapacity) << 2);
+  curA = alloc((<usize>scratchCapacity) << 2);
+  curB = alloc((<usize>scratchCapacity) << 2);
+  curC = alloc((<usize>scratchCapacity) << 2);
+  let previousRank = -1;
+  for (let col = 0; col < columnCount; col++) {
+    const t = getL(columnsP, col);
+    const r = getI(columnRanksP, col);
+    triangleVertices(t);
+    const a = vA;
+    const b = vB;
+    const c = vC;
+    const tied = r == previousRank;
+    previousRank = r;
+    const q = oldestOfTriangle<R>(a, b, c, r);
+    if (q >= 0) {
+      sort4(a, b, c, found);
+      if (!(tied && mapGet(q) >= 0) && !apparentTriangle<R>(vA, vB, vC, vD, r, q)) {
+        mapSet(q, storeColumn1(t)); // emergent pair
+        continue;
+      }
+    }
+    queueClear(r);
+    scratchLength = 0;
+    cap = min<i32>(topRank, r + step2);
+    floorRank = -1;
+    insertTriangle<R>(t, a, b, c, r);
+    while (true) {
+      if (!queuePop()) {
+        if (cap >= topRank) {
+          setF(births2, count2, getF(levels, r));
+          setF(deaths2, count2, Infinity);
+          count2++;
+          break;
+        }
+        cap = min<i32>(topRank, cap + step2);
+        for (let s = 0; s < scratchLength; s++) advanceCursors<R>(s, cap);
+        continue;
+      }
+      const pr = pivotRank;
+      const pi = pivotIndex;
+      floorRank = pr;
+      floorIndex = pi;
+      const owner = mapGet(pi);
+      if (owner >= 0) {
+        const end = getI(startsP, owner + 1);
+        for (let s = getI(startsP, owner); s < end; s++) addTriangle<R>(getL(storeP, s));
+        continue;
+      }
+      tetrahedronVertices(pi);
+      if (apparentTriangle<R>(vA, vB, vC, vD, pr, pi)) {
+        addTriangle<R>(facet);
+        continue;
+      }
+      const death = getF(levels, pr);
+      if (death > getF(levels, r)) {
+        setF(births2, count2, getF(levels, r));
+        setF(deaths2, count2, death);
+        count2++;
+      }
+      mapSet(pi, storeScratch());
+      break;
+    }
+  }
+}
+
+function columnCount_reset(): void {
+  columnCount = 0;
+  setI(startsP, 0, 0);
+}
+
+/** a > b > c and k in decreasing order into vA … vD. */
+function sort4(a: i32, b: i32, c: i32, k: i32): void {
+  if (k > a) {
+    vA = k;
+    vB = a;
+    vC = b;
+    vD = c;
+  } else if (k > b) {
+    vA = a;
+    vB = k;
+    vC = b;
+    vD = c;
+  } else if (k > c) {
+    vA = a;
+    vB = b;
+    vC = k;
+    vD = c;
+  } else {
+    vA = a;
+    vB = b;
+    vC = c;
+    vD = k;
+  }
+}
+
+function addTriangle<R>(f: i64): void {
+  triangleVertices(f);
+  const a = vA;
+  const b = vB;
+  const c = vC;
+  let r = getR<R>(rankOfP, a * N + b);
+  const ac = getR<R>(rankOfP, a * N + c);
+  const bc = getR<R>(rankOfP, b * N + c);
+  if (ac > r) r = ac;
+  if (bc > r) r = bc;
+  insertTriangle<R>(f, a, b, c, r);
+}
+
+/** The first position in [from, to) of a row whose rank is ≥ r (ranks ascend along a row), or `to`. */
+function firstAtLeast<R>(from: i32, to: i32, r: i32): i32 {
+  let lo = from;
+  let hi = to;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (getR<R>(rowRankP, mid) < r) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+function pushTriangle(t: i64, a: i32, b: i32, c: i32, r: i32): i32 {
+  if (scratchLength == scratchCapacity) {
+    const old = scratchCapacity;
+    const grownScratch = alloc((<usize>old) << 4);
+    memory.copy(grownScratch, scratch, (<usize>old) << 3);
+    scratch = grownScratch;
+    triA = grownI(triA, old);
+    triB = grownI(triB, old);
+    triC = grownI(triC, old);
+    triRank = grownI(triRank, old);
+    curA = grownI(curA, old);
+    curB = grownI(curB, old);
+    curC = grownI(curC, old);
+    scratchCapacity = old * 2;
+  }
+  const s = scratchLength++;
+  setL(scratch, s, t);
+  setI(triA, s, a);
+  setI(triB, s, b);
+  setI(triC, s, c);
+  setI(triRank, s, r);
+  return s;
+}
+
+function grownI(p: usize, length: i32): usize {
+  const q = alloc((<usize>length) << 3);
+  memory.copy(q, p, (<usize>length) << 2);
+  return q;
+}
+
+function insertTriangle<R>(t: i64, a: i32, b: i32, c: i32, r: i32): void {
+  const s = pushTriangle(t, a, b, c, r);
+  const startA = getI(startP, a);
+  const startB = getI(startP, b);
+  const startC = getI(startP, c);
+  const endA = firstAtLeast<R>(startA, getI(startP, a + 1), r + 1);
+  const endB = firstAtLeast<R>(startB, getI(startP, b + 1), r + 1);
+  const endC = firstAtLeast<R>(startC, getI(startP, c + 1), r + 1);
+  if (r >= floorRank) {
+    let x = a;
+    let from = startA;
+    let to = endA;
+    if (endB - startB < to - from) {
+      x = b;
+      from = startB;
+      to = endB;
+    }
+    if (endC - startC < to - from) {
+      x = c;
+      from = startC;
+      to = endC;
+    }
+    const y = x == a ? b : a;
+    const z = x == c ? b : c;
+    const rowY = y * N;
+    const rowZ = z * N;
+    for (let p = from; p < to; p++) {
+      const k = getR<R>(rowVertexP, p);
+      if (getR<R>(rankOfP, rowY + k) > r || getR<R>(rankOfP, rowZ + k) > r) continue;
+      const index = fourthVertexNumber(a, b, c, k);
+      if (r == floorRank && index >= floorIndex) continue;
+      queuePush(r, index);
+    }
+  }
+  const least = floorRank > r ? floorRank : r + 1;
+  setI(curA, s, least > r + 1 ? firstAtLeast<R>(endA, getI(startP, a + 1), least) : endA);
+  setI(curB, s, least > r + 1 ? firstAtLeast<R>(endB, getI(startP, b + 1), least) : endB);
+  setI(curC, s, least > r + 1 ? firstAtLeast<R>(endC, getI(startP, c + 1), least) : endC);
+  advanceCursors<R>(s, cap);
+}
+
+function advanceCursors<R>(s: i32, hi: i32): void {
+  const a = getI(triA, s);
+  const b = getI(triB, s);
+  const c = getI(triC, s);
+  setI(curA, s, pushRow<R>(a, getI(curA, s), hi, b * N, 0, c * N, 0, a, b, c));
+  setI(curB, s, pushRow<R>(b, getI(curB, s), hi, a * N, 1, c * N, 0, a, b, c));
+  setI(curC, s, pushRow<R>(c, getI(curC, s), hi, a * N, 1, b * N, 1, a, b, c));
+}
+
+function pushRow<R>(
+  x: i32,
+  p: i32,
+  hi: i32,
+  rowY: i32,
+  tieY: i32,
+  rowZ: i32,
+  tieZ: i32,
+  a: i32,
+  b: i32,
+  c: i32,
+): i32 {
+  const end = getI(startP, x + 1);
+  for (; p < end; p++) {
+    const rk = getR<R>(rowRankP, p);
+    if (rk > hi) break;
+    const k = getR<R>(rowVertexP, p);
+    if (getR<R>(rankOfP, rowY + k) > rk - tieY || getR<R>(rankOfP, rowZ + k) > rk - tieZ) continue;
+    const index = fourthVertexNumber(a, b, c, k);
+    if (rk == floorRank && index >= floorIndex) continue;
+    queuePush(rk, index);
+  }
+  return p;
+}
+
+// ---------------------------------------------------------------- the rank queue (see rank-queue.ts)
+
+let qHead: usize = 0;
+let qStamp: usize = 0;
+let qEpoch: i32 = 0;
+let qLink: usize = 0;
+let qIndices: usize = 0;
+let qLength: i32 = 0;
+let qCapacity: i32 = 0;
+let qCurrent: i32 = 0;
+let qHighest: i32 = -1;
+let qRankCount: i32 = 0;
+let qRun: usize = 0;
+let qRunLength: i32 = 0;
+let qRunCapacity: i32 = 0;
+let qLate: usize = 0;
+let qLateSize: i32 = 0;
+let qLateCapacity: i32 = 0;
+let qMerged: bool = false;
+
+function queueInit(rankCount: i32): void {
+  qRankCount = rankCount;
+  qHead = alloc((<usize>max<i32>(rankCount, 1)) << 2);
+  qStamp = zeroed((<usize>max<i32>(rankCount, 1)) << 2);
+  qEpoch = 0;
+  qCapacity = 1024;
+  qLink = alloc((<usize>qCapacity) << 2);
+  qIndices = alloc((<usize>qCapacity) << 3);
+  qRunCapacity = 256;
+  qRun = alloc((<usize>qRunCapacity) << 3);
+  qLateCapacity = 256;
+  qLate = alloc((<usize>qLateCapacity) << 3);
+}
+
+function queueClear(lowest: i32): void {
+  qEpoch++;
+  qLength = 0;
+  qCurrent = lowest;
+  qHighest = lowest - 1;
+  qRunLength = 0;
+  qLateSize = 0;
+  qMerged = false;
+}
+
+function queuePush(rank: i32, index: i64): void {
+  if (rank == qCurrent && qMerged) {
+    latePush(index);
+    return;
+  }
+  if (qLength == qCapacity) {
+    const link = alloc((<usize>qCapacity) << 3);
+    memory.copy(link, qLink, (<usize>qCapacity) << 2);
+    qLink = link;
+    const indices = alloc((<usize>qCapacity) << 4);
+    memory.copy(indices, qIndices, (<usize>qCapacity) << 3);
+    qIndices = indices;
+    qCapacity *= 2;
+  }
+  const e = qLength++;
+  setL(qIndices, e, index);
+  if (getI(qStamp, rank) == qEpoch) setI(qLink, e, getI(qHead, rank));
+  else {
+    setI(qStamp, rank, qEpoch);
+    setI(qLink, e, -1);
+  }
+  setI(qHead, rank, e);
+  if (rank > qHighest) qHighest = rank;
+}
+
+/** The first entry of odd multiplicity, removed, into pivotRank/pivotIndex; false when the column is zero. */
+function queuePop(): bool {
+  while (true) {
+    if (!qMerged) {
+      const rank = qCurrent;
+      if (rank < qRankCount && getI(qStamp, rank) == qEpoch) mergeList(rank);
+      qMerged = true;
+    }
+    while (qRunLength > 0 || qLateSize > 0) {
+      const fromRun: i64 = qRunLength > 0 ? getL(qRun, qRunLength - 1) : -1;
+      const fromLate: i64 = qLateSize > 0 ? getL(qLate, 0) : -1;
+      const index = fromRun > fromLate ? fromRun : fromLate;
+      let multiplicity = 0;
+      if (fromRun == index) {
+        qRunLength--;
+        multiplicity++;
+      }
+      while (qLateSize > 0 && getL(qLate, 0) == index) {
+        latePop();
+        multiplicity++;
+      }
+      if (multiplicity & 1) {
+        pivotRank = qCurrent;
+        pivotIndex = index;
+        return true;
+      }
+    }
+    if (qCurrent >= qHighest) return false;
+    qCurrent++;
+    qMerged = false;
+  }
+}
+
+function mergeList(rank: i32): void {
+  let count = 0;
+  for (let e = getI(qHead, rank); e >= 0; e = getI(qLink, e)) count++;
+  if (qRunCapacity < count) {
+    qRunCapacity = max<i32>(count, qRunCapacity * 2);
+    qRun = alloc((<usize>qRunCapacity) << 3);
+  }
+  let w = 0;
+  for (let e = getI(qHead, rank); e >= 0; e = getI(qLink, e)) setL(qRun, w++, getL(qIndices, e));
+  if (w > 1) sortL(qRun, 0, w - 1);
+  let kept = 0;
+  for (let r = 0; r < w; ) {
+    let q = r + 1;
+    const x = getL(qRun, r);
+    while (q < w && getL(qRun, q) == x) q++;
+    if ((q - r) & 1) setL(qRun, kept++, x);
+    r = q;
+  }
+  qRunLength = kept;
+}
+
+function latePush(index: i64): void {
+  if (qLateSize == qLateCapacity) {
+    const late = alloc((<usize>qLateCapacity) << 4);
+    memory.copy(late, qLate, (<usize>qLateCapacity) << 3);
+    qLate = late;
+    qLateCapacity *= 2;
+  }
+  let i = qLateSize++;
+  while (i > 0) {
+    const parent = (i - 1) >> 1;
+    if (getL(qLate, parent) >= index) break;
+    setL(qLate, i, getL(qLate, parent));
+    i = parent;
+  }
+  setL(qLate, i, index);
+}
+
+function latePop(): void {
+  const size = --qLateSize;
+  if (size == 0) return;
+  const index = getL(qLate, size);
+  let i = 0;
+  while (true) {
+    let child = 2 * i + 1;
+    if (child >= size) break;
+    if (child + 1 < size && getL(qLate, child + 1) > getL(qLate, child)) child++;
+    if (index >= getL(qLate, child)) break;
+    setL(qLate, i, getL(qLate, child));
+    i = child;
+  }
+  setL(qLate, i, index);
 }

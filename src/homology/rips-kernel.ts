@@ -4,8 +4,9 @@ import type { Metric } from './metric.js';
 import { RIPS_KERNEL_BASE64 } from './rips-kernel-bytes.js';
 
 /**
- * The WebAssembly engine of Vietoris–Rips persistence in degrees 0 and 1 (wasm/rips-low.ts, the same
- * algorithm as ripsPersistence's TypeScript engine, pair for pair and in the same order).
+ * The WebAssembly engine of Vietoris–Rips persistence in degrees 0–2 (wasm/rips-low.ts, the same algorithm
+ * as ripsPersistence's TypeScript engine — for degree 2 with the edge collapse — pair for pair and in the
+ * same order).
  *
  * Why a second engine: a thread's JavaScript engine compiles hot code for itself, so every worker thread
  * spent ~0.35 s compiling and ran its first samples slowly, which kept two threads on two cores well short of
@@ -65,21 +66,23 @@ function instance(): KernelExports {
 }
 
 /**
- * The largest cloud the kernel takes: its working memory (about 4n² + 80 bytes per edge) must stay well
- * inside the 4 GiB a 32-bit WebAssembly memory can address. Larger clouds run on the TypeScript engine.
+ * Whether the kernel takes a cloud of n points: its working memory (about 4n² + 80 bytes per edge, and for
+ * degree 2 one bit per triangle and 4n² more) must stay well inside the 4 GiB a 32-bit WebAssembly memory can
+ * address. Larger clouds run on the TypeScript engine.
  */
-export function kernelFits(n: number): boolean {
-  return 4 * n * n + 40 * n * (n - 1) <= 2 ** 31;
+export function kernelFits(n: number, maxDegree = 1): boolean {
+  const triangles = maxDegree >= 2 ? (n * (n - 1) * (n - 2)) / 6 / 8 + 4 * n * n : 0;
+  return 4 * n * n + 40 * n * (n - 1) + triangles <= 2 ** 31;
 }
 
 /**
- * Degrees 0..maxDegree (≤ 1) of the flag filtration with these condensed edge values; undefined when an edge
- * value is not a number ≥ 0 (the caller's own checks word that error).
+ * Degrees 0..maxDegree of the flag filtration with these condensed edge values (degree 2 always with the
+ * edge collapse); undefined when an edge value is not a number ≥ 0 (the caller's own checks word that error).
  */
 export function kernelRips(
   n: number,
   edgeValues: Float64Array,
-  maxDegree: 0 | 1,
+  maxDegree: 0 | 1 | 2,
   maxScale: number,
   vertexValues: Float64Array | undefined,
 ): Diagram[] | undefined {
@@ -119,7 +122,7 @@ export function kernelCloudRips(
  */
 const KEEP_BYTES = 128 * 2 ** 20;
 
-function results(k: KernelExports, maxDegree: 0 | 1): Diagram[] {
+function results(k: KernelExports, maxDegree: 0 | 1 | 2): Diagram[] {
   if (k.memory.buffer.byteLength > KEEP_BYTES) kernel = undefined;
   const diagrams: Diagram[] = [];
   for (let degree = 0; degree <= maxDegree; degree++) {

@@ -44,8 +44,9 @@ export interface RipsOptions {
    */
   collapse?: boolean;
   /**
-   * Degrees 0 and 1 without collapse run on the WebAssembly engine (rips-kernel.ts; the same diagrams, pair
-   * for pair and in the same order) unless this is false or the cloud is too large for it. Default true.
+   * Run on the WebAssembly engine (rips-kernel.ts; the same diagrams, pair for pair and in the same order):
+   * degrees 0–1 without the collapse, degree 2 with it. False runs the TypeScript engine; clouds too large for
+   * the kernel run there anyway. Default true.
    */
   kernel?: boolean;
   /** Refuse when the estimated working memory exceeds this many bytes (default: 80 % of free memory, at least 1 GiB). */
@@ -109,6 +110,11 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
   if (n >= 2) threshold = Math.min(threshold, enclosingRadius(n, values));
 
   checkSize(n, values, threshold, maxDegree, options.memoryLimit);
+  if (maxDegree === 2 && options.collapse !== false && options.kernel !== false && kernelFits(n, 2)) {
+    // Degree 2 on the kernel too, with the collapse (it always collapses); checked above like the rest.
+    const diagrams = kernelRips(n, edgeValues, 2, options.maxScale ?? Infinity, vertexValues);
+    if (diagrams !== undefined) return diagrams;
+  }
 
   // Edges inside the threshold in filtration order (value ascending, ties by decreasing index), by a
   // stable radix sort; `levels` are the distinct values and an edge's rank indexes them.

@@ -126,3 +126,52 @@ describe('the committed kernel bytes', () => {
     expect(run.status).toBe(0);
   });
 });
+
+describe('the WebAssembly Rips kernel in degree 2', () => {
+  it('gives the TypeScript engine’s pairs (both with the edge collapse) on 120 random clouds', () => {
+    const rng = new Random(2);
+    let pairs2 = 0;
+    for (let trial = 0; trial < 120; trial++) {
+      const count = 4 + rng.int(60);
+      const dim = 2 + rng.int(3);
+      const c = cloud(rng, count, dim, trial % 3);
+      // Every fourth cloud on the unit sphere of its space, where voids appear.
+      if (trial % 4 === 3)
+        for (let i = 0; i < count; i++) {
+          let r = 0;
+          for (let d = 0; d < dim; d++) r += c[i * dim + d] ** 2;
+          for (let d = 0; d < dim; d++) c[i * dim + d] /= Math.sqrt(r) || 1;
+        }
+      const edges = pairwiseDistances(c, count, dim);
+      const options: { maxDegree: 2; maxScale?: number; vertexValues?: Float64Array } = { maxDegree: 2 };
+      if (trial % 5 === 1) options.maxScale = rng.uniform(0.3, 1.5);
+      if (trial % 7 === 2)
+        options.vertexValues = Float64Array.from({ length: count }, () => rng.uniform(0, 0.3));
+      const want = ripsPersistence(count, edges, { ...options, kernel: false });
+      expectSame(ripsPersistence(count, edges, options), want);
+      pairs2 += want[2].births.length;
+    }
+    expect(pairs2).toBeGreaterThan(40);
+  });
+
+  it('finds the void of 200 points near the sphere as the TypeScript engine does', () => {
+    const rng = new Random(3);
+    const count = 200;
+    const c = new Float64Array(count * 3);
+    for (let i = 0; i < count; i++) {
+      const x = rng.normal();
+      const y = rng.normal();
+      const z = rng.normal();
+      const r = Math.hypot(x, y, z);
+      c[3 * i] = x / r;
+      c[3 * i + 1] = y / r;
+      c[3 * i + 2] = z / r;
+    }
+    const edges = pairwiseDistances(c, count, 3);
+    const got = ripsPersistence(count, edges, { maxDegree: 2 });
+    expectSame(got, ripsPersistence(count, edges, { maxDegree: 2, kernel: false }));
+    // The sphere S² has b2 = 1 (textbook): one long H2 bar.
+    const long = got[2].births.filter((b, i) => got[2].deaths[i] - b > 0.5).length;
+    expect(long).toBe(1);
+  });
+});

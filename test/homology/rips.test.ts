@@ -19,9 +19,9 @@ function essentialOf(d: Diagram): number {
 }
 
 /**
- * Checks the engine against the naive reduction, degree by degree, pair for pair, with and without the edge
- * collapse (edge-collapse.ts): the collapsed filtration must give the same diagrams. Degrees 0–1 are also
- * checked on both engines of that range: the WebAssembly kernel (rips-kernel.ts) and the TypeScript one.
+ * Checks the engines against the naive reduction, degree by degree, pair for pair, with and without the edge
+ * collapse (edge-collapse.ts): the collapsed filtration must give the same diagrams. Both engines are checked:
+ * the WebAssembly kernel (rips-kernel.ts) and the TypeScript one, in degrees 0–2 and in degrees 0–1 alone.
  */
 function agree(
   coords: Float64Array,
@@ -32,12 +32,19 @@ function agree(
 ): void {
   const edges = pairwiseDistances(coords, count, dim, 'euclidean');
   const want = naiveRips(count, (i, j) => edges[condensedIndex(i, j, count)], maxDegree, extra);
-  for (const collapse of [false, true]) {
+  // Without the collapse (TypeScript engine), with it on the WebAssembly kernel (the default), and with it on
+  // the TypeScript engine.
+  for (const [collapse, kernel] of [
+    [false, false],
+    [true, true],
+    [true, false],
+  ]) {
     const got = ripsPersistence(count, edges, {
       maxDegree,
       maxScale: extra.maxScale,
       vertexValues: extra.vertexValues ? Float64Array.from(extra.vertexValues) : undefined,
       collapse,
+      kernel,
     });
     expect(got.length).toBe(maxDegree + 1);
     for (let d = 0; d <= maxDegree; d++) {
