@@ -44,10 +44,18 @@ describe('landform diagrams', () => {
     expect(prov.command).toBe('diagrams');
     expect(prov.options.degrees).toEqual([0, 1]);
     expect(prov.options.metric).toBe('euclidean');
-    // One thread gives the same file.
+    // One thread gives the same file; --timings reports the stages on one stderr line.
     const out1 = join(dir, 'd1.csv');
-    expect(runCli(['diagrams', input, '--workers', '1', '--out', out1]).code).toBe(0);
+    const timed = runCli(['diagrams', input, '--workers', '1', '--out', out1, '--timings']);
+    expect(timed.code).toBe(0);
     expect(readFileSync(out1, 'utf8')).toBe(readFileSync(out, 'utf8'));
+    expect(timed.stdout).toBe('');
+    const m =
+      /^landform: timings: start-up ([\d.]+) s, reading ([\d.]+) s, computing ([\d.]+) s \(4 samples, 1 thread\), writing ([\d.]+) s\n$/.exec(
+        timed.stderr,
+      );
+    expect(m, timed.stderr).not.toBeNull();
+    expect(Number(m?.[1])).toBeGreaterThan(0);
   }, 60000);
 
   it('embeds long signals with --embed and refuses loops without it', () => {

@@ -27,6 +27,7 @@ interface DiagramsCommandOptions {
   shard?: string;
   force?: boolean;
   format?: string;
+  timings?: boolean;
 }
 
 const INPUT_KINDS = ['points', 'distances', 'signal', 'image'] as const;
@@ -78,6 +79,7 @@ export function defineDiagrams(program: Command): Command {
     .option('--force', 'recompute a shard that is already finished')
     .option('--format <format>', 'csv or arrow (default: from the extension of --out)')
     .option('--out <file>', 'the diagram CSV to write (a FILE.provenance.json sidecar is written beside it)')
+    .option('--timings', 'print the time of each stage on stderr: start-up, reading, computing, writing')
     .addHelpText(
       'after',
       `
@@ -90,6 +92,8 @@ Example:
   landform diagrams pump-vibration.csv --embed 3:5 --degrees 0,1 --max-scale 2 --out pump-diagrams.csv`,
     )
     .action(async (input: string, options: DiagramsCommandOptions) => {
+      // Milliseconds since the process started, at the end of each stage.
+      const started = performance.now();
       if (options.out === undefined)
         throw new UserError('no --out FILE given; name the diagram CSV to write');
       const degrees = parseDegreesOption(options.degrees, '--degrees', 2);
@@ -150,6 +154,7 @@ Example:
       if (plan.finished) return;
       const progress = await startProgress('diagrams', plan.samples.length, options.quiet === true);
       let sets: Awaited<ReturnType<typeof computeDiagramsParallel>>;
+      const computing = performance.now();
       try {
         sets = await computeDiagramsParallel(plan.samples, computeOptions, {
           workers,
@@ -158,10 +163,20 @@ Example:
       } finally {
         progress.stop();
       }
+      const computed = performance.now();
       const record = {
         ...settings,
         ...filtrationRecord(choice, sets as Array<{ sample: string; coveringRadius?: number }>),
       };
       await writeDiagramsOutput(plan.out, sets, plan.stamp(provenance('diagrams', record)), format);
+      if (options.timings) {
+        const s = (ms: number): string => `${(ms / 1000).toFixed(3)} s`;
+        const threads = Math.min(workers, plan.samples.length);
+        process.stderr.write(
+          `landform: timings: start-up ${s(started)}, reading ${s(computing - started)}, ` +
+            `computing ${s(computed - computing)} (${plan.samples.length} samples, ${threads} thread${threads === 1 ? '' : 's'}), ` +
+            `writing ${s(performance.now() - computed)}\n`,
+        );
+      }
     });
 }
