@@ -262,13 +262,13 @@ async function twoThreadCeiling(): Promise<number> {
  * threads to 1.07–1.35× one with the TypeScript engine). The goal (≥ 1.7×) is read on the work the threads
  * share; the figures that other one-thread work bounds are printed beside it without a verdict.
  * - `landform diagrams --timings` on a points CSV of these clouds, `--workers 1` against `--workers 2`, fresh
- *   processes, alternating, median of 5: the computing stage it reports (the command starts its worker
+ *   processes, alternating, median of 7: the computing stage it reports (the command starts its worker
  *   while it reads the CSV) — with the goal; and the whole process's wall time, whose start-up (about 0.2 s),
  *   reading (0.15 s) and writing (0.2 s) are one thread's work either way (by Amdahl's law they bound the
- *   whole-process ratio near 1.5 even if computing scaled perfectly) — beside it.
+ *   whole-process ratio near 1.4 even if computing scaled perfectly) — beside it.
  * - Compute only, fresh threads started beforehand: a fresh process per run starts its worker and waits until
  *   it has loaded its modules, then times computeDiagramsParallel alone: both runs compute with cold code;
- *   alternating, median of 5 — with the goal.
+ *   alternating, median of 7 — with the goal.
  * - Compute only, fresh threads with the worker's start-up (0.1–0.15 s) inside the timed call — beside it.
  * - Compute only, warm threads: in a fresh process, one and two threads alternately three times each, the
  *   faster of the last two of each (the worker is kept between runs), median of 3 processes — what later
@@ -303,12 +303,12 @@ async function threads(dir: string): Promise<void> {
     join(dir, `clouds-${w}.csv`),
     '--timings',
   ];
-  const [cli1, cli2] = alternate(command(1), command(2), 5);
+  const [cli1, cli2] = alternate(command(1), command(2), 7);
 
   const fresh = join(dir, 'fresh-compute.mjs');
   writeFileSync(fresh, freshComputeScript(join(root, 'dist/src')));
   const [fresh1, fresh2] = alternate([fresh, '1'], [fresh, '2'], 5);
-  const [started1, started2] = alternate([fresh, '1', 'started'], [fresh, '2', 'started'], 5);
+  const [started1, started2] = alternate([fresh, '1', 'started'], [fresh, '2', 'started'], 7);
 
   const warmRuns = Array.from({ length: 3 }, () => {
     const m = /WARM1 ([\d.]+) WARM2 ([\d.]+)/.exec(runChild([fresh, 'warm']).stdout);
@@ -345,28 +345,28 @@ async function threads(dir: string): Promise<void> {
       unit: 'cores',
     },
     {
-      name: 'landform diagrams, computing stage, --workers 1 (median of 5)',
+      name: 'landform diagrams, computing stage, --workers 1 (median of 7)',
       value: cli1.compute,
       unit: 'ms',
     },
     {
-      name: 'landform diagrams, computing stage, --workers 2 (median of 5)',
+      name: 'landform diagrams, computing stage, --workers 2 (median of 7)',
       value: cli2.compute,
       unit: 'ms',
     },
     speedUp('speed-up, computing stage of landform diagrams', cli1.compute, cli2.compute),
-    { name: 'whole process, --workers 1, wall (median of 5)', value: cli1.wall, unit: 'ms' },
-    { name: 'whole process, --workers 2, wall (median of 5)', value: cli2.wall, unit: 'ms' },
+    { name: 'whole process, --workers 1, wall (median of 7)', value: cli1.wall, unit: 'ms' },
+    { name: 'whole process, --workers 2, wall (median of 7)', value: cli2.wall, unit: 'ms' },
     context('speed-up, whole process (start-up, reading, writing are one thread’s)', cli1.wall / cli2.wall),
     { name: 'whole process, --workers 1, CPU', value: cli1.cpu, unit: 'ms' },
     { name: 'whole process, --workers 2, CPU', value: cli2.cpu, unit: 'ms' },
     {
-      name: 'compute only, fresh threads started beforehand, 1 thread (median of 5)',
+      name: 'compute only, fresh threads started beforehand, 1 thread (median of 7)',
       value: started1.compute,
       unit: 'ms',
     },
     {
-      name: 'compute only, fresh threads started beforehand, 2 threads (median of 5)',
+      name: 'compute only, fresh threads started beforehand, 2 threads (median of 7)',
       value: started2.compute,
       unit: 'ms',
     },
