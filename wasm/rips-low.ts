@@ -253,32 +253,22 @@ export function compute(n: i32, hasVertexValues: i32, maxScale: f64, maxDegree: 
   clearedP = 0;
   if (maxDegree == 0) return 0;
 
-  // Neighbour rows in filtration order.
-  const start = zeroed((<usize>(n + 1)) << 2);
-  for (let k = 0; k < kept; k++) {
-    const a = getI(low, k) + 1;
-    const b = getI(high, k) + 1;
-    setI(start, a, getI(start, a) + 1);
-    setI(start, b, getI(start, b) + 1);
-  }
-  for (let v = 1; v <= n; v++) setI(start, v, getI(start, v) + getI(start, v - 1));
   if (maxDegree == 2) {
-    degreeTwo(n, kept, low, high, rankSorted, start, levels);
+    degreeTwo(n, kept, low, high, rankSorted, levels);
     return 0;
   }
   // The rank table and the rows in 16-bit entries when ranks and vertices fit: half the memory read at
   // random (clouds of 300 points: 2–3% faster, measured).
   if (levelCount < 0xffff && n < 0xffff)
-    degreeOne<u16>(n, kept, low, high, rankSorted, start, levels, levelCount, cycleLow, cycleHigh, cycleRank, cycles);
-  else
-    degreeOne<i32>(n, kept, low, high, rankSorted, start, levels, levelCount, cycleLow, cycleHigh, cycleRank, cycles);
+    degreeOne<u16>(n, kept, low, high, rankSorted, levels, levelCount, cycleLow, cycleHigh, cycleRank, cycles);
+  else degreeOne<i32>(n, kept, low, high, rankSorted, levels, levelCount, cycleLow, cycleHigh, cycleRank, cycles);
   return 0;
 }
 
 /**
  * Degree 1 with rank-table and row entries of type R (u16 or i32): the dense symmetric table of ranks (all
  * bits set off the filtration for u16, 0x7f7f7f7f for i32 — above every rank either way), each vertex's
- * neighbours in filtration order, then the reduction.
+ * neighbours in filtration order (buildLists), then the reduction.
  */
 function degreeOne<R>(
   n: i32,
@@ -286,7 +276,6 @@ function degreeOne<R>(
   low: usize,
   high: usize,
   rankSorted: usize,
-  start: usize,
   levels: usize,
   levelCount: i32,
   cycleLow: usize,
@@ -297,26 +286,15 @@ function degreeOne<R>(
   const bytes = <usize>n * <usize>n * sizeof<R>();
   const rankOf = alloc(bytes);
   memory.fill(rankOf, sizeof<R>() == 2 ? 0xff : 0x7f, bytes);
-  const fill = alloc((<usize>n) << 2);
-  memory.copy(fill, start, (<usize>n) << 2);
-  const rowVertex = alloc(<usize>kept * 2 * sizeof<R>());
-  const rowRank = alloc(<usize>kept * 2 * sizeof<R>());
   for (let k = 0; k < kept; k++) {
     const i = getI(low, k);
     const j = getI(high, k);
     const r = getI(rankSorted, k);
     putR<R>(rankOf, i * n + j, r);
     putR<R>(rankOf, j * n + i, r);
-    let p = getI(fill, i);
-    setI(fill, i, p + 1);
-    putR<R>(rowVertex, p, j);
-    putR<R>(rowRank, p, r);
-    p = getI(fill, j);
-    setI(fill, j, p + 1);
-    putR<R>(rowVertex, p, i);
-    putR<R>(rowRank, p, r);
   }
-  reduceEdges<R>(n, rankOf, levels, levelCount, start, rowVertex, rowRank, cycleLow, cycleHigh, cycleRank, cycles);
+  buildLists<R>(n, low, high, rankSorted, kept);
+  reduceEdges<R>(n, rankOf, levels, levelCount, listStart, listVertex, listRank, cycleLow, cycleHigh, cycleRank, cycles);
 }
 
 // @ts-ignore: decorator
@@ -1002,8 +980,8 @@ let listStart: usize = 0;
 let listVertex: usize = 0;
 let listRank: usize = 0;
 
-/** Neighbour rows (32-bit) of the edges low/high/ranks[0 … count) into the list globals. */
-function buildLists(n: i32, low: usize, high: usize, ranks: usize, count: i32): void {
+/** Neighbour rows (entries of type R) of the edges low/high/ranks[0 … count) into the list globals. */
+function buildLists<R>(n: i32, low: usize, high: usize, ranks: usize, count: i32): void {
   listLow = low;
   listHigh = high;
   listRankOfEdge = ranks;
@@ -1018,20 +996,20 @@ function buildLists(n: i32, low: usize, high: usize, ranks: usize, count: i32): 
   for (let v = 1; v <= n; v++) setI(start, v, getI(start, v) + getI(start, v - 1));
   const fill = alloc((<usize>n) << 2);
   memory.copy(fill, start, (<usize>n) << 2);
-  const vertex = alloc((<usize>count) << 3);
-  const rank = alloc((<usize>count) << 3);
+  const vertex = alloc(<usize>count * 2 * sizeof<R>());
+  const rank = alloc(<usize>count * 2 * sizeof<R>());
   for (let k = 0; k < count; k++) {
     const i = getI(low, k);
     const j = getI(high, k);
     const r = getI(ranks, k);
     let p = getI(fill, i);
     setI(fill, i, p + 1);
-    setI(vertex, p, j);
-    setI(rank, p, r);
+    putR<R>(vertex, p, j);
+    putR<R>(rank, p, r);
     p = getI(fill, j);
     setI(fill, j, p + 1);
-    setI(vertex, p, i);
-    setI(rank, p, r);
+    putR<R>(vertex, p, i);
+    putR<R>(rank, p, r);
   }
   listStart = start;
   listVertex = vertex;
@@ -1075,10 +1053,10 @@ function tableEdges(n: i32, rankOf: usize): void {
       setI(ranks, p, r);
     }
   }
-  buildLists(n, low, high, ranks, count);
+  buildLists<i32>(n, low, high, ranks, count);
 }
 
-function degreeTwo(n: i32, kept: i32, low: usize, high: usize, rankSorted: usize, start: usize, levels: usize): void {
+function degreeTwo(n: i32, kept: i32, low: usize, high: usize, rankSorted: usize, levels: usize): void {
   const cells = <usize>n * <usize>n;
   const rankOf32 = alloc(cells << 2);
   memory.fill(rankOf32, 0x7f, cells << 2);
@@ -1089,7 +1067,7 @@ function degreeTwo(n: i32, kept: i32, low: usize, high: usize, rankSorted: usize
     setI(rankOf32, i * n + j, r);
     setI(rankOf32, j * n + i, r);
   }
-  buildLists(n, low, high, rankSorted, kept);
+  buildLists<i32>(n, low, high, rankSorted, kept);
 
   // The collapse, in passes; then one rank per edge (its position), levelOf mapping back.
   for (let pass = 0; pass < MAX_PASSES; pass++) {

@@ -7,6 +7,7 @@ import type { Diagram } from '../../src/homology/diagram.js';
 import { METRICS, pairwiseDistances } from '../../src/homology/metric.js';
 import { cloudRipsPersistence, ripsPersistence } from '../../src/homology/rips.js';
 import { kernelFits, kernelMemoryBytes } from '../../src/homology/rips-kernel.js';
+import { spherePoints } from './sphere-points.js';
 
 /*
  * The WebAssembly engine of degrees 0–1 (wasm/rips-low.ts) must give the TypeScript engine's diagrams
@@ -157,16 +158,7 @@ describe('the WebAssembly Rips kernel in degree 2', () => {
   it('finds the void of 200 points near the sphere as the TypeScript engine does', () => {
     const rng = new Random(3);
     const count = 200;
-    const c = new Float64Array(count * 3);
-    for (let i = 0; i < count; i++) {
-      const x = rng.normal();
-      const y = rng.normal();
-      const z = rng.normal();
-      const r = Math.hypot(x, y, z);
-      c[3 * i] = x / r;
-      c[3 * i + 1] = y / r;
-      c[3 * i + 2] = z / r;
-    }
+    const c = spherePoints(rng, count);
     const edges = pairwiseDistances(c, count, 3);
     const got = ripsPersistence(count, edges, { maxDegree: 2 });
     expectSame(got, ripsPersistence(count, edges, { maxDegree: 2, kernel: false }));

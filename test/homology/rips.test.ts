@@ -5,6 +5,7 @@ import { pairwiseDistances } from '../../src/homology/metric.js';
 import { enclosingRadius, ripsPersistence, sortEdges } from '../../src/homology/rips.js';
 import { condensedIndex } from '../../src/homology/simplex-index.js';
 import { naiveRips } from './naive-reduction.js';
+import { spherePoints } from './sphere-points.js';
 
 function finiteOf(d: Diagram): Array<[number, number]> {
   const out: Array<[number, number]> = [];
@@ -90,16 +91,7 @@ describe('ripsPersistence against the naive reduction', () => {
     let h2 = 0;
     for (let trial = 0; trial < 20; trial++) {
       const count = 8 + rng.int(5);
-      const c = new Float64Array(count * 3);
-      for (let i = 0; i < count; i++) {
-        const x = rng.normal();
-        const y = rng.normal();
-        const z = rng.normal();
-        const r = Math.hypot(x, y, z);
-        c[3 * i] = x / r;
-        c[3 * i + 1] = y / r;
-        c[3 * i + 2] = z / r;
-      }
+      const c = spherePoints(rng, count);
       agree(c, count, 3, 2);
       const edges = pairwiseDistances(c, count, 3);
       h2 += ripsPersistence(count, edges, { maxDegree: 2 })[2].births.length;
