@@ -117,8 +117,9 @@ export function kernelCloudRips(
 }
 
 /**
- * A WebAssembly memory only grows: after a cloud that needed over 128 MB the instance is dropped (the next sample gets a new
- * one from the same compiled module, in about a millisecond), so that its memory is given back.
+ * A WebAssembly memory only grows: after a cloud that needed over 128 MB the instance is dropped (the next
+ * sample gets a new one from the same compiled module, in about a millisecond), so that its memory is given
+ * back.
  */
 const KEEP_BYTES = 128 * 2 ** 20;
 

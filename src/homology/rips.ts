@@ -77,13 +77,7 @@ export function ripsPersistence(n: number, edgeValues: Float64Array, options: Ri
     );
   }
 
-  if (
-    maxDegree <= 1 &&
-    options.collapse !== true &&
-    options.kernel !== false &&
-    kernelFits(n) &&
-    cheapBoundFits(n, maxDegree, options.memoryLimit)
-  ) {
+  if (lowDegreesOnKernel(n, options)) {
     const diagrams = kernelRips(
       n,
       edgeValues,
@@ -187,13 +181,7 @@ export function cloudRipsPersistence(
   metric: Metric,
   options: RipsOptions,
 ): Diagram[] {
-  if (
-    options.maxDegree <= 1 &&
-    options.vertexValues === undefined &&
-    options.collapse !== true &&
-    options.kernel !== false &&
-    cheapBoundFits(n, options.maxDegree, options.memoryLimit)
-  ) {
+  if (options.vertexValues === undefined && lowDegreesOnKernel(n, options)) {
     const diagrams = kernelCloudRips(
       coords,
       n,
@@ -592,6 +580,17 @@ export function estimateRipsBytes(
     bytes += 8 * triangles + 6 * triangles + binomial(n, 3) / 8;
   }
   return { bytes, edges: kept, triangles };
+}
+
+/** Whether degrees 0–1 go to the WebAssembly engine (see RipsOptions.kernel; degree 2 is decided later). */
+function lowDegreesOnKernel(n: number, options: RipsOptions): boolean {
+  return (
+    options.maxDegree <= 1 &&
+    options.collapse !== true &&
+    options.kernel !== false &&
+    kernelFits(n) &&
+    cheapBoundFits(n, options.maxDegree, options.memoryLimit)
+  );
 }
 
 /** The memory budget of a computation: the limit given, or 80 % of free memory and at least 1 GiB. */
