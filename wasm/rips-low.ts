@@ -10,7 +10,7 @@
 // degree-2 columns met through their last edges and reduced with the rank queue and per-triangle cursors.
 // The diagrams are the same pairs in the same order. The engine exists because compiled WebAssembly is
 // shared by every thread of a process, where each thread compiles JavaScript for itself (the warm-up that
-// kept two threads from doubling the speed); it is also 1.6–1.7× faster.
+// kept two threads from doubling the speed); it is also 1.6–2.3× faster.
 //
 // Memory: a bump allocator over the module's memory, reset at the start of each sample (`prepare`). Simplex
 // numbers are i64.
