@@ -229,16 +229,7 @@ export function compute(n: i32, hasVertexValues: i32, maxScale: f64, maxDegree: 
       setF(deaths0, count0, death);
       count0++;
     }
-    // link
-    let root = ri;
-    let child = rj;
-    if (getI(size, ri) < getI(size, rj)) {
-      root = rj;
-      child = ri;
-    }
-    setI(parent, child, root);
-    setI(size, root, getI(size, root) + getI(size, child));
-    setI(oldest, root, iOlder ? oi : oj);
+    setI(oldest, link(parent, size, ri, rj), iOlder ? oi : oj);
   }
   for (let v = 0; v < n; v++) {
     if (find(parent, v) != v) continue;
@@ -326,6 +317,19 @@ function find(parent: usize, x: i32): i32 {
     x = g;
   }
   return x;
+}
+
+/** Joins the sets of the roots ri ≠ rj, the smaller under the larger; returns the new root. */
+function link(parent: usize, size: usize, ri: i32, rj: i32): i32 {
+  let root = ri;
+  let child = rj;
+  if (getI(size, ri) < getI(size, rj)) {
+    root = rj;
+    child = ri;
+  }
+  setI(parent, child, root);
+  setI(size, root, getI(size, root) + getI(size, child));
+  return root;
 }
 
 function highVertex(e: i32): i32 {
@@ -1111,14 +1115,7 @@ function degreeTwo(n: i32, kept: i32, low: usize, high: usize, rankSorted: usize
       setI(cycleRank, cycles++, k);
       continue;
     }
-    let root = ri;
-    let child = rj;
-    if (getI(size, ri) < getI(size, rj)) {
-      root = rj;
-      child = ri;
-    }
-    setI(parent, child, root);
-    setI(size, root, getI(size, root) + getI(size, child));
+    link(parent, size, ri, rj);
   }
 
   // Triangles paired in degree 1 are cleared from degree 2.
