@@ -23,6 +23,7 @@ let top: usize = 0;
 function alloc(bytes: usize): usize {
   const p = (top + 15) & ~(<usize>15);
   const end = p + bytes;
+  if (end < p) unreachable(); // beyond 4 GiB
   const pages = <i32>((end + 0xffff) >>> 16);
   const have = memory.size();
   if (pages > have && memory.grow(pages - have) < 0) unreachable();
@@ -78,6 +79,8 @@ let badEdge: i32 = -1;
 
 /** Starts a sample of n vertices: returns where its n(n−1)/2 edge values go (then n vertex values). */
 export function prepare(n: i32): usize {
+  // More than a 32-bit memory holds (the caller then uses the TypeScript engine): trap before any size wraps.
+  if ((<u64>n * <u64>max<i32>(n, 1)) * 48 >= 0x100000000) unreachable();
   top = __heap_base;
   const m = <usize>n * <usize>(n - 1) / 2;
   valuesPtr = alloc(m << 3);

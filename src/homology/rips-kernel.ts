@@ -32,6 +32,7 @@ export type KernelModule = object;
 interface WebAssemblyApi {
   Module: new (bytes: Uint8Array) => KernelModule;
   Instance: new (module: KernelModule, imports: object) => { exports: unknown };
+  RuntimeError: new () => Error;
 }
 const wasm = (globalThis as unknown as { WebAssembly: WebAssemblyApi }).WebAssembly;
 
@@ -71,8 +72,11 @@ function instance(): KernelExports {
  * address. Larger clouds run on the TypeScript engine.
  */
 export function kernelFits(n: number, maxDegree = 1): boolean {
-  const triangles = maxDegree >= 2 ? (n * (n - 1) * (n - 2)) / 6 / 8 + 4 * n * n : 0;
-  return 4 * n * n + 40 * n * (n - 1) + triangles <= 2 ** 31;
+  const edges = (n * (n - 1)) / 2;
+  // Degree 2: the collapse's passes each list the edges again (about 130 bytes an edge in all), the tables
+  // are copied to 16 bits, and cleared triangles take a bit each.
+  const more = maxDegree >= 2 ? 130 * edges + 4 * n * n + (n * (n - 1) * (n - 2)) / 6 / 8 : 0;
+  return 4 * n * n + 80 * edges + more <= 2 ** 31;
 }
 
 /**
@@ -87,11 +91,27 @@ export function kernelRips(
   vertexValues: Float64Array | undefined,
 ): Diagram[] | undefined {
   const k = instance();
-  const at = k.prepare(n);
-  new Float64Array(k.memory.buffer, at, edgeValues.length).set(edgeValues);
-  if (vertexValues !== undefined) new Float64Array(k.memory.buffer, k.vertexValues(), n).set(vertexValues);
-  if (k.compute(n, vertexValues === undefined ? 0 : 1, maxScale, maxDegree) !== 0) return undefined;
-  return results(k, maxDegree);
+  return trapped(() => {
+    const at = k.prepare(n);
+    new Float64Array(k.memory.buffer, at, edgeValues.length).set(edgeValues);
+    if (vertexValues !== undefined) new Float64Array(k.memory.buffer, k.vertexValues(), n).set(vertexValues);
+    if (k.compute(n, vertexValues === undefined ? 0 : 1, maxScale, maxDegree) !== 0) return undefined;
+    return results(k, maxDegree);
+  });
+}
+
+/**
+ * Runs `work` on the kernel; when the kernel traps — its memory could not grow (beyond 4 GiB, or the
+ * system refused) — drops the instance and returns undefined, so that the TypeScript engine takes the sample.
+ */
+function trapped(work: () => Diagram[] | undefined): Diagram[] | undefined {
+  try {
+    return work();
+  } catch (error) {
+    if (!(error instanceof wasm.RuntimeError)) throw error;
+    kernel = undefined;
+    return undefined;
+  }
 }
 
 const METRIC_CODES: Record<Metric, number> = { euclidean: 0, manhattan: 1, chebyshev: 2 };
@@ -110,10 +130,12 @@ export function kernelCloudRips(
 ): Diagram[] | undefined {
   if (!kernelFits(n) || coords.length !== n * dim) return undefined;
   const k = instance();
-  const at = k.preparePoints(n, dim);
-  new Float64Array(k.memory.buffer, at, coords.length).set(coords);
-  if (k.computePoints(n, dim, METRIC_CODES[metric], maxScale, maxDegree) !== 0) return undefined;
-  return results(k, maxDegree);
+  return trapped(() => {
+    const at = k.preparePoints(n, dim);
+    new Float64Array(k.memory.buffer, at, coords.length).set(coords);
+    if (k.computePoints(n, dim, METRIC_CODES[metric], maxScale, maxDegree) !== 0) return undefined;
+    return results(k, maxDegree);
+  });
 }
 
 /**

@@ -6,7 +6,7 @@ import { Random } from '../../src/core/random.js';
 import type { Diagram } from '../../src/homology/diagram.js';
 import { METRICS, pairwiseDistances } from '../../src/homology/metric.js';
 import { cloudRipsPersistence, ripsPersistence } from '../../src/homology/rips.js';
-import { kernelFits, kernelMemoryBytes } from '../../src/homology/rips-kernel.js';
+import { kernelFits, kernelMemoryBytes, kernelRips } from '../../src/homology/rips-kernel.js';
 import { spherePoints } from './sphere-points.js';
 
 /*
@@ -106,6 +106,20 @@ describe('the WebAssembly Rips kernel against the TypeScript engine', () => {
     ripsPersistence(30, pairwiseDistances(cloud(rng, 30, 3, 0), 30, 3), { maxDegree: 1 });
     expect(kernelMemoryBytes()).toBeGreaterThan(0);
     expect(kernelMemoryBytes()).toBeLessThan(2 ** 24);
+  });
+
+  it('gives a sample back to the TypeScript engine when its memory cannot grow', () => {
+    // 33,000 points need 4.4 GB for their edge values alone, beyond a 32-bit WebAssembly memory: the kernel
+    // traps while it reserves them (before reading any value), and answers undefined.
+    expect(kernelFits(33000)).toBe(false);
+    expect(kernelRips(33000, new Float64Array(0), 1, Infinity, undefined)).toBeUndefined();
+    expect(kernelMemoryBytes()).toBe(0);
+    // The next sample gets a new instance.
+    const edges = pairwiseDistances(cloud(new Random(4), 30, 2, 0), 30, 2);
+    expectSame(
+      ripsPersistence(30, edges, { maxDegree: 1 }),
+      ripsPersistence(30, edges, { maxDegree: 1, kernel: false }),
+    );
   });
 
   it('leaves an invalid distance to the checks that name it', () => {
