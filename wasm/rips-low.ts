@@ -20,9 +20,11 @@
 
 let top: usize = 0;
 
-function alloc(bytes: usize): usize {
+/** A block of `size` bytes (sizes are 64-bit so that no product wraps: 4 GiB or more traps). */
+function alloc(size: u64): usize {
   const p = (top + 15) & ~(<usize>15);
-  const end = p + bytes;
+  if (size >= 0x100000000) unreachable();
+  const end = p + <usize>size;
   if (end < p) unreachable(); // beyond 4 GiB
   const pages = <i32>((end + 0xffff) >>> 16);
   const have = memory.size();
@@ -31,9 +33,30 @@ function alloc(bytes: usize): usize {
   return p;
 }
 
-function zeroed(bytes: usize): usize {
+/**
+ * Room for `newBytes` at p, keeping the first `oldBytes`: in place when p is the last block allocated (the
+ * common case for the one array that grows during a long column), else a new block with the old contents.
+ * Blocks left behind are not reused until the next sample.
+ */
+function grow(p: usize, oldBytes: u64, newBytes: u64): usize {
+  if (newBytes >= 0x100000000) unreachable();
+  if (p + <usize>oldBytes == top) {
+    const end = p + <usize>newBytes;
+    if (end < p) unreachable();
+    const pages = <i32>((end + 0xffff) >>> 16);
+    const have = memory.size();
+    if (pages > have && memory.grow(pages - have) < 0) unreachable();
+    top = end;
+    return p;
+  }
+  const q = alloc(newBytes);
+  memory.copy(q, p, <usize>oldBytes);
+  return q;
+}
+
+function zeroed(bytes: u64): usize {
   const p = alloc(bytes);
-  memory.fill(p, 0, bytes);
+  memory.fill(p, 0, <usize>bytes);
   return p;
 }
 
@@ -518,14 +541,14 @@ function reduceEdges<R>(
   deaths1 = alloc((<usize>max<i32>(count, 1)) << 3);
   count1 = 0;
   heapCapacity = 4096;
-  heapRanks = alloc((<usize>heapCapacity) << 2);
-  heapIndices = alloc((<usize>heapCapacity) << 3);
+  heapRanks = alloc((<u64>heapCapacity) << 2);
+  heapIndices = alloc((<u64>heapCapacity) << 3);
   scratchCapacity = 256;
-  scratch = alloc((<usize>scratchCapacity) << 3);
+  scratch = alloc((<u64>scratchCapacity) << 3);
   storeCapacity = 1 << 16;
-  storeP = alloc((<usize>storeCapacity) << 3);
+  storeP = alloc((<u64>storeCapacity) << 3);
   startsCapacity = 1 << 12;
-  startsP = alloc((<usize>startsCapacity) << 2);
+  startsP = alloc((<u64>startsCapacity) << 2);
   storeLength = 0;
   columnCount = 0;
   setI(startsP, 0, 0);
@@ -740,9 +763,9 @@ function addEdgeCofacets<R>(i: i32, j: i32, r: i32, lo: i32, hi: i32): void {
 
 function heapPush(rank: i32, index: i64): void {
   if (heapSize == heapCapacity) {
-    const r = alloc((<usize>heapCapacity) << 3);
+    const r = alloc((<u64>heapCapacity) << 3);
     memory.copy(r, heapRanks, (<usize>heapCapacity) << 2);
-    const x = alloc((<usize>heapCapacity) << 4);
+    const x = alloc((<u64>heapCapacity) << 4);
     memory.copy(x, heapIndices, (<usize>heapCapacity) << 3);
     heapRanks = r;
     heapIndices = x;
@@ -809,9 +832,7 @@ function popPivot(): bool {
 
 function pushScratch(x: i64): void {
   if (scratchLength == scratchCapacity) {
-    const s = alloc((<usize>scratchCapacity) << 4);
-    memory.copy(s, scratch, (<usize>scratchCapacity) << 3);
-    scratch = s;
+    scratch = grow(scratch, (<u64>scratchCapacity) << 3, (<u64>scratchCapacity) << 4);
     scratchCapacity *= 2;
   }
   setL(scratch, scratchLength++, x);
@@ -821,18 +842,14 @@ function reserveStore(atLeast: i32): void {
   if (atLeast <= storeCapacity) return;
   let c = storeCapacity * 2;
   if (c < atLeast) c = atLeast;
-  const s = alloc((<usize>c) << 3);
-  memory.copy(s, storeP, (<usize>storeLength) << 3);
-  storeP = s;
+  storeP = grow(storeP, (<u64>storeCapacity) << 3, (<u64>c) << 3);
   storeCapacity = c;
 }
 
 function closeColumn(): i32 {
   const id = columnCount++;
   if (columnCount + 1 > startsCapacity) {
-    const s = alloc((<usize>startsCapacity) << 3);
-    memory.copy(s, startsP, (<usize>startsCapacity) << 2);
-    startsP = s;
+    startsP = grow(startsP, (<u64>startsCapacity) << 2, (<u64>startsCapacity) << 3);
     startsCapacity *= 2;
   }
   setI(startsP, columnCount, storeLength);
@@ -928,9 +945,9 @@ function sortL(p: usize, lo: i32, hi: i32): void {
 function mapInit(expected: i32): void {
   let cap = 16;
   while (cap < expected * 2) cap *= 2;
-  mapKeys = alloc((<usize>cap) << 3);
+  mapKeys = alloc((<u64>cap) << 3);
   memory.fill(mapKeys, 0xff, (<usize>cap) << 3); // −1: empty
-  mapValues = alloc((<usize>cap) << 2);
+  mapValues = alloc((<u64>cap) << 2);
   mapMask = cap - 1;
   mapCount = 0;
 }
@@ -959,9 +976,9 @@ function mapGrow(): void {
   const oldValues = mapValues;
   const oldCap = mapMask + 1;
   const cap = oldCap * 2;
-  mapKeys = alloc((<usize>cap) << 3);
+  mapKeys = alloc((<u64>cap) << 3);
   memory.fill(mapKeys, 0xff, (<usize>cap) << 3);
-  mapValues = alloc((<usize>cap) << 2);
+  mapValues = alloc((<u64>cap) << 2);
   mapMask = cap - 1;
   mapCount = 0;
   for (let s = 0; s < oldCap; s++) {
@@ -1453,8 +1470,8 @@ function triangleColumns<R>(n: i32, m: i32): void {
   const upTo = zeroed(<usize>n * rowBytes);
   const pair = alloc(rowBytes);
   let capacity = max<i32>(1 << 12, m);
-  let found = alloc((<usize>capacity) << 3);
-  let foundRanks = alloc((<usize>capacity) << 2);
+  let found = alloc((<u64>capacity) << 3);
+  let foundRanks = alloc((<u64>capacity) << 2);
   let count = 0;
   let added = 0;
   for (let e = 0; e < m; e++) {
@@ -1508,10 +1525,10 @@ function triangleColumns<R>(n: i32, m: i32): void {
           continue;
         if ((load<u8>(cleared + <usize>(t >>> 3)) & (<u8>1 << <u8>(t & 7))) != 0) continue;
         if (count == capacity) {
-          const f2 = alloc((<usize>capacity) << 4);
+          const f2 = alloc((<u64>capacity) << 4);
           memory.copy(f2, found, (<usize>capacity) << 3);
           found = f2;
-          const r2 = alloc((<usize>capacity) << 3);
+          const r2 = alloc((<u64>capacity) << 3);
           memory.copy(r2, foundRanks, (<usize>capacity) << 2);
           foundRanks = r2;
           capacity *= 2;
@@ -1563,13 +1580,13 @@ function reduceTriangles<R>(n: i32, m: i32, levels: usize): void {
   storeLength = 0;
   columnCount_reset();
   mapInit(max<i32>(16, columnCount));
-  triA = alloc((<usize>scratchCapacity) << 2);
-  triB = alloc((<usize>scratchCapacity) << 2);
-  triC = alloc((<usize>scratchCapacity) << 2);
-  triRank = alloc((<usize>scratchCapacity) << 2);
-  curA = alloc((<usize>scratchCapacity) << 2);
-  curB = alloc((<usize>scratchCapacity) << 2);
-  curC = alloc((<usize>scratchCapacity) << 2);
+  triA = alloc((<u64>scratchCapacity) << 2);
+  triB = alloc((<u64>scratchCapacity) << 2);
+  triC = alloc((<u64>scratchCapacity) << 2);
+  triRank = alloc((<u64>scratchCapacity) << 2);
+  curA = alloc((<u64>scratchCapacity) << 2);
+  curB = alloc((<u64>scratchCapacity) << 2);
+  curC = alloc((<u64>scratchCapacity) << 2);
   let previousRank = -1;
   for (let col = 0; col < columnCount; col++) {
     const t = getL(columnsP, col);
@@ -1690,7 +1707,7 @@ function firstAtLeast<R>(from: i32, to: i32, r: i32): i32 {
 function pushTriangle(t: i64, a: i32, b: i32, c: i32, r: i32): i32 {
   if (scratchLength == scratchCapacity) {
     const old = scratchCapacity;
-    const grownScratch = alloc((<usize>old) << 4);
+    const grownScratch = alloc((<u64>old) << 4);
     memory.copy(grownScratch, scratch, (<usize>old) << 3);
     scratch = grownScratch;
     triA = grownI(triA, old);
@@ -1712,7 +1729,7 @@ function pushTriangle(t: i64, a: i32, b: i32, c: i32, r: i32): i32 {
 }
 
 function grownI(p: usize, length: i32): usize {
-  const q = alloc((<usize>length) << 3);
+  const q = alloc((<u64>length) << 3);
   memory.copy(q, p, (<usize>length) << 2);
   return q;
 }
@@ -1797,8 +1814,9 @@ function pushRow<R>(
 let qHead: usize = 0;
 let qStamp: usize = 0;
 let qEpoch: i32 = 0;
-let qLink: usize = 0;
-let qIndices: usize = 0;
+// Entries of 12 bytes in one block (so that it grows in place): the simplex number (i64) and the link to the
+// previous entry of the same rank (i32).
+let qEntries: usize = 0;
 let qLength: i32 = 0;
 let qCapacity: i32 = 0;
 let qCurrent: i32 = 0;
@@ -1818,12 +1836,11 @@ function queueInit(rankCount: i32): void {
   qStamp = zeroed((<usize>max<i32>(rankCount, 1)) << 2);
   qEpoch = 0;
   qCapacity = 1024;
-  qLink = alloc((<usize>qCapacity) << 2);
-  qIndices = alloc((<usize>qCapacity) << 3);
+  qEntries = alloc(<u64>qCapacity * 12);
   qRunCapacity = 256;
-  qRun = alloc((<usize>qRunCapacity) << 3);
+  qRun = alloc((<u64>qRunCapacity) << 3);
   qLateCapacity = 256;
-  qLate = alloc((<usize>qLateCapacity) << 3);
+  qLate = alloc((<u64>qLateCapacity) << 3);
 }
 
 function queueClear(lowest: i32): void {
@@ -1842,20 +1859,16 @@ function queuePush(rank: i32, index: i64): void {
     return;
   }
   if (qLength == qCapacity) {
-    const link = alloc((<usize>qCapacity) << 3);
-    memory.copy(link, qLink, (<usize>qCapacity) << 2);
-    qLink = link;
-    const indices = alloc((<usize>qCapacity) << 4);
-    memory.copy(indices, qIndices, (<usize>qCapacity) << 3);
-    qIndices = indices;
+    qEntries = grow(qEntries, <u64>qCapacity * 12, <u64>qCapacity * 24);
     qCapacity *= 2;
   }
   const e = qLength++;
-  setL(qIndices, e, index);
-  if (getI(qStamp, rank) == qEpoch) setI(qLink, e, getI(qHead, rank));
+  const at = qEntries + <usize>e * 12;
+  store<i64>(at, index);
+  if (getI(qStamp, rank) == qEpoch) store<i32>(at + 8, getI(qHead, rank));
   else {
     setI(qStamp, rank, qEpoch);
-    setI(qLink, e, -1);
+    store<i32>(at + 8, -1);
   }
   setI(qHead, rank, e);
   if (rank > qHighest) qHighest = rank;
@@ -1896,13 +1909,14 @@ function queuePop(): bool {
 
 function mergeList(rank: i32): void {
   let count = 0;
-  for (let e = getI(qHead, rank); e >= 0; e = getI(qLink, e)) count++;
+  for (let e = getI(qHead, rank); e >= 0; e = load<i32>(qEntries + <usize>e * 12 + 8)) count++;
   if (qRunCapacity < count) {
     qRunCapacity = max<i32>(count, qRunCapacity * 2);
-    qRun = alloc((<usize>qRunCapacity) << 3);
+    qRun = alloc((<u64>qRunCapacity) << 3);
   }
   let w = 0;
-  for (let e = getI(qHead, rank); e >= 0; e = getI(qLink, e)) setL(qRun, w++, getL(qIndices, e));
+  for (let e = getI(qHead, rank); e >= 0; e = load<i32>(qEntries + <usize>e * 12 + 8))
+    setL(qRun, w++, load<i64>(qEntries + <usize>e * 12));
   if (w > 1) sortL(qRun, 0, w - 1);
   let kept = 0;
   for (let r = 0; r < w; ) {
@@ -1917,9 +1931,7 @@ function mergeList(rank: i32): void {
 
 function latePush(index: i64): void {
   if (qLateSize == qLateCapacity) {
-    const late = alloc((<usize>qLateCapacity) << 4);
-    memory.copy(late, qLate, (<usize>qLateCapacity) << 3);
-    qLate = late;
+    qLate = grow(qLate, (<u64>qLateCapacity) << 3, (<u64>qLateCapacity) << 4);
     qLateCapacity *= 2;
   }
   let i = qLateSize++;
