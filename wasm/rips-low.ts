@@ -19,11 +19,20 @@
 // ------------------------------------------------------------------------------------------------ memory
 
 let top: usize = 0;
+// The largest block `grow` has left behind in this sample: later blocks that fit are cut from its start, so
+// that the growing array stays the last block and keeps growing in place.
+let holeStart: usize = 0;
+let holeEnd: usize = 0;
 
 /** A block of `size` bytes (sizes are 64-bit so that no product wraps: 4 GiB or more traps). */
 function alloc(size: u64): usize {
-  const p = (top + 15) & ~(<usize>15);
   if (size >= 0x100000000) unreachable();
+  const h = (holeStart + 15) & ~(<usize>15);
+  if (<u64>h + size <= <u64>holeEnd) {
+    holeStart = h + <usize>size;
+    return h;
+  }
+  const p = (top + 15) & ~(<usize>15);
   const end = p + <usize>size;
   if (end < p) unreachable(); // beyond 4 GiB
   const pages = <i32>((end + 0xffff) >>> 16);
@@ -35,8 +44,8 @@ function alloc(size: u64): usize {
 
 /**
  * Room for `newBytes` at p, keeping the first `oldBytes`: in place when p is the last block allocated (the
- * common case for the one array that grows during a long column), else a new block with the old contents.
- * Blocks left behind are not reused until the next sample.
+ * common case for the one array that grows during a long column), else a new block with the old contents;
+ * the old block becomes the hole if it is the largest left behind (other blocks wait for the next sample).
  */
 function grow(p: usize, oldBytes: u64, newBytes: u64): usize {
   if (newBytes >= 0x100000000) unreachable();
@@ -51,6 +60,10 @@ function grow(p: usize, oldBytes: u64, newBytes: u64): usize {
   }
   const q = alloc(newBytes);
   memory.copy(q, p, <usize>oldBytes);
+  if (oldBytes > <u64>(holeEnd - holeStart)) {
+    holeStart = p;
+    holeEnd = p + <usize>oldBytes;
+  }
   return q;
 }
 
@@ -105,6 +118,8 @@ export function prepare(n: i32): usize {
   // More than a 32-bit memory holds (the caller then uses the TypeScript engine): trap before any size wraps.
   if ((<u64>n * <u64>max<i32>(n, 1)) * 48 >= 0x100000000) unreachable();
   top = __heap_base;
+  holeStart = 0;
+  holeEnd = 0;
   const m = <usize>n * <usize>(n - 1) / 2;
   valuesPtr = alloc(m << 3);
   vertexPtr = alloc((<usize>n) << 3);
