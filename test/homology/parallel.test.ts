@@ -4,6 +4,7 @@ import { Random } from '../../src/core/random.js';
 import { computeDiagrams } from '../../src/homology/compute.js';
 import { computeDiagramsParallel, stopDiagramWorkers } from '../../src/homology/parallel.js';
 import type { PointSample } from '../../src/io/dataset.js';
+import { spherePoints } from './sphere-points.js';
 
 function clouds(count: number): PointSample[] {
   const rng = new Random(8);
@@ -33,6 +34,26 @@ describe('computeDiagramsParallel', () => {
       expect(Array.from(got[k].diagrams[0].deaths)).toEqual(Array.from(want[k].diagrams[0].deaths));
     }
     expect(seen[seen.length - 1]).toBe(12);
+  }, 30000);
+
+  it('matches the one-thread result in degree 2 too (the worker runs the compiled kernel it was given)', async () => {
+    // Points on the sphere, where degree 2 has pairs to compare.
+    const samples: PointSample[] = Array.from({ length: 6 }, (_, k) => ({
+      kind: 'points',
+      id: `s${k}`,
+      label: 'sphere',
+      dim: 3,
+      count: 14 + k,
+      coords: spherePoints(new Random(40 + k), 14 + k),
+    }));
+    const got = await computeDiagramsParallel(samples, { degrees: [0, 1, 2] }, { workers: 2 });
+    const want = samples.map((s) => computeDiagrams(s, { degrees: [0, 1, 2] }));
+    for (let k = 0; k < samples.length; k++)
+      for (let d = 0; d <= 2; d++) {
+        expect(Array.from(got[k].diagrams[d].births)).toEqual(Array.from(want[k].diagrams[d].births));
+        expect(Array.from(got[k].diagrams[d].deaths)).toEqual(Array.from(want[k].diagrams[d].deaths));
+      }
+    expect(want.reduce((a, w) => a + w.diagrams[2].births.length, 0)).toBeGreaterThan(0);
   }, 30000);
 
   it('gives the first sample to the worker and the rest to whichever thread is free, with the same message for a mistake either way', async () => {
