@@ -11,9 +11,17 @@ export interface Diagram {
   degree: number;
   births: Float64Array;
   deaths: Float64Array;
+  /**
+   * The filtration that made it, when a sample is filtered several ways (e.g. 'height:1:0' for an image);
+   * absent when the sample has one filtration. Together with the degree it names the diagram's channel.
+   */
+  filtration?: string;
 }
 
-/** The diagrams of one sample, one per degree, in increasing degree. */
+/**
+ * The diagrams of one sample, one per degree in increasing degree; with several filtrations, one per
+ * (filtration, degree), filtration-major in the order the filtrations were asked for.
+ */
 export interface DiagramSet {
   sample: string;
   label: string;
@@ -58,6 +66,49 @@ export function toPairs(diagram: Diagram): PersistencePair[] {
 /** The diagram of `degree` in a set, or an empty one when the set has none of that degree. */
 export function diagramOfDegree(set: DiagramSet, degree: number): Diagram {
   return set.diagrams.find((d) => d.degree === degree) ?? emptyDiagram(degree);
+}
+
+/**
+ * A channel is one (filtration, degree) slot of every sample's diagrams. A study with one filtration has one
+ * channel per degree; with F filtrations it has F × degrees, and every vectoriser learns its grid (range) per
+ * channel inside the training fold.
+ */
+export interface Channel {
+  degree: number;
+  /** Absent for the single-filtration case. */
+  filtration?: string;
+}
+
+/**
+ * The channels of `sets` for the wanted degrees: each filtration tag in the order first met (untagged
+ * diagrams first), then the degrees in increasing order. With no diagram of any tag, one untagged channel
+ * per degree (so an empty training set still has its channels).
+ */
+export function channelsOf(sets: readonly DiagramSet[], degrees: readonly number[]): Channel[] {
+  const tags: Array<string | undefined> = [];
+  for (const set of sets) {
+    for (const d of set.diagrams) if (!tags.includes(d.filtration)) tags.push(d.filtration);
+  }
+  if (tags.length === 0) tags.push(undefined);
+  tags.sort((a, b) => (a === undefined ? -1 : b === undefined ? 1 : 0));
+  const sorted = [...new Set(degrees)].sort((a, b) => a - b);
+  const out: Channel[] = [];
+  for (const filtration of tags)
+    for (const degree of sorted) out.push(filtration === undefined ? { degree } : { degree, filtration });
+  return out;
+}
+
+/** The diagram of a channel in a set, or an empty one (tagged like the channel) when the set has none. */
+export function diagramOfChannel(set: DiagramSet, channel: Channel): Diagram {
+  const found = set.diagrams.find((d) => d.degree === channel.degree && d.filtration === channel.filtration);
+  if (found) return found;
+  const empty = emptyDiagram(channel.degree);
+  return channel.filtration === undefined ? empty : { ...empty, filtration: channel.filtration };
+}
+
+/** 'H1' for an untagged channel, 'height:1:0/H1' for a tagged one: the prefix of feature names. */
+export function channelName(channel: Channel): string {
+  return channel.filtration === undefined ? `H${channel.degree}` : `${channel.filtration}/H${channel.degree}`;
 }
 
 /** Keeps the pairs whose persistence (death − birth) is at least `minimum`; essential classes always pass. */
