@@ -1,8 +1,11 @@
 import { UserError } from '../core/errors.js';
 import {
+  type Channel,
+  channelName,
+  channelsOf,
   DEFAULT_INFINITE_POLICY,
   type DiagramSet,
-  diagramOfDegree,
+  diagramOfChannel,
   finitePairs,
   type InfinitePolicy,
 } from '../homology/diagram.js';
@@ -20,7 +23,10 @@ import type { Matrix } from '../learn/matrix.js';
  * so a few very long bars (outliers make long H0 bars of their own) do not stretch the grid. Essential classes
  * follow `infinite` (dropped by default). An explicit `range` skips the learning.
  *
- * Feature layout: degree-major, then layer, then grid point; feature names read `H1/L2/t=0.1250`.
+ * Feature layout: channel-major, then layer, then grid point; feature names read `H1/L2/t=0.1250`.
+ * A channel is a (filtration, degree) slot (homology/diagram.ts): when each sample is filtered several ways
+ * (its diagrams tagged `height:1:0`, `erosion`, …), every filtration's degree gets its own grid, learned from
+ * the training diagrams of that filtration only, and names read `height:1:0/H1/L2/t=0.1250`.
  */
 export interface LandscapeVectorizerOptions {
   /** Homology degrees to use, ascending. Default [0, 1]. */
@@ -51,15 +57,24 @@ export const DEFAULT_LANDSCAPE_VECTORIZER_OPTIONS = {
 /** Where one feature comes from on the landscape's axes. */
 export interface FeatureLocation {
   degree: number;
+  /** The filtration of the feature's channel, when samples were filtered several ways. */
+  filtration?: string;
   /** Layer k, 1-based. */
   layer: number;
   /** The scale value t of the grid point. */
   t: number;
 }
 
+/** The grid of one channel: untagged (`filtration` absent) for the single-filtration case. */
+export interface ChannelGrid {
+  degree: number;
+  filtration?: string;
+  grid: Grid;
+}
+
 export interface LandscapeVectorizerState {
-  /** One grid per degree, in the order of `degrees`. */
-  grids: Array<{ degree: number; grid: Grid }>;
+  /** One grid per channel: filtration-major, then the degrees in the order of `degrees`. */
+  grids: ChannelGrid[];
   /** Per-feature mean and standard deviation when standardising. */
   means?: Float64Array;
   scales?: Float64Array;
@@ -77,7 +92,7 @@ export interface LandscapeVectorizerJSON {
     upperQuantile: number;
     standardize: boolean;
   };
-  state: { grids: Array<{ degree: number; grid: Grid }>; means?: number[]; scales?: number[] };
+  state: { grids: ChannelGrid[]; means?: number[]; scales?: number[] };
 }
 
 export class LandscapeVectorizer {
@@ -130,18 +145,25 @@ export class LandscapeVectorizer {
     };
   }
 
+  /** Columns: channels × depth × grid size (before `fit`, one channel per degree is assumed). */
   get featureCount(): number {
-    return this.degrees.length * this.depth * this.gridSize;
+    const channels = this.state ? this.state.grids.length : this.degrees.length;
+    return channels * this.depth * this.gridSize;
   }
 
-  /** Learns each degree's grid range (and the standardisation) from `sets[indices]` only. */
+  /**
+   * Learns the channels met in `sets[indices]` and each channel's grid range (and the standardisation) from
+   * those sets only.
+   */
   fit(sets: readonly DiagramSet[], indices?: ArrayLike<number>): this {
     const chosen = indices ?? identity(sets.length);
-    const grids = this.degrees.map((degree) => ({
-      degree,
+    const training: DiagramSet[] = [];
+    for (let r = 0; r < chosen.length; r++) training.push(sets[chosen[r]]);
+    const grids: ChannelGrid[] = channelsOf(training, this.degrees).map((channel) => ({
+      ...channel,
       grid: this.range
         ? { start: this.range.start, stop: this.range.stop, count: this.gridSize }
-        : learnGrid(sets, chosen, degree, this.infinite, this.upperQuantile, this.gridSize),
+        : learnGrid(sets, chosen, channel, this.infinite, this.upperQuantile, this.gridSize),
     }));
     this.state = { grids };
     if (this.standardize) {
@@ -155,7 +177,9 @@ export class LandscapeVectorizer {
   /** The feature vectors of `sets[indices]` (all sets by default), one row each. Uses only the fitted state. */
   transform(sets: readonly DiagramSet[], indices?: ArrayLike<number>): Matrix {
     const state = this.fitted();
-    const m = this.sampleAll(sets, indices ?? identity(sets.length), state.grids);
+    const chosen = indices ?? identity(sets.length);
+    checkChannels(sets, chosen, state.grids, this.degrees);
+    const m = this.sampleAll(sets, chosen, state.grids);
     if (state.means && state.scales) applyStandardization(m, state.means, state.scales);
     return m;
   }
@@ -164,30 +188,40 @@ export class LandscapeVectorizer {
     return this.fit(sets, indices).transform(sets, indices);
   }
 
-  /** Readable names, e.g. `H1/L2/t=0.1250`, in feature order. */
+  /** The fitted channels, in feature order. */
+  channels(): Channel[] {
+    return this.fitted().grids.map(({ degree, filtration }) =>
+      filtration === undefined ? { degree } : { degree, filtration },
+    );
+  }
+
+  /** Readable names, e.g. `H1/L2/t=0.1250` or `erosion/H1/L2/t=0.1250`, in feature order. */
   featureNames(): string[] {
     const state = this.fitted();
     const names: string[] = [];
-    for (const { degree, grid } of state.grids) {
+    for (const channel of state.grids) {
+      const { grid } = channel;
       const step = (grid.stop - grid.start) / (grid.count - 1);
       const decimals = decimalsFor(step, grid.start, grid.stop);
+      const prefix = channelName(channel);
       for (let layer = 1; layer <= this.depth; layer++) {
         for (let j = 0; j < grid.count; j++)
-          names.push(`H${degree}/L${layer}/t=${gridValue(grid, j).toFixed(decimals)}`);
+          names.push(`${prefix}/L${layer}/t=${gridValue(grid, j).toFixed(decimals)}`);
       }
     }
     return names;
   }
 
-  /** The (degree, layer, t) of feature `index`, from the fitted grids. */
+  /** The (filtration, degree, layer, t) of feature `index`, from the fitted grids. */
   locate(index: number): FeatureLocation {
     const state = this.fitted();
-    const perDegree = this.depth * this.gridSize;
+    const perChannel = this.depth * this.gridSize;
     if (!(index >= 0 && index < this.featureCount)) throw new RangeError(`feature ${index} out of range`);
-    const { degree, grid } = state.grids[Math.floor(index / perDegree)];
-    const within = index % perDegree;
+    const { degree, filtration, grid } = state.grids[Math.floor(index / perChannel)];
+    const within = index % perChannel;
     return {
       degree,
+      ...(filtration !== undefined ? { filtration } : {}),
       layer: Math.floor(within / this.gridSize) + 1,
       t: gridValue(grid, within % this.gridSize),
     };
@@ -208,7 +242,7 @@ export class LandscapeVectorizer {
         standardize: this.standardize,
       },
       state: {
-        grids: state.grids.map((g) => ({ degree: g.degree, grid: { ...g.grid } })),
+        grids: state.grids.map(copyChannelGrid),
         ...(state.means && state.scales ? { means: [...state.means], scales: [...state.scales] } : {}),
       },
     };
@@ -225,7 +259,7 @@ export class LandscapeVectorizer {
     if (!j.options || !j.state) throw new UserError('saved landscape vectoriser lacks its options or state');
     const v = new LandscapeVectorizer(j.options);
     v.state = {
-      grids: j.state.grids.map((g) => ({ degree: g.degree, grid: { ...g.grid } })),
+      grids: j.state.grids.map(copyChannelGrid),
       ...(j.state.means && j.state.scales
         ? { means: Float64Array.from(j.state.means), scales: Float64Array.from(j.state.scales) }
         : {}),
@@ -250,12 +284,43 @@ export class LandscapeVectorizer {
     for (let r = 0; r < indices.length; r++) {
       const set = sets[indices[r]];
       for (let d = 0; d < grids.length; d++) {
-        const diagram = finitePairs(diagramOfDegree(set, grids[d].degree), this.infinite);
+        const diagram = finitePairs(diagramOfChannel(set, grids[d]), this.infinite);
         sampleLandscape(diagram, grids[d].grid, this.depth, data, r * cols + d * block);
       }
     }
     return { rows: indices.length, cols, data };
   }
+}
+
+/**
+ * Refuses a sample whose diagrams come from a filtration the vectoriser was not fitted on (its features would
+ * silently be empty): e.g. a diagrams file made with other `--filtration` settings than the model's.
+ */
+function checkChannels(
+  sets: readonly DiagramSet[],
+  indices: ArrayLike<number>,
+  grids: readonly ChannelGrid[],
+  degrees: readonly number[],
+): void {
+  const known = new Set(grids.map((g) => g.filtration ?? ''));
+  for (let r = 0; r < indices.length; r++) {
+    const set = sets[indices[r]];
+    for (const d of set.diagrams) {
+      if (!degrees.includes(d.degree) || known.has(d.filtration ?? '')) continue;
+      const expected = [...known].map((k) => (k === '' ? 'one unnamed filtration' : k)).join(', ');
+      throw new UserError(
+        `sample '${set.sample}' has ${d.filtration === undefined ? 'untagged diagrams' : `diagrams of filtration '${d.filtration}'`}, but the features were fitted on ${expected}; compute its diagrams with the same --filtration`,
+      );
+    }
+  }
+}
+
+function copyChannelGrid(g: ChannelGrid): ChannelGrid {
+  return {
+    degree: g.degree,
+    ...(g.filtration !== undefined ? { filtration: g.filtration } : {}),
+    grid: { ...g.grid },
+  };
 }
 
 function identity(n: number): Int32Array {
@@ -276,19 +341,23 @@ function decimalsFor(step: number, start: number, stop: number): number {
   return Math.min(Math.max(4, needed, magnitude < 1e-3 ? 8 : 0), 12);
 }
 
-/** The grid of one degree learned from the training pairs: [min birth, quantile of deaths]. */
+/**
+ * The grid of one channel (a degree, or a filtration's degree) learned from the training pairs:
+ * [min birth, quantile of deaths].
+ */
 export function learnGrid(
   sets: readonly DiagramSet[],
   indices: ArrayLike<number>,
-  degree: number,
+  channel: number | Channel,
   infinite: InfinitePolicy,
   upperQuantile: number,
   count: number,
 ): Grid {
+  const slot: Channel = typeof channel === 'number' ? { degree: channel } : channel;
   let total = 0;
   const finite = [];
   for (let r = 0; r < indices.length; r++) {
-    const d = finitePairs(diagramOfDegree(sets[indices[r]], degree), infinite);
+    const d = finitePairs(diagramOfChannel(sets[indices[r]], slot), infinite);
     finite.push(d);
     total += d.births.length;
   }
@@ -343,9 +412,17 @@ export function applyStandardization(m: Matrix, means: Float64Array, scales: Flo
   }
 }
 
-/** Parses a landscape feature name such as `H1/L2/t=0.1250`; undefined when it is not one. */
+/**
+ * Parses a landscape feature name such as `H1/L2/t=0.1250` or `height:1:0/H1/L2/t=0.1250`; undefined when it
+ * is not one.
+ */
 export function parseLandscapeFeatureName(name: string): FeatureLocation | undefined {
-  const m = /^H(\d+)\/L(\d+)\/t=(-?[0-9.]+(?:e[+-]?\d+)?)$/.exec(name);
+  const m = /^(?:(.+)\/)?H(\d+)\/L(\d+)\/t=(-?[0-9.]+(?:e[+-]?\d+)?)$/.exec(name);
   if (!m) return undefined;
-  return { degree: Number(m[1]), layer: Number(m[2]), t: Number(m[3]) };
+  return {
+    degree: Number(m[2]),
+    ...(m[1] !== undefined ? { filtration: m[1] } : {}),
+    layer: Number(m[3]),
+    t: Number(m[4]),
+  };
 }

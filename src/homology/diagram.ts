@@ -106,6 +106,11 @@ export function diagramOfChannel(set: DiagramSet, channel: Channel): Diagram {
   return channel.filtration === undefined ? empty : { ...empty, filtration: channel.filtration };
 }
 
+/** A degree alone is the untagged channel of that degree. */
+export function asChannel(slot: number | Channel): Channel {
+  return typeof slot === 'number' ? { degree: slot } : slot;
+}
+
 /** 'H1' for an untagged channel, 'height:1:0/H1' for a tagged one: the prefix of feature names. */
 export function channelName(channel: Channel): string {
   return channel.filtration === undefined ? `H${channel.degree}` : `${channel.filtration}/H${channel.degree}`;

@@ -114,7 +114,7 @@ export interface FoldOutcome {
   /** Inner-CV score of the chosen combination. */
   innerScore: number;
   /** The vectoriser's grids learned from this fold's training samples (landscape and combined). */
-  grids?: Array<{ degree: number; grid: Grid }>;
+  grids?: Array<{ degree: number; filtration?: string; grid: Grid }>;
   /** Names of the features in this fold, in column order. */
   featureNames: string[];
   /**
@@ -300,6 +300,7 @@ export async function runEvaluation(
               ? {
                   grids: extractor.landscape.state.grids.map((g) => ({
                     degree: g.degree,
+                    ...(g.filtration !== undefined ? { filtration: g.filtration } : {}),
                     grid: { ...g.grid },
                   })),
                 }

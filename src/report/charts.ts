@@ -1,5 +1,5 @@
 import type { TopLevelSpec } from 'vega-lite';
-import type { Diagram } from '../homology/diagram.js';
+import { asChannel, type Channel, type Diagram } from '../homology/diagram.js';
 import type { SampledBand } from './bands.js';
 import {
   CATEGORY_COLOURS,
@@ -219,15 +219,18 @@ export function confusionChart(
   } as ChartSpec;
 }
 
-/** The degree's name in words, for titles. */
-export function degreeName(degree: number): string {
-  return degree === 0
-    ? 'H0 · connected pieces'
-    : degree === 1
-      ? 'H1 · loops'
-      : degree === 2
-        ? 'H2 · voids'
-        : `H${degree}`;
+/** The degree's (or channel's) name in words, for titles: 'H1 · loops', 'erosion · H1 · loops'. */
+export function degreeName(slot: number | Channel): string {
+  const { degree, filtration } = asChannel(slot);
+  const words =
+    degree === 0
+      ? 'H0 · connected pieces'
+      : degree === 1
+        ? 'H1 · loops'
+        : degree === 2
+          ? 'H2 · voids'
+          : `H${degree}`;
+  return filtration === undefined ? words : `${filtration} · ${words}`;
 }
 
 /** A colour scale that gives each class the same colour in every chart of the page. */
@@ -243,7 +246,7 @@ function classColour(classes: readonly string[]): Record<string, unknown> {
  * `layers` layers, side by side), classes told apart by colour (the same colour for a class on the whole page).
  */
 export function meanBandChart(
-  degree: number,
+  degree: number | Channel,
   classes: ReadonlyArray<{ label: string; band: SampledBand }>,
   layers = 3,
   maxPoints = 120,
@@ -309,6 +312,8 @@ export function meanBandChart(
 
 export interface WeightCurve {
   degree: number;
+  /** The filtration of the curve's channel, when samples were filtered several ways. */
+  filtration?: string;
   layer: number;
   t: ArrayLike<number>;
   value: ArrayLike<number>;
@@ -316,15 +321,16 @@ export interface WeightCurve {
 
 /** A discriminative map for one degree: signed curves on the landscape's own axis, one per layer. */
 export function weightMapChart(
-  degree: number,
+  degree: number | Channel,
   curves: readonly WeightCurve[],
   yTitle: string,
   title?: string,
 ): ChartSpec {
-  const layers = [...new Set(curves.filter((c) => c.degree === degree).map((c) => `λ${c.layer}`))];
+  const channel = asChannel(degree);
+  const mine = curves.filter((c) => c.degree === channel.degree && c.filtration === channel.filtration);
+  const layers = [...new Set(mine.map((c) => `λ${c.layer}`))];
   const values: Array<Record<string, unknown>> = [];
-  for (const c of curves) {
-    if (c.degree !== degree) continue;
+  for (const c of mine) {
     const keep = thinned(c.t.length, 160);
     for (const j of keep) values.push({ layer: `λ${c.layer}`, t: round(c.t[j]), value: round(c.value[j]) });
   }

@@ -1,4 +1,4 @@
-import type { DiagramSet, InfinitePolicy } from '../homology/diagram.js';
+import { channelName, channelsOf, type DiagramSet, type InfinitePolicy } from '../homology/diagram.js';
 import { classesOf } from '../io/dataset.js';
 import { classStacks, sharedGrid } from './means.js';
 import { type ContrastTest, contrastAll, DEFAULT_PERMUTATION_OPTIONS } from './permutation.js';
@@ -7,7 +7,8 @@ import { type ContrastTest, contrastAll, DEFAULT_PERMUTATION_OPTIONS } from './p
  * `contrast`: for every pair of classes and every degree, a permutation test of equal mean landscapes
  * (see permutation.ts), with Holm's correction over the whole family — every pair × every degree of one run.
  * Landscapes are sampled on one grid per degree spanning every sample's finite pairs, so the Lp distance of
- * the means is integrated (trapezoid rule) on that grid.
+ * the means is integrated (trapezoid rule) on that grid. When samples were filtered several ways, each
+ * filtration's degree is its own channel (own grid, own tests) and Holm's family spans all of them.
  */
 export interface ContrastOptions {
   /** Homology degrees. Default [1]. */
@@ -37,7 +38,7 @@ export interface ContrastResult {
   classes: string[];
   tests: ContrastTest[];
   /** The grid of each degree. */
-  grids: Array<{ degree: number; start: number; stop: number; count: number }>;
+  grids: Array<{ degree: number; filtration?: string; start: number; stop: number; count: number }>;
 }
 
 export function contrastDiagrams(sets: readonly DiagramSet[], options: ContrastOptions = {}): ContrastResult {
@@ -45,16 +46,16 @@ export function contrastDiagrams(sets: readonly DiagramSet[], options: ContrastO
   const depth = options.depth ?? DEFAULT_CONTRAST_OPTIONS.depth;
   const gridCount = options.gridCount ?? DEFAULT_CONTRAST_OPTIONS.gridCount;
   const infinite = options.infinite ?? { mode: 'drop' };
-  const grids = degrees.map((degree) => ({ degree, ...sharedGrid(sets, degree, gridCount, infinite) }));
+  const grids = channelsOf(sets, degrees).map((channel) => ({
+    ...channel,
+    ...sharedGrid(sets, channel, gridCount, infinite),
+  }));
   const stacks = grids.map((g) => ({
     degree: g.degree,
-    classes: classStacks(
-      sets,
-      g.degree,
-      { start: g.start, stop: g.stop, count: g.count },
-      depth,
-      infinite,
-    ).map(({ label, stack }) => ({ label, stack })),
+    ...(g.filtration !== undefined ? { filtration: g.filtration } : {}),
+    classes: classStacks(sets, g, { start: g.start, stop: g.stop, count: g.count }, depth, infinite).map(
+      ({ label, stack }) => ({ label, stack }),
+    ),
   }));
   const tests = contrastAll(stacks, {
     permutations: options.permutations,
@@ -76,6 +77,7 @@ export function contrastJson(result: ContrastResult, extra: Record<string, unkno
     a: t.a,
     b: t.b,
     degree: t.degree,
+    ...(t.filtration !== undefined ? { filtration: t.filtration } : {}),
     statistic: num(t.statistic),
     p: num(t.p),
     pAdjusted: num(t.pAdjusted),
@@ -87,7 +89,7 @@ export function contrastJson(result: ContrastResult, extra: Record<string, unkno
 export function contrastText(result: ContrastResult, permutations: number): string {
   const header = ['degree', 'class a', 'class b', 'n a', 'n b', 'distance', 'p', 'p (Holm)', ''];
   const rows = result.tests.map((t) => [
-    `H${t.degree}`,
+    channelName(t),
     t.a,
     t.b,
     String(t.sizes[0]),

@@ -1,4 +1,4 @@
-import type { Diagram } from '../homology/diagram.js';
+import { type Channel, channelName, type Diagram } from '../homology/diagram.js';
 import type { SampledBand } from './bands.js';
 import {
   type AccuracyRow,
@@ -44,7 +44,12 @@ export interface DatasetReport {
     matrix: readonly (readonly number[])[];
   }>;
   /** Per degree: each class's mean landscape with its band (all on one grid). */
-  means: ReadonlyArray<{ degree: number; classes: ReadonlyArray<{ label: string; band: SampledBand }> }>;
+  means: ReadonlyArray<{
+    degree: number;
+    /** The filtration of the channel, when samples were filtered several ways. */
+    filtration?: string;
+    classes: ReadonlyArray<{ label: string; band: SampledBand }>;
+  }>;
   contrasts: readonly ContrastTest[];
   /** Contrast settings for the caption. */
   contrastNote?: string;
@@ -53,7 +58,13 @@ export interface DatasetReport {
     weights?: { curves: readonly WeightCurve[]; note: string };
     importance?: { rows: readonly ImportanceRow[]; note: string };
   };
-  examples: ReadonlyArray<{ label: string; sample: string; diagrams: readonly Diagram[] }>;
+  /** One sample per class; with several filtrations, its diagrams under the first one (named in `filtration`). */
+  examples: ReadonlyArray<{
+    label: string;
+    sample: string;
+    filtration?: string;
+    diagrams: readonly Diagram[];
+  }>;
   /** Honest remarks about this dataset's results (e.g. where the raw baseline wins). */
   findings?: readonly string[];
 }
@@ -203,11 +214,11 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
   if (ds.means.length > 0) {
     const charts: string[] = [];
     for (const m of ds.means) {
-      const svg = await renderSvg(meanBandChart(m.degree, m.classes, 4));
+      const svg = await renderSvg(meanBandChart(m, m.classes, 4));
       const first = m.classes[0]?.band;
       const caption = first
-        ? `H${m.degree}: mean landscape per class with a ${Math.round(first.level * 100)}% simultaneous band (multiplier bootstrap, ${first.draws} draws, ${first.scope === 'layer' ? 'one band per layer' : 'one band over all layers'}).`
-        : `H${m.degree}`;
+        ? `${escapeHtml(channelName(m))}: mean landscape per class with a ${Math.round(first.level * 100)}% simultaneous band (multiplier bootstrap, ${first.draws} draws, ${first.scope === 'layer' ? 'one band per layer' : 'one band over all layers'}).`
+        : escapeHtml(channelName(m));
       charts.push(figure(svg, caption, 'mean'));
     }
     pieces.push(
@@ -226,7 +237,7 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
     const rows = ds.contrasts
       .map(
         (t) =>
-          `<tr${t.pAdjusted <= 0.05 ? ' class="sig"' : ''}><td>H${t.degree}</td><td>${escapeHtml(t.a)}</td><td>${escapeHtml(t.b)}</td>` +
+          `<tr${t.pAdjusted <= 0.05 ? ' class="sig"' : ''}><td>${escapeHtml(channelName(t))}</td><td>${escapeHtml(t.a)}</td><td>${escapeHtml(t.b)}</td>` +
           `<td class="num">${t.sizes[0]} / ${t.sizes[1]}</td><td class="num">${fixed(t.statistic, 4)}</td><td class="num">${pValue(t.p)}</td><td class="num">${pValue(t.pAdjusted)}</td>` +
           `<td>${t.pAdjusted <= 0.05 ? 'differ' : 'no evidence'}</td></tr>`,
       )
@@ -245,9 +256,19 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
   // Discriminative maps.
   const maps: string[] = [];
   if (ds.maps?.weights && ds.maps.weights.curves.length > 0) {
-    const degrees = [...new Set(ds.maps.weights.curves.map((c) => c.degree))].sort((a, b) => a - b);
-    for (const degree of degrees) {
-      const svg = await renderSvg(weightMapChart(degree, ds.maps.weights.curves, 'standardised weight'));
+    // One chart per channel, in the curves' order (filtration-major, then degree).
+    const seen = new Set<string>();
+    const channels: Channel[] = [];
+    for (const c of ds.maps.weights.curves) {
+      const key = channelName(c);
+      if (seen.has(key)) continue;
+      seen.add(key);
+      channels.push(
+        c.filtration === undefined ? { degree: c.degree } : { degree: c.degree, filtration: c.filtration },
+      );
+    }
+    for (const channel of channels) {
+      const svg = await renderSvg(weightMapChart(channel, ds.maps.weights.curves, 'standardised weight'));
       maps.push(figure(svg, escapeHtml(ds.maps.weights.note), 'map'));
     }
   }
@@ -272,7 +293,8 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
     const charts: string[] = [];
     for (const e of ds.examples) {
       const svg = await renderSvg(diagramChart(e.diagrams, `${e.label}`));
-      charts.push(figure(svg, `sample ${escapeHtml(e.sample)}`, 'diagram'));
+      const under = e.filtration === undefined ? '' : ` · ${escapeHtml(e.filtration)}`;
+      charts.push(figure(svg, `sample ${escapeHtml(e.sample)}${under}`, 'diagram'));
     }
     pieces.push(
       part(

@@ -1,4 +1,5 @@
 import { Random } from '../core/random.js';
+import { channelName } from '../homology/diagram.js';
 import type { Matrix } from '../learn/matrix.js';
 import type { WeightCurve } from './charts.js';
 
@@ -14,6 +15,8 @@ import type { WeightCurve } from './charts.js';
  */
 export interface FeatureLocation {
   degree: number;
+  /** The filtration of the feature's channel, when samples were filtered several ways. */
+  filtration?: string;
   /** 1-based layer. */
   layer: number;
   t: number;
@@ -29,24 +32,29 @@ export function weightCurves(
 ): WeightCurve[] {
   if (weights.length !== locations.length)
     throw new Error(`weightCurves: ${weights.length} weights for ${locations.length} features`);
-  const groups = new Map<string, { degree: number; layer: number; points: Array<[number, number]> }>();
+  const groups = new Map<
+    string,
+    { degree: number; filtration?: string; layer: number; points: Array<[number, number]> }
+  >();
+  const order = filtrationOrder(locations);
   for (let j = 0; j < locations.length; j++) {
     const at = locations[j];
     if (!at) continue;
-    const key = `${at.degree}/${at.layer}`;
+    const key = `${at.filtration ?? ''}/${at.degree}/${at.layer}`;
     let g = groups.get(key);
     if (!g) {
-      g = { degree: at.degree, layer: at.layer, points: [] };
+      g = { degree: at.degree, filtration: at.filtration, layer: at.layer, points: [] };
       groups.set(key, g);
     }
     g.points.push([at.t, weights[j]]);
   }
   return [...groups.values()]
-    .sort((a, b) => a.degree - b.degree || a.layer - b.layer)
+    .sort((a, b) => order(a) - order(b) || a.degree - b.degree || a.layer - b.layer)
     .map((g) => {
       g.points.sort((p, q) => p[0] - q[0]);
       return {
         degree: g.degree,
+        ...(g.filtration !== undefined ? { filtration: g.filtration } : {}),
         layer: g.layer,
         t: Float64Array.from(g.points, (p) => p[0]),
         value: Float64Array.from(g.points, (p) => p[1]),
@@ -73,28 +81,48 @@ export interface FeatureGroup {
   columns: number[];
 }
 
-/** Groups the located columns by degree and layer ("H1 λ2"), in degree then layer order. */
+/**
+ * Groups the located columns by degree and layer ("H1 λ2"; "erosion/H1 λ2" when samples were filtered several
+ * ways), in filtration (first met), degree, then layer order.
+ */
 export function groupsByDegreeLayer(
   locations: ReadonlyArray<FeatureLocation | undefined>,
   rawName = 'raw features',
 ): FeatureGroup[] {
-  const groups = new Map<string, { degree: number; layer: number; columns: number[] }>();
+  const groups = new Map<string, { degree: number; filtration?: string; layer: number; columns: number[] }>();
   const raw: number[] = [];
+  const order = filtrationOrder(locations);
   locations.forEach((at, j) => {
     if (!at) {
       raw.push(j);
       return;
     }
-    const key = `H${at.degree} λ${at.layer}`;
-    const g = groups.get(key) ?? { degree: at.degree, layer: at.layer, columns: [] };
+    const key = `${channelName(at)} λ${at.layer}`;
+    const g = groups.get(key) ?? {
+      degree: at.degree,
+      filtration: at.filtration,
+      layer: at.layer,
+      columns: [],
+    };
     g.columns.push(j);
     groups.set(key, g);
   });
   const out = [...groups.entries()]
-    .sort((a, b) => a[1].degree - b[1].degree || a[1].layer - b[1].layer)
+    .sort((a, b) => order(a[1]) - order(b[1]) || a[1].degree - b[1].degree || a[1].layer - b[1].layer)
     .map(([name, g]) => ({ name, columns: g.columns }));
   if (raw.length > 0) out.push({ name: rawName, columns: raw });
   return out;
+}
+
+/** Ranks filtrations in the order their first column appears (untagged first). */
+function filtrationOrder(
+  locations: ReadonlyArray<FeatureLocation | undefined>,
+): (x: { filtration?: string }) => number {
+  const rank = new Map<string, number>();
+  for (const at of locations) {
+    if (at?.filtration !== undefined && !rank.has(at.filtration)) rank.set(at.filtration, rank.size + 1);
+  }
+  return (x) => (x.filtration === undefined ? 0 : (rank.get(x.filtration) ?? rank.size + 1));
 }
 
 export interface ImportanceOptions {

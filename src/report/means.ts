@@ -1,4 +1,12 @@
-import { type DiagramSet, diagramOfDegree, finitePairs, type InfinitePolicy } from '../homology/diagram.js';
+import {
+  asChannel,
+  type Channel,
+  channelsOf,
+  type DiagramSet,
+  diagramOfChannel,
+  finitePairs,
+  type InfinitePolicy,
+} from '../homology/diagram.js';
 import { classesOf } from '../io/dataset.js';
 import {
   coveringGrid,
@@ -43,38 +51,45 @@ export interface ClassMean {
   exact?: ExactLandscape;
 }
 
+/** The class means of one channel: a degree, or one filtration's degree when samples were filtered several ways. */
 export interface DegreeMeans {
   degree: number;
+  filtration?: string;
   grid: Grid;
   classes: ClassMean[];
 }
 
-/** The grid of `count` points spanning the finite pairs of degree `degree` in every set ([0, 1] when there are none). */
+/**
+ * The grid of `count` points spanning the finite pairs of one degree (or channel) in every set ([0, 1] when
+ * there are none).
+ */
 export function sharedGrid(
   sets: readonly DiagramSet[],
-  degree: number,
+  slot: number | Channel,
   count: number,
   infinite: InfinitePolicy = { mode: 'drop' },
 ): Grid {
-  const diagrams = sets.map((s) => finitePairs(diagramOfDegree(s, degree), infinite));
+  const channel = asChannel(slot);
+  const diagrams = sets.map((s) => finitePairs(diagramOfChannel(s, channel), infinite));
   return coveringGrid(diagrams, count) ?? { start: 0, stop: 1, count };
 }
 
-/** Per class (sorted labels), the stack of sampled landscapes of one degree on `grid`. */
+/** Per class (sorted labels), the stack of sampled landscapes of one degree (or channel) on `grid`. */
 export function classStacks(
   sets: readonly DiagramSet[],
-  degree: number,
+  slot: number | Channel,
   grid: Grid,
   depth: number,
   infinite: InfinitePolicy = { mode: 'drop' },
 ): Array<{ label: string; stack: LandscapeStack; members: DiagramSet[] }> {
   const width = depth * grid.count;
+  const channel = asChannel(slot);
   return classesOf(sets).map((label) => {
     const members = sets.filter((s) => s.label === label);
     const values = new Float64Array(members.length * width);
     for (let i = 0; i < members.length; i++) {
       sampleLandscape(
-        finitePairs(diagramOfDegree(members[i], degree), infinite),
+        finitePairs(diagramOfChannel(members[i], channel), infinite),
         grid,
         depth,
         values,
@@ -91,9 +106,10 @@ export function classMeans(sets: readonly DiagramSet[], options: ClassMeansOptio
   const gridCount = options.gridCount ?? DEFAULT_CLASS_MEANS_OPTIONS.gridCount;
   const infinite = options.infinite ?? { mode: 'drop' };
   const exact = options.exact ?? DEFAULT_CLASS_MEANS_OPTIONS.exact;
-  return degrees.map((degree) => {
-    const grid = sharedGrid(sets, degree, gridCount, infinite);
-    const classes = classStacks(sets, degree, grid, depth, infinite).map(({ label, stack, members }) => ({
+  // One entry per channel: per degree, or per filtration and degree when the samples were filtered several ways.
+  return channelsOf(sets, degrees).map((channel) => {
+    const grid = sharedGrid(sets, channel, gridCount, infinite);
+    const classes = classStacks(sets, channel, grid, depth, infinite).map(({ label, stack, members }) => ({
       label,
       samples: stack.samples,
       band: multiplierBand(stack, options.band),
@@ -101,12 +117,12 @@ export function classMeans(sets: readonly DiagramSet[], options: ClassMeansOptio
         ? {
             exact: meanLandscape(
               members.map((m) =>
-                exactLandscape(finitePairs(diagramOfDegree(m, degree), infinite), { maxDepth: depth }),
+                exactLandscape(finitePairs(diagramOfChannel(m, channel), infinite), { maxDepth: depth }),
               ),
             ),
           }
         : {}),
     }));
-    return { degree, grid, classes };
+    return { ...channel, grid, classes };
   });
 }

@@ -204,6 +204,8 @@ export interface ContrastTest {
   a: string;
   b: string;
   degree: number;
+  /** The filtration of the test's channel, when samples were filtered several ways. */
+  filtration?: string;
   statistic: number;
   p: number;
   pAdjusted: number;
@@ -218,19 +220,29 @@ export interface ContrastTest {
  * degree does not change the other tests' relabellings.
  */
 export function contrastAll(
-  stacks: ReadonlyArray<{ degree: number; classes: ReadonlyArray<{ label: string; stack: LandscapeStack }> }>,
+  stacks: ReadonlyArray<{
+    degree: number;
+    filtration?: string;
+    classes: ReadonlyArray<{ label: string; stack: LandscapeStack }>;
+  }>,
   options: PermutationOptions = {},
 ): ContrastTest[] {
   const seed = options.seed ?? DEFAULT_PERMUTATION_OPTIONS.seed;
   const jobs: Array<{
     degree: number;
+    filtration?: string;
     a: { label: string; stack: LandscapeStack };
     b: { label: string; stack: LandscapeStack };
   }> = [];
   for (const d of stacks) {
     for (let i = 0; i < d.classes.length; i++) {
       for (let j = i + 1; j < d.classes.length; j++)
-        jobs.push({ degree: d.degree, a: d.classes[i], b: d.classes[j] });
+        jobs.push({
+          degree: d.degree,
+          ...(d.filtration !== undefined ? { filtration: d.filtration } : {}),
+          a: d.classes[i],
+          b: d.classes[j],
+        });
     }
   }
   const permutations = options.permutations ?? DEFAULT_PERMUTATION_OPTIONS.permutations;
@@ -249,6 +261,7 @@ export function contrastAll(
     a: job.a.label,
     b: job.b.label,
     degree: job.degree,
+    ...(job.filtration !== undefined ? { filtration: job.filtration } : {}),
     statistic: raw[index].statistic,
     p: raw[index].p,
     pAdjusted: adjusted[index],

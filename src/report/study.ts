@@ -7,7 +7,7 @@ import {
 } from '../features/landscape-vectorizer.js';
 import type { RawFeaturesOptions } from '../features/raw-features.js';
 import type { DiagramOptions } from '../homology/compute.js';
-import type { DiagramSet, InfinitePolicy } from '../homology/diagram.js';
+import { channelName, type DiagramSet, type InfinitePolicy } from '../homology/diagram.js';
 import { classesOf, type Dataset, type SampleKind } from '../io/dataset.js';
 import type { Hyperparameters, ModelName } from '../learn/classifier.js';
 import type { EvaluationResult, StudyResult } from '../learn/evaluate.js';
@@ -172,7 +172,7 @@ export async function discriminativeMaps(
   samples: Dataset['samples'],
   evaluation: EvaluationResult,
   landscape: LandscapeVectorizerOptions,
-  axes: ReadonlyArray<{ degree: number; t: Float64Array }>,
+  axes: ReadonlyArray<{ degree: number; filtration?: string; t: Float64Array }>,
   options: { repeats: number; seed: number },
 ): Promise<DatasetReport['maps']> {
   const chosenResult = best(evaluation.results, 'landscape');
@@ -181,7 +181,10 @@ export async function discriminativeMaps(
   const y = evaluation.labels;
   const classCount = evaluation.classes.length;
   const data = { samples, diagrams: sets };
-  const sums = new Map<string, { degree: number; layer: number; t: Float64Array; sum: Float64Array }>();
+  const sums = new Map<
+    string,
+    { degree: number; filtration?: string; layer: number; t: Float64Array; sum: Float64Array }
+  >();
   let weightFolds = 0;
   let signed = true;
   const importanceByGroup = new Map<string, number[]>();
@@ -224,11 +227,12 @@ export async function discriminativeMaps(
         const combined = combinePairWeights(scaled);
         signed = combined.signed;
         for (const curve of weightCurves(combined.values, locations)) {
-          const axis = axes.find((a) => a.degree === curve.degree);
+          const axis = axes.find((a) => a.degree === curve.degree && a.filtration === curve.filtration);
           if (!axis) continue;
-          const key = `${curve.degree}/${curve.layer}`;
+          const key = `${curve.filtration ?? ''}/${curve.degree}/${curve.layer}`;
           const entry = sums.get(key) ?? {
             degree: curve.degree,
+            ...(curve.filtration !== undefined ? { filtration: curve.filtration } : {}),
             layer: curve.layer,
             t: axis.t,
             sum: new Float64Array(axis.t.length),
@@ -257,11 +261,17 @@ export async function discriminativeMaps(
       model.dispose();
     }
   }
+  // Map order is the features' channel order (filtration-major), so only degree and layer are sorted within.
+  const channelRank = new Map<string, number>();
+  for (const c of sums.values())
+    if (!channelRank.has(c.filtration ?? '')) channelRank.set(c.filtration ?? '', channelRank.size);
+  const rankOf = (c: { filtration?: string }) => channelRank.get(c.filtration ?? '') ?? 0;
   const curves: WeightCurve[] = [...sums.values()]
-    .sort((a, b) => a.degree - b.degree || a.layer - b.layer)
+    .sort((a, b) => rankOf(a) - rankOf(b) || a.degree - b.degree || a.layer - b.layer)
     .filter((c) => c.layer <= 4)
     .map((c) => ({
       degree: c.degree,
+      ...(c.filtration !== undefined ? { filtration: c.filtration } : {}),
       layer: c.layer,
       t: c.t,
       value: c.sum.map((v) => v / Math.max(1, weightFolds)),
@@ -335,7 +345,7 @@ export function findingsOf(evaluation: EvaluationResult, contrasts: readonly Con
         (differ.length > 0
           ? ` (${differ
               .slice(0, 4)
-              .map((t) => `H${t.degree} ${t.a} vs ${t.b}`)
+              .map((t) => `${channelName(t)} ${t.a} vs ${t.b}`)
               .join('; ')}${differ.length > 4 ? '; …' : ''}).`
           : '.'),
     );
@@ -387,7 +397,7 @@ export async function buildDatasetReport(
     const t = new Float64Array(m.grid.count);
     for (let j = 0; j < m.grid.count; j++)
       t[j] = m.grid.start + (j * (m.grid.stop - m.grid.start)) / (m.grid.count - 1);
-    return { degree: m.degree, t };
+    return { degree: m.degree, ...(m.filtration !== undefined ? { filtration: m.filtration } : {}), t };
   });
   const maps = !shaped
     ? undefined
@@ -400,7 +410,11 @@ export async function buildDatasetReport(
     ? []
     : classes.map((label) => {
         const set = diagrams.find((d) => d.label === label) ?? diagrams[0];
-        return { label, sample: set.sample, diagrams: set.diagrams };
+        // With several filtrations, the first one's diagrams (a chart of all of them would mix scales).
+        const filtration = set.diagrams.find((d) => d.filtration !== undefined)?.filtration;
+        if (filtration === undefined) return { label, sample: set.sample, diagrams: set.diagrams };
+        const shown = set.diagrams.filter((d) => d.filtration === filtration);
+        return { label, sample: set.sample, filtration, diagrams: shown };
       });
   const report: DatasetReport = {
     name: input.name,
@@ -442,6 +456,7 @@ export async function buildDatasetReport(
     })),
     means: means.map((m) => ({
       degree: m.degree,
+      ...(m.filtration !== undefined ? { filtration: m.filtration } : {}),
       classes: m.classes.map((c) => ({ label: c.label, band: c.band })),
     })),
     contrasts: contrast.tests,

@@ -117,3 +117,68 @@ describe('LandscapeVectorizer', () => {
     expect([...d.fitTransform(sets).data]).toEqual([0, 0, 0]);
   });
 });
+
+describe('LandscapeVectorizer with several filtrations (channels)', () => {
+  /** Two samples' worth of diagrams from filtrations A and B, tagged as the homology stage tags them. */
+  function tagged(a: DiagramSet, b: DiagramSet): DiagramSet {
+    return {
+      sample: a.sample,
+      label: a.label,
+      diagrams: [
+        ...a.diagrams.map((d) => ({ ...d, filtration: 'height:1:0' })),
+        ...b.diagrams.map((d) => ({ ...d, filtration: 'erosion' })),
+      ],
+    };
+  }
+
+  it('gives each filtration its own grid from the training rows and equals one vectoriser per filtration', () => {
+    const a = randomSets(12, 3);
+    const b = randomSets(12, 4, 5); // a filtration on another scale: its grid must not be A's
+    const both = a.map((s, i) => tagged(s, b[i]));
+    const train = Int32Array.from([0, 1, 2, 3, 4, 5, 6, 7]);
+    const options = { degrees: [0, 1], depth: 2, gridSize: 6 };
+    const v = new LandscapeVectorizer(options).fit(both, train);
+    const va = new LandscapeVectorizer(options).fit(a, train);
+    const vb = new LandscapeVectorizer(options).fit(b, train);
+    expect(v.channels()).toEqual([
+      { degree: 0, filtration: 'height:1:0' },
+      { degree: 1, filtration: 'height:1:0' },
+      { degree: 0, filtration: 'erosion' },
+      { degree: 1, filtration: 'erosion' },
+    ]);
+    expect(v.state?.grids.map((g) => g.grid)).toEqual([
+      ...(va.state?.grids.map((g) => g.grid) ?? []),
+      ...(vb.state?.grids.map((g) => g.grid) ?? []),
+    ]);
+    const test = Int32Array.from([8, 9, 10, 11]);
+    const m = v.transform(both, test);
+    const ma = va.transform(a, test);
+    const mb = vb.transform(b, test);
+    expect(m.cols).toBe(ma.cols + mb.cols);
+    for (let r = 0; r < test.length; r++) {
+      expect(Array.from(m.data.subarray(r * m.cols, r * m.cols + ma.cols))).toEqual(
+        Array.from(ma.data.subarray(r * ma.cols, (r + 1) * ma.cols)),
+      );
+      expect(Array.from(m.data.subarray(r * m.cols + ma.cols, (r + 1) * m.cols))).toEqual(
+        Array.from(mb.data.subarray(r * mb.cols, (r + 1) * mb.cols)),
+      );
+    }
+    // Names say the filtration, parse back, and the JSON round trip keeps the channels.
+    const names = v.featureNames();
+    expect(names[0]).toMatch(/^height:1:0\/H0\/L1\/t=/);
+    expect(names[names.length - 1]).toMatch(/^erosion\/H1\/L2\/t=/);
+    const last = parseLandscapeFeatureName(names[names.length - 1]);
+    expect(last).toMatchObject({ filtration: 'erosion', degree: 1, layer: 2 });
+    expect(v.locate(names.length - 1)).toMatchObject({ filtration: 'erosion', degree: 1, layer: 2 });
+    expect(v.locate(names.length - 1).t).toBeCloseTo(last?.t ?? Number.NaN, 3);
+    const back = LandscapeVectorizer.fromJSON(JSON.parse(JSON.stringify(v.toJSON())));
+    expect(Array.from(back.transform(both, test).data)).toEqual(Array.from(m.data));
+  });
+
+  it('refuses samples filtered in a way it was not fitted on', () => {
+    const a = randomSets(4, 5);
+    const v = new LandscapeVectorizer({ degrees: [0, 1], depth: 1, gridSize: 3 }).fit(a);
+    const other = a.map((s) => tagged(s, s));
+    expect(() => v.transform(other)).toThrow(/filtration 'height:1:0'.*same --filtration/);
+  });
+});

@@ -53,3 +53,38 @@ describe('contrastDiagrams', () => {
     expect(text).toContain('no adjusted p can fall below 0.0040');
   });
 });
+
+describe('contrastDiagrams with several filtrations', () => {
+  it('tests every filtration × degree as its own channel, Holm-corrected as one family', () => {
+    // Filtration 'first' is the sets as they are (H1 differs); 'second' repeats their H0 diagrams only.
+    const base = sets();
+    const tagged: DiagramSet[] = base.map((s) => ({
+      ...s,
+      diagrams: [
+        ...s.diagrams.map((d) => ({ ...d, filtration: 'first' })),
+        { ...s.diagrams[0], filtration: 'second' },
+      ],
+    }));
+    const result = contrastDiagrams(tagged, { degrees: [0, 1], permutations: 199, gridCount: 60 });
+    expect(result.grids.map((g) => `${g.filtration}/${g.degree}`)).toEqual([
+      'first/0',
+      'first/1',
+      'second/0',
+      'second/1',
+    ]);
+    const plain = contrastDiagrams(base, { degrees: [0, 1], permutations: 199, gridCount: 60 });
+    // The first filtration's statistics are the untagged ones (same grid, same stacks).
+    expect(result.tests[0].statistic).toBe(plain.tests[0].statistic);
+    expect(result.tests[1].statistic).toBe(plain.tests[1].statistic);
+    // The second filtration's H0 is the same diagrams as the first's: same statistic; its H1 is empty.
+    expect(result.tests[2].statistic).toBe(plain.tests[0].statistic);
+    expect(result.tests[3].statistic).toBe(0);
+    // Holm 1979 over four tests: the smallest p is multiplied by 4.
+    const ps = result.tests.map((t) => t.p);
+    const smallest = ps.indexOf(Math.min(...ps));
+    expect(result.tests[smallest].pAdjusted).toBeCloseTo(Math.min(1, 4 * ps[smallest]), 12);
+    expect(contrastText(result, 199)).toContain('second/H1');
+    const json = JSON.parse(contrastJson(result)) as { tests: Array<Record<string, unknown>> };
+    expect(json.tests[2]).toMatchObject({ degree: 0, filtration: 'second' });
+  });
+});
