@@ -1,16 +1,17 @@
 import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
 import { provenance } from '../../core/version.js';
-import { type Diagram, diagramOfDegree, finitePairs, parseInfinitePolicy } from '../../homology/diagram.js';
+import { type Diagram, diagramOfChannel, finitePairs, parseInfinitePolicy } from '../../homology/diagram.js';
 import { type DiagramMetric, distanceMatrix } from '../../homology/distance.js';
 import { csvField, csvNumber } from '../../io/csv.js';
 import { readDiagramCsv } from '../../io/diagram-csv.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
 import { startProgress } from '../progress.js';
-import { chooseDegree } from './landscape.js';
+import { chooseChannel } from './landscape.js';
 
 interface DistanceOptions {
   degree?: string;
+  from?: string;
   metric: string;
   infinite: string;
   out?: string;
@@ -46,6 +47,7 @@ export function defineDistance(program: Command): Command {
     .argument('<a.csv>', 'diagram CSV with the header sample,label,degree,birth,death')
     .argument('[b.csv]', 'a second diagram CSV: rows are the samples of a, columns those of b')
     .option('--degree <n>', 'homology degree (default: 1 if the file has it, else the lowest)')
+    .option('--from <filtration>', "which filtration's diagrams, when the files hold several (e.g. erosion)")
     .option('--metric <metric>', "'bottleneck', 'wasserstein' (order 2) or 'wasserstein:P'", 'bottleneck')
     .option(
       '--infinite <policy>',
@@ -77,11 +79,12 @@ Example:
       }
       const setsA = readDiagramCsv(fileA);
       const setsB = fileB === undefined ? setsA : readDiagramCsv(fileB);
-      const degree = chooseDegree(setsA, options.degree, fileA);
-      if (fileB !== undefined) chooseDegree(setsB, String(degree), fileB);
+      const channel = chooseChannel(setsA, options.degree, options.from, fileA);
+      const { degree } = channel;
+      if (fileB !== undefined) chooseChannel(setsB, String(degree), options.from, fileB);
       const prepare = (d: Diagram): Diagram => (policy === undefined ? d : finitePairs(d, policy));
-      const rowsA = setsA.map((s) => prepare(diagramOfDegree(s, degree)));
-      const rowsB = fileB === undefined ? rowsA : setsB.map((s) => prepare(diagramOfDegree(s, degree)));
+      const rowsA = setsA.map((s) => prepare(diagramOfChannel(s, channel)));
+      const rowsB = fileB === undefined ? rowsA : setsB.map((s) => prepare(diagramOfChannel(s, channel)));
       const n = rowsA.length;
       const m = rowsB.length;
       const symmetric = fileB === undefined;
@@ -115,6 +118,7 @@ Example:
             a: fileA,
             b: fileB ?? null,
             degree,
+            ...(channel.filtration !== undefined ? { filtration: channel.filtration } : {}),
             metric: describeMetric(metric),
             infinite: options.infinite,
           }),

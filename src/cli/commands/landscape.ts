@@ -2,10 +2,11 @@ import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
 import { provenance } from '../../core/version.js';
 import {
+  type Channel,
   type Diagram,
   type DiagramSet,
   describeInfinitePolicy,
-  diagramOfDegree,
+  diagramOfChannel,
   finitePairs,
   type InfinitePolicy,
 } from '../../homology/diagram.js';
@@ -26,6 +27,7 @@ import { parseChoiceOption, parseGridOption, parseInfiniteOption, parseIntegerOp
 interface LandscapeOptions {
   sample?: string;
   degree?: string;
+  from?: string;
   depth: string;
   grid?: string;
   exact?: boolean;
@@ -51,6 +53,10 @@ export function defineLandscape(program: Command): Command {
     .argument('<diagrams.csv>', 'diagram CSV with the header sample,label,degree,birth,death')
     .option('--sample <id>', 'only this sample (default: every sample, one JSON object per line)')
     .option('--degree <n>', 'homology degree (default: 1 if the file has it, else the lowest)')
+    .option(
+      '--from <filtration>',
+      "which filtration's diagrams, when the file holds several (e.g. height:1:0)",
+    )
     .option('--depth <k>', 'number of layers λ1..λK', String(DEFAULT_DEPTH))
     .option(
       '--grid <start:stop:count>',
@@ -84,8 +90,9 @@ Example:
       }
       let grid: Grid | undefined = options.grid === undefined ? undefined : parseGridOption(options.grid);
       const sets = selectSamples(readDiagramCsv(file), options.sample, file);
-      const degree = chooseDegree(sets, options.degree, file);
-      const diagrams = sets.map((set) => diagramOfDegree(set, degree));
+      const channel = chooseChannel(sets, options.degree, options.from, file);
+      const { degree } = channel;
+      const diagrams = sets.map((set) => diagramOfChannel(set, channel));
       const finite = diagrams.map((d) => finitePairs(d, policy));
       if (!options.exact && grid === undefined) {
         grid = coveringGrid(finite, DEFAULT_GRID_COUNT);
@@ -100,6 +107,7 @@ Example:
         input: file,
         sample: options.sample ?? null,
         degree,
+        ...(channel.filtration !== undefined ? { filtration: channel.filtration } : {}),
         depth,
         grid: grid ?? null,
         exact: options.exact === true,
@@ -153,9 +161,46 @@ export function selectSamples(sets: DiagramSet[], sample: string | undefined, fi
   return [found];
 }
 
+/**
+ * The channel a single-degree command reads: `--from F` names the filtration when the file's diagrams are
+ * tagged with several (refused when they are not; required when they are), then `chooseDegree` among F's.
+ */
+export function chooseChannel(
+  sets: readonly DiagramSet[],
+  degreeText: string | undefined,
+  fromText: string | undefined,
+  file: string,
+): Channel {
+  const tags: string[] = [];
+  for (const set of sets) {
+    for (const d of set.diagrams)
+      if (d.filtration !== undefined && !tags.includes(d.filtration)) tags.push(d.filtration);
+  }
+  if (tags.length === 0) {
+    if (fromText !== undefined) {
+      throw new UserError(
+        `--from ${fromText}: the file's diagrams come from one filtration and carry no filtration names; drop --from`,
+        { file },
+      );
+    }
+    return { degree: chooseDegree(sets, degreeText, file) };
+  }
+  if (fromText === undefined) {
+    throw new UserError(
+      `the file holds diagrams of ${tags.length} filtrations (${tags.join(', ')}); choose one with --from`,
+      { file },
+    );
+  }
+  if (!tags.includes(fromText)) {
+    throw new UserError(`--from ${fromText} is not in the file; it has ${tags.join(', ')}`, { file });
+  }
+  const only = sets.map((s) => ({ ...s, diagrams: s.diagrams.filter((d) => d.filtration === fromText) }));
+  return { degree: chooseDegree(only, degreeText, file), filtration: fromText };
+}
+
 /** `--degree N` checked against the file's degrees, or 1 when the file has it, else the lowest degree present. */
 export function chooseDegree(sets: readonly DiagramSet[], text: string | undefined, file: string): number {
-  const present = sets.length > 0 ? sets[0].diagrams.map((d) => d.degree) : [];
+  const present = sets.length > 0 ? [...new Set(sets[0].diagrams.map((d) => d.degree))] : [];
   if (text === undefined) {
     if (present.includes(1)) return 1;
     if (present.length === 0) throw new UserError('no diagrams in the file', { file });
