@@ -120,6 +120,7 @@ export function defineContrast(program: Command): Command {
         degrees,
         ...(choice.filtration === 'rips' ? {} : { filtration: choice.filtration }),
         ...(choice.subsample === undefined ? {} : { subsample: choice.subsample }),
+        ...(choice.threshold === undefined ? {} : { threshold: choice.threshold }),
         ...(flags.maxScale === undefined
           ? {}
           : { maxScale: parseNumberOption(flags.maxScale, '--max-scale', { positive: true }) }),

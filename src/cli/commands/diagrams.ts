@@ -24,6 +24,7 @@ interface DiagramsCommandOptions {
   quiet?: boolean;
   filtration?: string;
   subsample?: string;
+  threshold?: string;
   shard?: string;
   force?: boolean;
   format?: string;
@@ -126,6 +127,7 @@ Example:
         throw new UserError('has no samples; nothing to compute', { file: input });
       const computeOptions: DiagramOptions = { degrees, metric, filtration: choice.filtration };
       if (choice.subsample !== undefined) computeOptions.subsample = choice.subsample;
+      if (choice.threshold !== undefined) computeOptions.threshold = choice.threshold;
       if (maxScale !== undefined) computeOptions.maxScale = maxScale;
       if (embed !== undefined) computeOptions.embed = embed;
       if (options.superlevel) computeOptions.superlevel = true;

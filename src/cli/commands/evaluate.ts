@@ -10,6 +10,7 @@ import {
 import type { LandscapeVectorizerOptions } from '../../features/landscape-vectorizer.js';
 import type { DiagramOptions } from '../../homology/compute.js';
 import type { DiagramSet } from '../../homology/diagram.js';
+import { filtrationList } from '../../homology/filtration.js';
 import { METRICS, type Metric } from '../../homology/metric.js';
 import { writeFilesAtomic } from '../../io/atomic.js';
 import type { Dataset, SampleKind } from '../../io/dataset.js';
@@ -48,6 +49,7 @@ export interface StudyCommandOptions {
   quiet?: boolean;
   filtration?: string;
   subsample?: string;
+  threshold?: string;
 }
 
 /** Adds the options that say how diagrams are computed (shared by evaluate, train, vectorize). */
@@ -107,6 +109,7 @@ export function parseDiagramOptions(
     | 'workers'
     | 'filtration'
     | 'subsample'
+    | 'threshold'
   >,
 ): ParsedDiagramOptions {
   const degrees = parseDegreesOption(o.degrees, '--degrees', 2);
@@ -123,6 +126,7 @@ export function parseDiagramOptions(
   const choice = parseFiltrationOptions(o);
   if (choice.filtration !== 'rips') diagramOptions.filtration = choice.filtration;
   if (choice.subsample !== undefined) diagramOptions.subsample = choice.subsample;
+  if (choice.threshold !== undefined) diagramOptions.threshold = choice.threshold;
   return {
     degrees,
     diagramOptions,
@@ -141,8 +145,9 @@ export function diagramRecord(kind: SampleKind, d: DiagramOptions): Record<strin
     embed: d.embed ?? null,
     superlevel: d.superlevel === true,
     ...filtrationRecord({
-      filtration: d.filtration ?? 'rips',
+      filtration: d.filtration === undefined ? 'rips' : [...filtrationList(d.filtration)],
       ...(d.subsample ? { subsample: d.subsample } : {}),
+      ...(d.threshold !== undefined ? { threshold: d.threshold } : {}),
     }),
   };
 }
