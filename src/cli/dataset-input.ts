@@ -7,13 +7,18 @@ import { startProgress } from './progress.js';
  */
 export async function loadInput(
   path: string,
-  options: { kind?: string; quiet?: boolean; label?: string },
+  options: { kind?: string; shape?: string; quiet?: boolean; label?: string },
 ): Promise<Dataset> {
-  const { loadDataset, parseKind } = await import('../io/load.js');
+  const { loadDataset, parseKind, parseShape } = await import('../io/load.js');
   const kind: SampleKind | undefined = options.kind === undefined ? undefined : parseKind(options.kind);
+  const shape = options.shape === undefined ? undefined : parseShape(options.shape);
   const progress = await startProgress(options.label ?? 'loading', 1, options.quiet === true);
   try {
-    return await loadDataset(path, { kind, onProgress: (done, total) => progress.update(done, total) });
+    return await loadDataset(path, {
+      kind,
+      ...(shape !== undefined ? { shape } : {}),
+      onProgress: (done, total) => progress.update(done, total),
+    });
   } finally {
     progress.stop();
   }

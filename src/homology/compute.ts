@@ -5,10 +5,15 @@ import { type Diagram, type DiagramSet, emptyDiagram } from './diagram.js';
 import {
   checkFiltrationApplies,
   cloudFiltrationDiagrams,
+  describeSampleFiltration,
   type Filtration,
+  filtrationList,
+  isImageFiltration,
   matrixFiltrationDiagrams,
+  type SampleFiltration,
   subsampleForFiltration,
 } from './filtration.js';
+import { filteredImage, IMAGE_FILTRATION_CHOICES } from './image-filtration.js';
 import { condenseMatrix, type Metric } from './metric.js';
 import { cloudRipsPersistence, ripsPersistence } from './rips.js';
 import { type DelayEmbedding, delayEmbedding, signalPersistence } from './signal.js';
@@ -26,23 +31,77 @@ export interface DiagramOptions {
   embed?: DelayEmbedding;
   /** Superlevel instead of sublevel sets for images and signals (default false); reported on the negated scale. */
   superlevel?: boolean;
-  /** Filtration of clouds and distance matrices (default 'rips'); dtm:K and alpha values are radii (filtration.ts). */
-  filtration?: Filtration;
+  /**
+   * The filtration, or a list of them (default 'rips' for clouds and matrices, 'grey' for images): cloud
+   * filtrations (rips, dtm:K, alpha; values of dtm:K and alpha are radii, filtration.ts) or image filtrations
+   * (image-filtration.ts). With two or more, every diagram is tagged with its filtration's canonical text and
+   * the set holds, per filtration in the order given, one diagram per degree ascending; with one, diagrams
+   * stay untagged.
+   */
+  filtration?: SampleFiltration | readonly SampleFiltration[];
+  /** Images: foreground is value ≥ threshold for the binarised filtrations (default: Otsu's per image). */
+  threshold?: number;
   /** Landmarks kept per cloud or matrix before the filtration (default: every point). */
   subsample?: SubsampleSpec;
 }
 
-/** The diagrams of one sample, one per requested degree in increasing order. */
+/**
+ * The diagrams of one sample, one per requested degree in increasing order — per filtration, tagged, when
+ * `options.filtration` lists several (see `DiagramOptions.filtration`).
+ */
 export function computeDiagrams(
   sample: Sample,
   options: DiagramOptions,
 ): DiagramSet & { coveringRadius?: number } {
   const degrees = checkDegrees(options.degrees);
+  const list = filtrationList(options.filtration);
+  const covering = (r: number | undefined) => (r !== undefined ? { coveringRadius: r } : {});
+  if (list.length <= 1) {
+    const one = diagramsOf(sample, list[0], false, degrees, options);
+    return {
+      sample: sample.id,
+      label: sample.label,
+      diagrams: degrees.map((d) => one.diagrams.find((x) => x.degree === d) ?? emptyDiagram(d)),
+      ...covering(one.coveringRadius),
+    };
+  }
+  const diagrams: Diagram[] = [];
+  let coveringRadius: number | undefined;
+  for (const f of list) {
+    const one = diagramsOf(sample, f, true, degrees, options);
+    if (one.coveringRadius !== undefined) coveringRadius = Math.max(coveringRadius ?? 0, one.coveringRadius);
+    const filtration = describeSampleFiltration(f);
+    for (const d of degrees) {
+      const found = one.diagrams.find((x) => x.degree === d) ?? emptyDiagram(d);
+      diagrams.push({ degree: d, births: found.births, deaths: found.deaths, filtration });
+    }
+  }
+  return { sample: sample.id, label: sample.label, diagrams, ...covering(coveringRadius) };
+}
+
+/** One sample under one filtration (`inList`: one of several, where 'rips' does not stand for 'grey'). */
+function diagramsOf(
+  sample: Sample,
+  filtration: SampleFiltration | undefined,
+  inList: boolean,
+  degrees: number[],
+  options: DiagramOptions,
+): { diagrams: Diagram[]; coveringRadius?: number } {
   const maxDegree = degrees[degrees.length - 1];
   let diagrams: Diagram[];
   let coveringRadius: number | undefined;
-  if (sample.kind === 'image' || (sample.kind === 'signal' && !options.embed))
-    checkFiltrationApplies(sample.kind, options.filtration, sample.id, options.subsample);
+  if (sample.kind === 'signal' && !options.embed)
+    checkFiltrationApplies(sample.kind, filtration, sample.id, options.subsample);
+  if (sample.kind === 'image') checkFiltrationApplies(sample.kind, undefined, sample.id, options.subsample);
+  if (
+    filtration !== undefined &&
+    isImageFiltration(filtration) &&
+    sample.kind !== 'image' &&
+    sample.kind !== 'diagrams'
+  ) {
+    checkFiltrationApplies(sample.kind, filtration, sample.id);
+  }
+  const cloudFiltration = filtration as Filtration | undefined;
   switch (sample.kind) {
     case 'points': {
       const cut = subsampleForFiltration(sample, options.subsample);
@@ -52,6 +111,7 @@ export function computeDiagrams(
         cut.sample.count,
         cut.sample.dim,
         maxDegree,
+        cloudFiltration,
         options,
         sample.id,
       );
@@ -62,15 +122,15 @@ export function computeDiagrams(
       const cut = subsampleForFiltration(sample, options.subsample);
       coveringRadius = cut.coveringRadius;
       const { matrix, size } = cut.sample;
-      const filtration = options.filtration ?? 'rips';
+      const chosen = cloudFiltration ?? 'rips';
       diagrams =
-        filtration === 'rips'
+        chosen === 'rips'
           ? ripsPersistence(size, condenseMatrix(matrix, size), {
               maxDegree: maxDegree as 0 | 1 | 2,
               maxScale: options.maxScale,
             })
           : matrixFiltrationDiagrams(matrix, size, {
-              filtration,
+              filtration: chosen,
               maxDegree,
               maxScale: options.maxScale,
               id: sample.id,
@@ -87,6 +147,7 @@ export function computeDiagrams(
           cut.sample.count,
           cut.sample.dim,
           maxDegree,
+          cloudFiltration,
           options,
           sample.id,
         );
@@ -106,10 +167,18 @@ export function computeDiagrams(
           `sample '${sample.id}': an image with ${axes} axes has degrees 0 to ${axes - 1}; lower --degrees`,
         );
       }
-      diagrams = cubicalPersistence(sample.values, sample.shape, {
-        superlevel: options.superlevel,
-        maxDegree,
+      const chosen: SampleFiltration =
+        filtration === undefined || (filtration === 'rips' && !inList) ? { kind: 'grey' } : filtration;
+      if (!isImageFiltration(chosen)) {
+        throw new UserError(
+          `sample '${sample.id}' is an image; --filtration ${describeSampleFiltration(chosen)} applies to point clouds and distance matrices — for images choose ${IMAGE_FILTRATION_CHOICES}`,
+        );
+      }
+      const values = filteredImage(sample.values, sample.shape, chosen, {
+        ...(options.threshold !== undefined ? { threshold: options.threshold } : {}),
+        ...(options.superlevel ? { superlevel: true } : {}),
       });
+      diagrams = cubicalPersistence(values, sample.shape, { maxDegree });
       break;
     }
     case 'diagrams':
@@ -120,12 +189,7 @@ export function computeDiagrams(
         `sample '${sample.id}' is a table of features; it has no shape to compute diagrams of`,
       );
   }
-  return {
-    sample: sample.id,
-    label: sample.label,
-    diagrams: degrees.map((d) => diagrams.find((x) => x.degree === d) ?? emptyDiagram(d)),
-    ...(coveringRadius !== undefined ? { coveringRadius } : {}),
-  };
+  return { diagrams, ...(coveringRadius !== undefined ? { coveringRadius } : {}) };
 }
 
 /** Point clouds (and embedded signals): the filtration branch lives here. */
@@ -134,6 +198,7 @@ function cloudDiagrams(
   count: number,
   dim: number,
   maxDegree: number,
+  chosen: Filtration | undefined,
   options: DiagramOptions,
   id = '',
 ): Diagram[] {
@@ -144,7 +209,7 @@ function cloudDiagrams(
       );
     }
   }
-  const filtration = options.filtration ?? 'rips';
+  const filtration = chosen ?? 'rips';
   if (filtration !== 'rips')
     return cloudFiltrationDiagrams(coords, count, dim, {
       filtration,

@@ -4,12 +4,22 @@
  *   dtm:K    distance-to-measure weighted Rips, p = 1, K neighbours (dtm.ts); values are radii;
  *   alpha    the alpha (= Čech) filtration of planar clouds (alpha.ts); values are radii.
  * `computeDiagrams` (compute.ts) calls in here for anything but plain Rips and for `subsample`.
+ *
+ * Images have their own filtrations (image-filtration.ts). `--filtration` takes a comma-separated list of
+ * either family (`SampleFiltration`); with several, each sample's diagrams are computed once per filtration
+ * and tagged with its canonical text (`describeSampleFiltration`).
  */
 import { UserError } from '../core/errors.js';
 import type { DistanceSample, PointSample } from '../io/dataset.js';
 import { alphaDimensionError, alphaPersistence } from './alpha.js';
 import { type Diagram, emptyDiagram } from './diagram.js';
 import { dtmPersistence, dtmPersistenceFromMatrix, dtmProblem } from './dtm.js';
+import {
+  describeImageFiltration,
+  IMAGE_FILTRATION_CHOICES,
+  type ImageFiltration,
+  parseImageFiltration,
+} from './image-filtration.js';
 import type { Metric } from './metric.js';
 import { type SubsampleSpec, subsampleSample } from './subsample.js';
 
@@ -28,6 +38,55 @@ export function parseFiltration(text: string): Filtration | undefined {
 
 export function describeFiltration(f: Filtration): string {
   return typeof f === 'string' ? f : `dtm:${f.k}`;
+}
+
+/** A filtration of either family: clouds and matrices (`Filtration`) or images (`ImageFiltration`). */
+export type SampleFiltration = Filtration | ImageFiltration;
+
+export function isImageFiltration(f: SampleFiltration): f is ImageFiltration {
+  return typeof f === 'object' && f.kind !== 'dtm';
+}
+
+/** The canonical text of either family's filtration: the tag of its diagrams. */
+export function describeSampleFiltration(f: SampleFiltration): string {
+  return isImageFiltration(f) ? describeImageFiltration(f) : describeFiltration(f);
+}
+
+/**
+ * Parses a comma-separated list of filtrations (`rips`, `dtm:K`, `alpha`, or image filtrations and their
+ * presets, which expand in place), in the order given. Throws a UserError for an unknown or repeated item.
+ */
+export function parseFiltrationList(text: string, option = '--filtration'): SampleFiltration[] {
+  const items = text.split(',').map((s) => s.trim());
+  const out: SampleFiltration[] = [];
+  const seen = new Set<string>();
+  for (const item of items) {
+    if (item === '')
+      throw new UserError(`${option} '${text}' has an empty item; separate filtrations by single commas`);
+    const found: SampleFiltration[] | undefined =
+      parseImageFiltration(item) ?? ((f) => (f === undefined ? undefined : [f]))(parseFiltration(item));
+    if (found === undefined) {
+      throw new UserError(
+        `${option} '${item}' is not known; choose ${FILTRATION_CHOICES} for clouds and matrices, or for images ${IMAGE_FILTRATION_CHOICES}`,
+      );
+    }
+    for (const f of found) {
+      const tag = describeSampleFiltration(f);
+      if (seen.has(tag))
+        throw new UserError(`${option} '${text}' names ${tag} twice; give each filtration once`);
+      seen.add(tag);
+      out.push(f);
+    }
+  }
+  return out;
+}
+
+/** The filtrations of a `DiagramOptions.filtration` value (one, a list, or none) as a list. */
+export function filtrationList(
+  spec: SampleFiltration | readonly SampleFiltration[] | undefined,
+): SampleFiltration[] {
+  if (spec === undefined) return [];
+  return Array.isArray(spec) ? [...spec] : [spec as SampleFiltration];
 }
 
 export interface FiltrationRun {
@@ -87,10 +146,13 @@ export function matrixFiltrationDiagrams(matrix: Float64Array, size: number, run
   });
 }
 
-/** Refuses a non-Rips filtration or landmarks for samples that are not clouds or matrices (images, bare signals). */
+/**
+ * Refuses landmarks for samples that are not clouds or matrices (images, bare signals), and any filtration
+ * but Rips for them; image filtrations are checked in compute.ts.
+ */
 export function checkFiltrationApplies(
   kind: string,
-  filtration: Filtration | undefined,
+  filtration: SampleFiltration | undefined,
   id: string,
   subsample?: SubsampleSpec,
 ): void {
@@ -100,6 +162,11 @@ export function checkFiltrationApplies(
     );
   }
   if (filtration === undefined || filtration === 'rips') return;
+  if (isImageFiltration(filtration)) {
+    throw new UserError(
+      `sample '${id}' is a ${kind}; --filtration ${describeImageFiltration(filtration)} applies to images only; drop it for this dataset`,
+    );
+  }
   throw new UserError(
     `sample '${id}' is a ${kind}; --filtration ${describeFiltration(filtration)} applies to point clouds (and signals with --embed) and distance matrices only; drop it for this dataset`,
   );

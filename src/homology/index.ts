@@ -11,7 +11,27 @@ export {
   wassersteinDistance,
 } from './distance.js';
 export { type DtmOptions, dtmEdgeValue, dtmPersistence, dtmPersistenceFromMatrix, dtmValues } from './dtm.js';
-export { describeFiltration, type Filtration, parseFiltration } from './filtration.js';
+export {
+  describeFiltration,
+  describeSampleFiltration,
+  type Filtration,
+  filtrationList,
+  isImageFiltration,
+  parseFiltration,
+  parseFiltrationList,
+  type SampleFiltration,
+} from './filtration.js';
+export {
+  binarise,
+  type CentreCoordinate,
+  describeImageFiltration,
+  distanceTransform,
+  filteredImage,
+  type ImageFiltration,
+  type ImageFiltrationOptions,
+  otsuThreshold,
+  parseImageFiltration,
+} from './image-filtration.js';
 export { condenseMatrix, METRICS, type Metric, pairwiseDistances } from './metric.js';
 export { type NeighbourTable, nearestNeighbours } from './nearest.js';
 export {

@@ -1,8 +1,14 @@
 import { readFileSync } from 'node:fs';
 import { UserError } from '../core/errors.js';
 import type { Provenance } from '../core/version.js';
-import type { Diagram, DiagramSet } from '../homology/diagram.js';
+import type { DiagramSet } from '../homology/diagram.js';
 import type { Dataset, DiagramSample, TableSample } from './dataset.js';
+import {
+  DiagramCollector,
+  diagramsInFileOrder,
+  FILTRATION_COLUMN,
+  hasFiltrationTags,
+} from './diagram-csv.js';
 import type { FeatureTable } from './feature-table.js';
 import { writeWithProvenance } from './provenance-file.js';
 
@@ -10,9 +16,10 @@ import { writeWithProvenance } from './provenance-file.js';
  * Apache Arrow IPC files (the "file" format: magic `ARROW1`, schema, record batches, footer), which Python
  * (pyarrow), R (arrow) and Spark read directly. Two layouts:
  *
- *   diagrams: one row per persistence pair — sample: utf8, label: utf8, degree: int32, birth: float64,
- *             death: float64 (+Infinity for an essential class); rows in the order of the diagram CSV
- *             (samples in order, degrees ascending, pairs in stored order).
+ *   diagrams: one row per persistence pair — sample: utf8, label: utf8, [filtration: utf8,] degree: int32,
+ *             birth: float64, death: float64 (+Infinity for an essential class); rows in the order of the
+ *             diagram CSV (samples in order, then `diagramsInFileOrder`, pairs in stored order). The
+ *             filtration column is there only when diagrams carry filtration tags ('' = untagged).
  *   table:    one row per sample — sample: utf8, label: utf8, then one float64 column per feature name.
  *
  * No column is nullable. The schema's custom metadata carries `landform.kind` (`diagrams` or `table`) and
@@ -77,19 +84,21 @@ export async function formatDiagramArrow(
   const A = await arrow();
   let rows = 0;
   for (const set of sets) for (const d of set.diagrams) rows += d.births.length;
+  const tagged = hasFiltrationTags(sets);
   const samples: string[] = new Array(rows);
   const labels: string[] = new Array(rows);
+  const tags: string[] = tagged ? new Array(rows) : [];
   const degree = new Int32Array(rows);
   const birth = new Float64Array(rows);
   const death = new Float64Array(rows);
   let r = 0;
-  // Invariant: rows [0, r) hold the pairs of the sets and degrees already visited, in CSV order.
+  // Invariant: rows [0, r) hold the pairs of the sets and diagrams already visited, in CSV order.
   for (const set of sets) {
-    const diagrams = [...set.diagrams].sort((a, b) => a.degree - b.degree);
-    for (const d of diagrams) {
+    for (const d of diagramsInFileOrder(set)) {
       for (let i = 0; i < d.births.length; i++, r++) {
         samples[r] = set.sample;
         labels[r] = set.label;
+        if (tagged) tags[r] = d.filtration ?? '';
         degree[r] = d.degree;
         birth[r] = d.births[i];
         death[r] = d.deaths[i];
@@ -101,6 +110,7 @@ export async function formatDiagramArrow(
     [
       { name: 'sample', type: new A.Utf8(), data: utf8(A, samples) },
       { name: 'label', type: new A.Utf8(), data: utf8(A, labels) },
+      ...(tagged ? [{ name: FILTRATION_COLUMN, type: new A.Utf8(), data: utf8(A, tags) }] : []),
       { name: 'degree', type: new A.Int32(), data: A.makeVector(degree).data[0] },
       { name: 'birth', type: new A.Float64(), data: A.makeVector(birth).data[0] },
       { name: 'death', type: new A.Float64(), data: A.makeVector(death).data[0] },
@@ -217,49 +227,18 @@ export async function parseArrow(bytes: Uint8Array, file: string): Promise<Arrow
     const degree = numbers('degree');
     const birth = numbers('birth');
     const death = numbers('death');
-    const order: string[] = [];
-    const bySample = new Map<
-      string,
-      { label: string; byDegree: Map<number, { b: number[]; d: number[] }> }
-    >();
-    const degrees = new Set<number>();
+    const tags = names.includes(FILTRATION_COLUMN) ? text(FILTRATION_COLUMN) : undefined;
+    const collector = new DiagramCollector();
     for (let r = 0; r < table.numRows; r++) {
       if (!(death[r] >= birth[r]) || !Number.isFinite(birth[r])) {
         throw new UserError(`row ${r}: pair (${birth[r]}, ${death[r]}) is not a valid persistence pair`, {
           file,
         });
       }
-      let entry = bySample.get(sample[r]);
-      if (entry === undefined) {
-        entry = { label: label[r], byDegree: new Map() };
-        bySample.set(sample[r], entry);
-        order.push(sample[r]);
-      }
-      let d = entry.byDegree.get(degree[r]);
-      if (d === undefined) {
-        d = { b: [], d: [] };
-        entry.byDegree.set(degree[r], d);
-      }
-      d.b.push(birth[r]);
-      d.d.push(death[r]);
-      degrees.add(degree[r]);
+      const tag = tags === undefined || tags[r] === '' ? undefined : tags[r];
+      collector.add(sample[r], collector.labelOf(sample[r]) ?? label[r], tag, degree[r], birth[r], death[r]);
     }
-    const sorted = [...degrees].sort((a, b) => a - b);
-    const sets = order.map((id): DiagramSet => {
-      const entry = bySample.get(id)!;
-      return {
-        sample: id,
-        label: entry.label,
-        diagrams: sorted.map((degreeValue): Diagram => {
-          const d = entry.byDegree.get(degreeValue);
-          return {
-            degree: degreeValue,
-            births: Float64Array.from(d?.b ?? []),
-            deaths: Float64Array.from(d?.d ?? []),
-          };
-        }),
-      };
-    });
+    const sets = collector.finish();
     return { kind: 'diagrams', sets, provenance };
   }
   const featureNames = names.filter((n) => n !== 'sample' && n !== 'label');

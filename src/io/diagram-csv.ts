@@ -3,22 +3,118 @@ import type { Diagram, DiagramSet } from '../homology/diagram.js';
 import { writeFileAtomic } from './atomic.js';
 import { csvField, csvNumber, parseCsv, parseNumberField, readTextFile, shown } from './csv.js';
 
-/** The diagram CSV layout, a contract other tools read: one persistence pair per row. */
+/**
+ * The diagram CSV layout, a contract other tools read: one persistence pair per row. When a sample was
+ * filtered several ways (its diagrams carry a `filtration` tag), a `filtration` column follows `label`
+ * (`sample,label,filtration,degree,birth,death`); files of untagged diagrams keep the five columns.
+ */
 export const DIAGRAM_CSV_HEADER = ['sample', 'label', 'degree', 'birth', 'death'] as const;
+
+/** The column that holds a diagram's filtration tag (present only when diagrams are tagged). */
+export const FILTRATION_COLUMN = 'filtration';
 
 /** Highest homology degree a diagram file may hold. */
 export const MAX_DIAGRAM_DEGREE = 8;
 
-/** Turns diagram sets into diagram CSV text (samples in order, degrees ascending, pairs in stored order). */
+/** True when any diagram of any set carries a filtration tag (then files get the filtration column). */
+export function hasFiltrationTags(sets: readonly DiagramSet[]): boolean {
+  for (const set of sets) for (const d of set.diagrams) if (d.filtration !== undefined) return true;
+  return false;
+}
+
+/**
+ * A set's diagrams in file order: per filtration tag in the order first met (untagged first), degrees
+ * ascending inside — the order `computeDiagrams` returns (filtration-major).
+ */
+export function diagramsInFileOrder(set: DiagramSet): Diagram[] {
+  const tags: Array<string | undefined> = [undefined];
+  for (const d of set.diagrams) if (!tags.includes(d.filtration)) tags.push(d.filtration);
+  return [...set.diagrams].sort(
+    (a, b) => tags.indexOf(a.filtration) - tags.indexOf(b.filtration) || a.degree - b.degree,
+  );
+}
+
+/**
+ * Gathers pairs row by row into diagram sets: samples in the order of their first row; every sample gets one
+ * diagram per (filtration tag, degree) seen anywhere in the file — tags in first-met order (untagged first),
+ * all degrees ascending inside each — empty where it has no pairs, so all samples share the same channels.
+ */
+export class DiagramCollector {
+  private readonly samples = new Map<
+    string,
+    { label: string; pairs: Map<string, { b: number[]; d: number[] }> }
+  >();
+  private readonly tags: Array<string | undefined> = [];
+  private readonly degrees = new Set<number>();
+
+  /** The label recorded for `sample`, or undefined for a new sample. */
+  labelOf(sample: string): string | undefined {
+    return this.samples.get(sample)?.label;
+  }
+
+  add(
+    sample: string,
+    label: string,
+    tag: string | undefined,
+    degree: number,
+    birth: number,
+    death: number,
+  ): void {
+    let entry = this.samples.get(sample);
+    if (entry === undefined) {
+      entry = { label, pairs: new Map() };
+      this.samples.set(sample, entry);
+    }
+    if (!this.tags.includes(tag)) this.tags.push(tag);
+    this.degrees.add(degree);
+    const key = channelKey(tag, degree);
+    let pairs = entry.pairs.get(key);
+    if (pairs === undefined) {
+      pairs = { b: [], d: [] };
+      entry.pairs.set(key, pairs);
+    }
+    pairs.b.push(birth);
+    pairs.d.push(death);
+  }
+
+  finish(): DiagramSet[] {
+    const tags = [...this.tags].sort((a, b) => (a === undefined ? -1 : b === undefined ? 1 : 0));
+    const degrees = [...this.degrees].sort((a, b) => a - b);
+    return [...this.samples.entries()].map(([sample, entry]) => {
+      const diagrams: Diagram[] = [];
+      for (const tag of tags) {
+        for (const degree of degrees) {
+          const pairs = entry.pairs.get(channelKey(tag, degree));
+          const births = Float64Array.from(pairs?.b ?? []);
+          const deaths = Float64Array.from(pairs?.d ?? []);
+          diagrams.push(
+            tag === undefined ? { degree, births, deaths } : { degree, births, deaths, filtration: tag },
+          );
+        }
+      }
+      return { sample, label: entry.label, diagrams };
+    });
+  }
+}
+
+function channelKey(tag: string | undefined, degree: number): string {
+  return tag === undefined ? `\u0000${degree}` : `${tag}\u0000${degree}`;
+}
+
+/** Turns diagram sets into diagram CSV text (samples in order, then `diagramsInFileOrder`, pairs in stored order). */
 export function formatDiagramCsv(sets: readonly DiagramSet[]): string {
-  const lines: string[] = [DIAGRAM_CSV_HEADER.join(',')];
+  const tagged = hasFiltrationTags(sets);
+  const header = tagged
+    ? ['sample', 'label', FILTRATION_COLUMN, 'degree', 'birth', 'death']
+    : [...DIAGRAM_CSV_HEADER];
+  const lines: string[] = [header.join(',')];
   for (const set of sets) {
     const sample = csvField(set.sample);
     const label = csvField(set.label);
-    const diagrams = [...set.diagrams].sort((a, b) => a.degree - b.degree);
-    for (const d of diagrams) {
+    for (const d of diagramsInFileOrder(set)) {
+      const lead = tagged ? `${sample},${label},${csvField(d.filtration ?? '')}` : `${sample},${label}`;
       for (let i = 0; i < d.births.length; i++) {
-        lines.push(`${sample},${label},${d.degree},${csvNumber(d.births[i])},${csvNumber(d.deaths[i])}`);
+        lines.push(`${lead},${d.degree},${csvNumber(d.births[i])},${csvNumber(d.deaths[i])}`);
       }
     }
   }
@@ -30,8 +126,8 @@ export function writeDiagramCsv(file: string, sets: readonly DiagramSet[]): void
 }
 
 /**
- * Parses diagram CSV text. Samples keep the order of their first row; each sample gets one diagram per degree
- * that appears anywhere in the file (empty where it has no pairs), so all samples share the same degrees.
+ * Parses diagram CSV text (see `DiagramCollector` for the order and shape of the result). An optional
+ * `filtration` column tags each row's diagram; an empty value there means untagged.
  */
 export function parseDiagramCsv(text: string, file: string): DiagramSet[] {
   const rows = parseCsv(text, file);
@@ -60,14 +156,9 @@ export function parseDiagramCsv(text: string, file: string): DiagramSet[] {
   const iDegree = index.get('degree')!;
   const iBirth = index.get('birth')!;
   const iDeath = index.get('death')!;
+  const iFiltration = index.get(FILTRATION_COLUMN);
 
-  interface Builder {
-    sample: string;
-    label: string;
-    byDegree: Map<number, { births: number[]; deaths: number[] }>;
-  }
-  const builders = new Map<string, Builder>();
-  const degrees = new Set<number>();
+  const collector = new DiagramCollector();
   for (let r = 1; r < rows.length; r++) {
     const { line, fields } = rows[r];
     if (fields.length !== header.length) {
@@ -94,38 +185,17 @@ export function parseDiagramCsv(text: string, file: string): DiagramSet[] {
     const death = parseNumberField(fields[iDeath], { file, line, column: 'death' }, { infinite: true });
     if (death < birth)
       throw new UserError(`death ${fields[iDeath]} is before birth ${fields[iBirth]}`, { file, line });
-    let b = builders.get(sample);
-    if (b === undefined) {
-      b = { sample, label, byDegree: new Map() };
-      builders.set(sample, b);
-    } else if (b.label !== label) {
+    const known = collector.labelOf(sample);
+    if (known !== undefined && known !== label) {
       throw new UserError(
-        `sample '${shown(sample)}' has label '${shown(label)}' here but '${shown(b.label)}' earlier`,
+        `sample '${shown(sample)}' has label '${shown(label)}' here but '${shown(known)}' earlier`,
         { file, line },
       );
     }
-    let d = b.byDegree.get(degree);
-    if (d === undefined) {
-      d = { births: [], deaths: [] };
-      b.byDegree.set(degree, d);
-    }
-    d.births.push(birth);
-    d.deaths.push(death);
-    degrees.add(degree);
+    const tag = iFiltration === undefined || fields[iFiltration] === '' ? undefined : fields[iFiltration];
+    collector.add(sample, label, tag, degree, birth, death);
   }
-  const sortedDegrees = [...degrees].sort((a, b) => a - b);
-  return [...builders.values()].map((b) => ({
-    sample: b.sample,
-    label: b.label,
-    diagrams: sortedDegrees.map((degree): Diagram => {
-      const d = b.byDegree.get(degree);
-      return {
-        degree,
-        births: Float64Array.from(d?.births ?? []),
-        deaths: Float64Array.from(d?.deaths ?? []),
-      };
-    }),
-  }));
+  return collector.finish();
 }
 
 export function readDiagramCsv(file: string): DiagramSet[] {

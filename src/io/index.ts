@@ -14,7 +14,11 @@ export { type CsvRow, csvField, csvNumber, parseCsv } from './csv.js';
 export * from './dataset.js';
 export {
   DIAGRAM_CSV_HEADER,
+  DiagramCollector,
+  diagramsInFileOrder,
+  FILTRATION_COLUMN,
   formatDiagramCsv,
+  hasFiltrationTags,
   parseDiagramCsv,
   readDiagramCsv,
   writeDiagramCsv,
@@ -32,7 +36,7 @@ export { DISTANCE_TOLERANCE, distanceFault, loadFolder } from './folder.js';
 export { formatPgm, formatPng, type GrayImage, parsePgm, parsePng } from './image-file.js';
 export { formatJsonOutput, writeJsonOutput } from './json-output.js';
 export { checkInsidePath, LABELS_FILE, type LabelledFile, readLabelsFile } from './labels-file.js';
-export { expectKind, kindFromHeader, type LoadOptions, loadDataset, parseKind } from './load.js';
+export { expectKind, kindFromHeader, type LoadOptions, loadDataset, parseKind, parseShape } from './load.js';
 export {
   chooseFormat,
   formatFromPath,

@@ -6,6 +6,7 @@ import { readTextFile, shown } from './csv.js';
 import type {
   Dataset,
   DiagramSample,
+  ImageSample,
   PointSample,
   Sample,
   SampleKind,
@@ -26,7 +27,8 @@ import { readCsvHeader, readSampleCsv, type SampleCsv } from './sample-csv.js';
  *        some sample id appears on more than one row            → points (one point per row)
  *        every sample id appears once                           → table (one feature row per sample)
  * A wide signal CSV (`sample,label,v1,v2,…`, one row per sample) is read with `kind: 'signal'`; a point
- * cloud file where every cloud has a single point needs `kind: 'points'`. A folder goes to `folder.ts`, a
+ * cloud file where every cloud has a single point needs `kind: 'points'`. An image table (`sample,label`, then
+ * the pixels row-major, one image per row) is read with `shape` (and `kind: 'image'`, which `shape` implies). A folder goes to `folder.ts`, a
  * `.npy` array to `array-file.ts`, an Arrow file (`.arrow`, `.feather`) to `arrow.ts`.
  */
 export interface LoadOptions {
@@ -34,6 +36,22 @@ export interface LoadOptions {
   kind?: SampleKind;
   /** Reports progress as (done, total), in bytes for files and in files for folders. */
   onProgress?: (done: number, total: number) => void;
+  /** The shape of every image of an image table CSV: [rows, columns] or [depth, rows, columns]. */
+  shape?: number[];
+}
+
+/** `28x28` or `DxHxW` (each a whole number ≥ 1) → the shape; a UserError otherwise. */
+export function parseShape(text: string, option = '--shape'): number[] {
+  const t = text.trim();
+  if (!/^\d+(x\d+){1,2}$/i.test(t)) {
+    throw new UserError(
+      `${option} '${shown(text)}' must look like ROWSxCOLUMNS or DEPTHxROWSxCOLUMNS, e.g. 28x28 or 16x32x32`,
+    );
+  }
+  const shape = t.toLowerCase().split('x').map(Number);
+  if (shape.some((n) => n < 1 || n > 1_000_000))
+    throw new UserError(`${option} '${shown(text)}': every size must be from 1 to 1000000`);
+  return shape;
 }
 
 /** Checks a `--kind` value. */
@@ -58,6 +76,12 @@ export async function loadDataset(path: string, options: LoadOptions = {}): Prom
     return loadFolder(path, options);
   }
   const extension = extname(path).toLowerCase();
+  if (options.shape !== undefined && (isFolder || ['.npy', '.arrow', '.feather'].includes(extension))) {
+    throw new UserError(
+      '--shape applies to an image table CSV; a folder or array carries its own shapes — drop --shape',
+      { file: path },
+    );
+  }
   if (extension === '.npy') return loadArrayFile(path, options);
   if (extension === '.arrow' || extension === '.feather') {
     // Arrow IPC files (diagrams or a feature table) carry their kind in the schema (src/io/arrow.ts).
@@ -94,15 +118,32 @@ async function loadCsvFile(file: string, options: LoadOptions): Promise<Dataset>
     });
   }
   const detected = kindFromHeader(first.fields);
-  const kind = options.kind ?? detected;
+  const kind = options.kind ?? (options.shape !== undefined ? 'image' : detected);
   if (kind === 'diagrams') return loadDiagramCsv(file, options);
-  if (kind === 'distances' || kind === 'image') {
+  if (kind === 'distances') {
     throw new UserError(
-      `a ${kind === 'distances' ? 'distances' : 'image'} dataset is a folder of per-sample files with labels.csv, not one CSV; give the folder`,
+      'a distances dataset is a folder of per-sample files with labels.csv, not one CSV; give the folder',
       { file },
     );
   }
+  if (options.shape !== undefined && kind !== 'image') {
+    throw new UserError(
+      `--shape applies to image tables, but the kind is ${kind}; drop --shape or use --kind image`,
+      {
+        file,
+      },
+    );
+  }
+  if (kind === 'image' && options.shape === undefined) {
+    throw new UserError(
+      'an image CSV holds one image per row (sample,label, then the pixels row by row); give its shape with --shape ROWSxCOLUMNS (e.g. 28x28), or give a folder of per-sample files with labels.csv',
+      { file },
+    );
+  }
+  if (kind === 'image')
+    checkImageHeader(first.fields.length - 2, options.shape as number[], file, first.line);
   const csv = await readSampleCsv(file, { onProgress: options.onProgress });
+  if (kind === 'image') return imagesFromCsv(csv, options.shape as number[]);
   const chosen: SampleKind = kind ?? (csv.samples.some((s) => s.rows > 1) ? 'points' : 'table');
   switch (chosen) {
     case 'points':
@@ -157,6 +198,44 @@ function tableFromCsv(csv: SampleCsv): Dataset<TableSample> {
     source: csv.file,
     columns: csv.columns,
     samples: csv.samples.map((s) => ({ kind: 'table', id: s.id, label: s.label, values: s.values })),
+  };
+}
+
+/** Refuses an image table header whose pixel columns do not match the shape (before the rows are read). */
+function checkImageHeader(columns: number, shape: number[], file: string, line: number): void {
+  const pixels = shape.reduce((a, b) => a * b, 1);
+  if (columns !== pixels) {
+    throw new UserError(
+      `has ${columns} pixel columns after sample,label, but --shape ${shape.join('x')} needs ${pixels}; check --shape or the header`,
+      { file, line },
+    );
+  }
+}
+
+/**
+ * An image table: one image per row, its pixels row-major after `sample,label` (for a volume, plane after
+ * plane). The header must have exactly the shape's pixel count of value columns; a row with another count is
+ * refused by the reader with its line.
+ */
+function imagesFromCsv(csv: SampleCsv, shape: number[]): Dataset<ImageSample> {
+  for (const s of csv.samples) {
+    if (s.rows > 1) {
+      throw new UserError(
+        `sample '${shown(s.id)}' appears again (first on line ${s.firstLine}); an image table has one row per image`,
+        { file: csv.file, line: s.secondLine },
+      );
+    }
+  }
+  return {
+    kind: 'image',
+    source: csv.file,
+    samples: csv.samples.map((s) => ({
+      kind: 'image',
+      id: s.id,
+      label: s.label,
+      shape: [...shape],
+      values: s.values,
+    })),
   };
 }
 

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { computeDiagrams } from '../../src/homology/compute.js';
+import { parseFiltrationList } from '../../src/homology/filtration.js';
 import { pairwiseDistances } from '../../src/homology/metric.js';
-import type { DistanceSample, PointSample } from '../../src/io/dataset.js';
+import type { DistanceSample, ImageSample, PointSample } from '../../src/io/dataset.js';
 
 function square(): PointSample {
   // The unit square's corners: H1 born at the side 1, dies at the diagonal √2 (worked by hand).
@@ -84,5 +85,81 @@ describe('computeDiagrams', () => {
   it('refuses degrees outside 0–2 and an empty list', () => {
     expect(() => computeDiagrams(square(), { degrees: [] })).toThrow(/--degrees/);
     expect(() => computeDiagrams(square(), { degrees: [3] })).toThrow(/0, 1, 2/);
+  });
+});
+
+describe('computeDiagrams with several filtrations', () => {
+  // A 5 × 5 image holding a square loop of bright pixels (worked by hand): one component, one loop.
+  const loop: ImageSample = {
+    kind: 'image',
+    id: 'loop',
+    label: 'o',
+    shape: [5, 5],
+    values: Float64Array.from([0, 0, 0, 0, 0, 0, 9, 9, 9, 0, 0, 9, 0, 9, 0, 0, 9, 9, 9, 0, 0, 0, 0, 0, 0]),
+  };
+
+  it('tags every diagram, filtration-major in the order given, degrees ascending inside', () => {
+    const list = parseFiltrationList('height:1:0,grey,distance');
+    const set = computeDiagrams(loop, { degrees: [1, 0], filtration: list });
+    expect(set.diagrams.map((d) => `${d.filtration}/H${d.degree}`)).toEqual([
+      'height:1:0/H0',
+      'height:1:0/H1',
+      'grey/H0',
+      'grey/H1',
+      'distance/H0',
+      'distance/H1',
+    ]);
+    // Each tagged diagram is the single-filtration diagram of that filtration (untagged there).
+    for (const [k, f] of list.entries()) {
+      const alone = computeDiagrams(loop, { degrees: [0, 1], filtration: f });
+      expect(alone.diagrams.every((d) => d.filtration === undefined)).toBe(true);
+      for (const degree of [0, 1]) {
+        const tagged = set.diagrams[2 * k + degree];
+        expect(Array.from(tagged.births)).toEqual(Array.from(alone.diagrams[degree].births));
+        expect(Array.from(tagged.deaths)).toEqual(Array.from(alone.diagrams[degree].deaths));
+      }
+    }
+    // Height downwards: the loop's top row (row 1) is born first; the hole fills with the background,
+    // which enters at max row + 1 = 5.
+    expect(Array.from(set.diagrams[1].births)).toEqual([3]);
+    expect(Array.from(set.diagrams[1].deaths)).toEqual([5]);
+  });
+
+  it("keeps today's untagged grey diagrams for one filtration, and 'rips' alone means grey on images", () => {
+    const plain = computeDiagrams(loop, { degrees: [0, 1] });
+    const rips = computeDiagrams(loop, { degrees: [0, 1], filtration: 'rips' });
+    const grey = computeDiagrams(loop, { degrees: [0, 1], filtration: { kind: 'grey' } });
+    expect(rips).toEqual(plain);
+    expect(grey).toEqual(plain);
+    expect(() =>
+      computeDiagrams(loop, { degrees: [0], filtration: parseFiltrationList('rips,grey') }),
+    ).toThrow(/is an image; --filtration rips applies to point clouds/);
+    expect(() => computeDiagrams(loop, { degrees: [0], filtration: { kind: 'dtm', k: 2 } })).toThrow(
+      /for images choose grey/,
+    );
+  });
+
+  it('applies --threshold to the binarised filtrations only', () => {
+    // Threshold 10 leaves no foreground: the height filtration sees background only (one class at 5); grey
+    // still sees the dark outside and the dark centre, joined when the bright loop enters at 9.
+    const set = computeDiagrams(loop, {
+      degrees: [0],
+      filtration: parseFiltrationList('grey,height:1:0'),
+      threshold: 10,
+    });
+    expect(Array.from(set.diagrams[0].deaths)).toEqual([9, Infinity]);
+    expect(Array.from(set.diagrams[1].births)).toEqual([5]);
+    expect(Array.from(set.diagrams[1].deaths)).toEqual([Infinity]);
+  });
+
+  it('computes clouds under a list of cloud filtrations and refuses image filtrations there', () => {
+    const set = computeDiagrams(square(), { degrees: [1], filtration: parseFiltrationList('rips,alpha') });
+    expect(set.diagrams.map((d) => d.filtration)).toEqual(['rips', 'alpha']);
+    // Rips values are distances, alpha values radii: the square's loop dies at √2 and at √2 / 2.
+    expect(set.diagrams[0].deaths[0]).toBeCloseTo(Math.SQRT2, 12);
+    expect(set.diagrams[1].deaths[0]).toBeCloseTo(Math.SQRT2 / 2, 12);
+    expect(() => computeDiagrams(square(), { degrees: [0], filtration: { kind: 'distance' } })).toThrow(
+      /--filtration distance applies to images only/,
+    );
   });
 });

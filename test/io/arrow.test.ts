@@ -97,6 +97,44 @@ describe('Arrow IPC files', () => {
     expect(readdirSync(dir).sort()).toEqual(['d.arrow', 'd.arrow.provenance.json']);
   });
 
+  it('diagrams tagged by filtration gain a filtration column and read back with their tags', async () => {
+    const tagged: DiagramSet[] = sets.map((set) => ({
+      ...set,
+      diagrams: set.diagrams.flatMap((d) => [
+        { ...d, filtration: 'height:0:1' },
+        { ...d, filtration: 'erosion' },
+      ]),
+    }));
+    const bytes = await formatDiagramArrow(tagged);
+    const A = await import('apache-arrow');
+    const table = A.tableFromIPC(bytes);
+    expect(table.schema.fields.map((f) => f.name)).toEqual([
+      'sample',
+      'label',
+      'filtration',
+      'degree',
+      'birth',
+      'death',
+    ]);
+    const content = await parseArrow(bytes, 't.arrow');
+    if (content.kind !== 'diagrams') throw new Error('expected diagrams');
+    // Every sample gets every (filtration, degree) channel of the file, filtration-major, empty where it has no pairs.
+    expect(content.sets.map((set) => set.sample)).toEqual(['cell-1', 'cell, "2"']);
+    for (const [k, set] of content.sets.entries()) {
+      expect(set.diagrams.map((d) => `${d.filtration}/H${d.degree}`)).toEqual([
+        'height:0:1/H0',
+        'height:0:1/H1',
+        'erosion/H0',
+        'erosion/H1',
+      ]);
+      for (const d of set.diagrams) {
+        const want = tagged[k].diagrams.find((w) => w.filtration === d.filtration && w.degree === d.degree);
+        expect(Array.from(d.births)).toEqual(Array.from(want?.births ?? []));
+        expect(Array.from(d.deaths)).toEqual(Array.from(want?.deaths ?? []));
+      }
+    }
+  });
+
   it('feature tables read back equal through apache-arrow’s reader and ours', async () => {
     const A = await import('apache-arrow');
     const t = A.tableFromIPC(await formatFeatureArrow(table));

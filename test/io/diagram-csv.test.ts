@@ -49,3 +49,55 @@ describe('diagram CSV', () => {
     expect((caught as UserError).describe().startsWith(`bad.csv:${line}: `)).toBe(true);
   });
 });
+
+describe('diagram CSV with filtration tags', () => {
+  const tagged = (degree: number, tag: string, pairs: Array<[number, number]>) => ({
+    ...makeDiagram(degree, pairs),
+    filtration: tag,
+  });
+  const sets = [
+    {
+      sample: 'a',
+      label: 'x',
+      diagrams: [
+        tagged(0, 'height:1:0', [[0, Infinity]]),
+        tagged(1, 'height:1:0', [[2, 5]]),
+        tagged(0, 'radial:50%:50%', [
+          [1, Infinity],
+          [1.5, 2],
+        ]),
+        tagged(1, 'radial:50%:50%', []),
+      ],
+    },
+    {
+      sample: 'b',
+      label: 'y',
+      diagrams: [
+        tagged(0, 'height:1:0', [[3, Infinity]]),
+        tagged(1, 'height:1:0', []),
+        tagged(0, 'radial:50%:50%', [[0.5, Infinity]]),
+        tagged(1, 'radial:50%:50%', [[4, 6]]),
+      ],
+    },
+  ];
+
+  it('adds a filtration column after label, rows filtration-major, and reads the tags back', () => {
+    const text = formatDiagramCsv(sets);
+    expect(text.split('\n').slice(0, 5)).toEqual([
+      'sample,label,filtration,degree,birth,death',
+      'a,x,height:1:0,0,0,inf',
+      'a,x,height:1:0,1,2,5',
+      'a,x,radial:50%:50%,0,1,inf',
+      'a,x,radial:50%:50%,0,1.5,2',
+    ]);
+    const back = parseDiagramCsv(text, 'd.csv');
+    expect(back).toEqual(sets);
+    expect(formatDiagramCsv(back)).toBe(text);
+  });
+
+  it('keeps untagged files at five columns', () => {
+    const plain = [{ sample: 'a', label: 'x', diagrams: [makeDiagram(0, [[0, 1]])] }];
+    expect(formatDiagramCsv(plain).split('\n')[0]).toBe('sample,label,degree,birth,death');
+    expect(parseDiagramCsv(formatDiagramCsv(plain), 'p.csv')[0].diagrams[0].filtration).toBeUndefined();
+  });
+});

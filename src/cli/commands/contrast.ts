@@ -17,6 +17,7 @@ import { startProgress } from '../progress.js';
 
 interface ContrastFlags {
   kind?: string;
+  shape?: string;
   degrees: string;
   depth: string;
   gridCount: string;
@@ -85,6 +86,7 @@ export function defineContrast(program: Command): Command {
     )
     .argument('<dataset>', 'samples file or folder (points, distances, signals, images or diagrams)')
     .option('--kind <kind>', 'sample kind instead of detecting it')
+    .option('--shape <RxC>', 'image table CSV: the shape of every image, ROWSxCOLUMNS or DEPTHxROWSxCOLUMNS')
     .option('--degrees <list>', 'homology degrees to compare', '1')
     .option('--depth <K>', 'landscape layers 1..K', '5')
     .option('--grid-count <N>', 'grid points per degree on which mean landscapes are compared', '200')
@@ -120,6 +122,7 @@ export function defineContrast(program: Command): Command {
         degrees,
         ...(choice.filtration === 'rips' ? {} : { filtration: choice.filtration }),
         ...(choice.subsample === undefined ? {} : { subsample: choice.subsample }),
+        ...(choice.threshold === undefined ? {} : { threshold: choice.threshold }),
         ...(flags.maxScale === undefined
           ? {}
           : { maxScale: parseNumberOption(flags.maxScale, '--max-scale', { positive: true }) }),
@@ -137,7 +140,11 @@ export function defineContrast(program: Command): Command {
       };
       const { loadInput } = await import('../dataset-input.js');
       const { classesOf } = await import('../../io/dataset.js');
-      const dataset = await loadInput(path, { kind: flags.kind, quiet: flags.quiet === true });
+      const dataset = await loadInput(path, {
+        kind: flags.kind,
+        ...(flags.shape !== undefined ? { shape: flags.shape } : {}),
+        quiet: flags.quiet === true,
+      });
       const classes = classesOf(dataset.samples);
       if (classes.length < 2) {
         throw new UserError(

@@ -7,7 +7,7 @@ import { METRICS, type Metric } from '../../homology/metric.js';
 import { computeDiagramsParallel, startDiagramWorkers } from '../../homology/parallel.js';
 import type { DelayEmbedding } from '../../homology/signal.js';
 import type { SampleKind } from '../../io/dataset.js';
-import { expectKind, loadDataset, parseKind } from '../../io/load.js';
+import { expectKind, loadDataset, parseKind, parseShape } from '../../io/load.js';
 import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
 import { parseChoiceOption, parseDegreesOption, parseIntegerOption, parseNumberOption } from '../options.js';
 import { startProgress } from '../progress.js';
@@ -24,6 +24,8 @@ interface DiagramsCommandOptions {
   quiet?: boolean;
   filtration?: string;
   subsample?: string;
+  threshold?: string;
+  shape?: string;
   shard?: string;
   force?: boolean;
   format?: string;
@@ -63,6 +65,10 @@ export function defineDiagrams(program: Command): Command {
       'dataset: points CSV (sample,label,x,y,…), long signal CSV (sample,label,value), or any format the loader reads',
     )
     .option('--kind <kind>', `sample kind: ${INPUT_KINDS.join(', ')} (default: detected from the file)`)
+    .option(
+      '--shape <RxC>',
+      'image table CSV (sample,label, then the pixels row by row): the shape of every image, e.g. 28x28 or DEPTHxROWSxCOLUMNS',
+    )
     .option('--degrees <list>', 'homology degrees, from 0, 1, 2', '0,1')
     .option('--max-scale <r>', 'largest Rips scale kept; classes alive there get death inf (default: none)')
     .option('--metric <name>', `distance between points: ${METRICS.join(', ')}`, 'euclidean')
@@ -84,12 +90,14 @@ export function defineDiagrams(program: Command): Command {
       'after',
       `
 Output: sample,label,degree,birth,death — one row per pair with death > birth; essential classes have
-death inf. Superlevel diagrams are the sublevel diagrams of −values: a bright class born at 200 that dies
+death inf. With several filtrations (--filtration a,b,…) a filtration column follows label and rows go
+filtration by filtration, in the order given. Superlevel diagrams are the sublevel diagrams of −values: a bright class born at 200 that dies
 at 50 reads birth −200, death −50, so death ≥ birth holds in every file.
 
 Example:
   landform diagrams lattice-clouds.csv --degrees 0,1 --out lattice-diagrams.csv
-  landform diagrams pump-vibration.csv --embed 3:5 --degrees 0,1 --max-scale 2 --out pump-diagrams.csv`,
+  landform diagrams pump-vibration.csv --embed 3:5 --degrees 0,1 --max-scale 2 --out pump-diagrams.csv
+  landform diagrams parts.csv --shape 28x28 --filtration heights:8,radials:3,distance --out parts-diagrams.csv`,
     )
     .action(async (input: string, options: DiagramsCommandOptions) => {
       // Milliseconds since the process started, at the end of each stage.
@@ -115,7 +123,12 @@ Example:
       }
       // The worker threads start while the data loads (about 0.1 s each, on the cores loading leaves idle).
       if (workers > 1) void startDiagramWorkers(workers - 1);
-      const dataset = expectKind(await loadDataset(input, { kind }), INPUT_KINDS, 'landform diagrams');
+      const shape = options.shape === undefined ? undefined : parseShape(options.shape);
+      const dataset = expectKind(
+        await loadDataset(input, { kind, ...(shape !== undefined ? { shape } : {}) }),
+        INPUT_KINDS,
+        'landform diagrams',
+      );
       if (embed !== undefined && dataset.kind !== 'signal') {
         throw new UserError(
           `--embed applies to signals, but this is a ${dataset.kind} dataset; drop --embed`,
@@ -126,6 +139,7 @@ Example:
         throw new UserError('has no samples; nothing to compute', { file: input });
       const computeOptions: DiagramOptions = { degrees, metric, filtration: choice.filtration };
       if (choice.subsample !== undefined) computeOptions.subsample = choice.subsample;
+      if (choice.threshold !== undefined) computeOptions.threshold = choice.threshold;
       if (maxScale !== undefined) computeOptions.maxScale = maxScale;
       if (embed !== undefined) computeOptions.embed = embed;
       if (options.superlevel) computeOptions.superlevel = true;
@@ -140,6 +154,7 @@ Example:
         maxScale: maxScale ?? null,
         embed: embed ?? null,
         superlevel: options.superlevel === true,
+        ...(shape !== undefined ? { shape } : {}),
         samples: dataset.samples.length,
       };
       const plan = planShard({

@@ -10,10 +10,11 @@ import {
 import type { LandscapeVectorizerOptions } from '../../features/landscape-vectorizer.js';
 import type { DiagramOptions } from '../../homology/compute.js';
 import type { DiagramSet } from '../../homology/diagram.js';
+import { filtrationList } from '../../homology/filtration.js';
 import { METRICS, type Metric } from '../../homology/metric.js';
 import { writeFilesAtomic } from '../../io/atomic.js';
 import type { Dataset, SampleKind } from '../../io/dataset.js';
-import { loadDataset, parseKind } from '../../io/load.js';
+import { loadDataset, parseKind, parseShape } from '../../io/load.js';
 import { MODEL_NAMES, type ModelName } from '../../learn/classifier.js';
 import type { EvaluationOptions } from '../../learn/evaluate.js';
 import type { LandscapeCandidate } from '../../learn/select.js';
@@ -48,12 +49,15 @@ export interface StudyCommandOptions {
   quiet?: boolean;
   filtration?: string;
   subsample?: string;
+  threshold?: string;
+  shape?: string;
 }
 
 /** Adds the options that say how diagrams are computed (shared by evaluate, train, vectorize). */
 export function addDiagramOptions(command: Command): Command {
   return addFiltrationOptions(command)
     .option('--kind <kind>', 'sample kind (default: detected from the input)')
+    .option('--shape <RxC>', 'image table CSV: the shape of every image, ROWSxCOLUMNS or DEPTHxROWSxCOLUMNS')
     .option('--degrees <list>', 'homology degrees for the diagrams and landscapes, from 0, 1, 2', '0,1')
     .option('--max-scale <r>', 'largest Rips scale kept (default: none)')
     .option('--metric <name>', `distance between points: ${METRICS.join(', ')}`, 'euclidean')
@@ -93,6 +97,7 @@ export interface ParsedDiagramOptions {
   diagramOptions: DiagramOptions;
   workers?: number;
   kind?: SampleKind;
+  shape?: number[];
 }
 
 export function parseDiagramOptions(
@@ -107,6 +112,8 @@ export function parseDiagramOptions(
     | 'workers'
     | 'filtration'
     | 'subsample'
+    | 'threshold'
+    | 'shape'
   >,
 ): ParsedDiagramOptions {
   const degrees = parseDegreesOption(o.degrees, '--degrees', 2);
@@ -123,11 +130,13 @@ export function parseDiagramOptions(
   const choice = parseFiltrationOptions(o);
   if (choice.filtration !== 'rips') diagramOptions.filtration = choice.filtration;
   if (choice.subsample !== undefined) diagramOptions.subsample = choice.subsample;
+  if (choice.threshold !== undefined) diagramOptions.threshold = choice.threshold;
   return {
     degrees,
     diagramOptions,
     ...(workers !== undefined ? { workers } : {}),
     ...(kind !== undefined ? { kind } : {}),
+    ...(o.shape !== undefined ? { shape: parseShape(o.shape) } : {}),
   };
 }
 
@@ -141,15 +150,19 @@ export function diagramRecord(kind: SampleKind, d: DiagramOptions): Record<strin
     embed: d.embed ?? null,
     superlevel: d.superlevel === true,
     ...filtrationRecord({
-      filtration: d.filtration ?? 'rips',
+      filtration: d.filtration === undefined ? 'rips' : [...filtrationList(d.filtration)],
       ...(d.subsample ? { subsample: d.subsample } : {}),
+      ...(d.threshold !== undefined ? { threshold: d.threshold } : {}),
     }),
   };
 }
 
 /** Loads a dataset and refuses an empty one or --embed on non-signals. */
 export async function loadStudyDataset(input: string, parsed: ParsedDiagramOptions): Promise<Dataset> {
-  const dataset = await loadDataset(input, parsed.kind === undefined ? {} : { kind: parsed.kind });
+  const dataset = await loadDataset(input, {
+    ...(parsed.kind === undefined ? {} : { kind: parsed.kind }),
+    ...(parsed.shape === undefined ? {} : { shape: parsed.shape }),
+  });
   if (dataset.samples.length === 0) throw new UserError('has no samples; nothing to do', { file: input });
   if (parsed.diagramOptions.embed !== undefined && dataset.kind !== 'signal') {
     throw new UserError(`--embed applies to signals, but this is a ${dataset.kind} dataset; drop --embed`, {

@@ -3,6 +3,7 @@ import { SAMPLE_KINDS } from '../../io/dataset.js';
 
 interface InspectOptions {
   kind?: string;
+  shape?: string;
   json?: boolean;
   quiet?: boolean;
 }
@@ -17,12 +18,17 @@ export function defineInspect(program: Command): Command {
     .description('load a dataset and summarise it: kind, samples, classes, sizes')
     .argument('<dataset>', 'a CSV or .npy file, or a folder with labels.csv')
     .option('--kind <kind>', `force the sample kind: ${SAMPLE_KINDS.join(', ')} (default: detected)`)
+    .option('--shape <RxC>', 'image table CSV: the shape of every image, ROWSxCOLUMNS or DEPTHxROWSxCOLUMNS')
     .option('--json', 'print the summary as JSON')
     .action(async (path: string, options: InspectOptions) => {
       const { loadInput } = await import('../dataset-input.js');
       const { formatSummary, summarizeDataset } = await import('../../io/summary.js');
       const { version } = await import('../../core/version.js');
-      const dataset = await loadInput(path, { kind: options.kind, quiet: options.quiet });
+      const dataset = await loadInput(path, {
+        kind: options.kind,
+        ...(options.shape !== undefined ? { shape: options.shape } : {}),
+        quiet: options.quiet,
+      });
       const summary = summarizeDataset(dataset);
       if (options.json) {
         const out = { version: version(), options: { kind: options.kind ?? null }, ...summary };

@@ -5,13 +5,14 @@ import type { FeatureData } from '../../features/combined.js';
 import type { DiagramOptions } from '../../homology/compute.js';
 import { csvField, csvNumber } from '../../io/csv.js';
 import type { SampleKind } from '../../io/dataset.js';
-import { parseKind } from '../../io/load.js';
+import { parseKind, parseShape } from '../../io/load.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
 import { parseIntegerOption } from '../options.js';
 import { diagramsForCommand, loadStudyDataset } from './evaluate.js';
 
 interface PredictCommandOptions {
   kind?: string;
+  shape?: string;
   out?: string;
   workers?: string;
   quiet?: boolean;
@@ -45,6 +46,7 @@ export function definePredict(program: Command): Command {
       '--kind <kind>',
       'sample kind of the input (default: detected; must be the kind the model was trained on)',
     )
+    .option('--shape <RxC>', 'image table CSV: the shape of every image, ROWSxCOLUMNS or DEPTHxROWSxCOLUMNS')
     .option('--workers <n>', 'worker threads for the diagrams (default: every core)')
     .addHelpText(
       'after',
@@ -77,6 +79,7 @@ Example:
           degrees: diagramOptions.degrees,
           diagramOptions,
           ...(o.kind !== undefined ? { kind: parseKind(o.kind) } : {}),
+          ...(o.shape !== undefined ? { shape: parseShape(o.shape) } : {}),
           ...(workers !== undefined ? { workers } : {}),
         };
         const dataset = await loadStudyDataset(input, parsed);

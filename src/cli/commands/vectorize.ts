@@ -11,6 +11,7 @@ import {
 import type { DiagramOptions } from '../../homology/compute.js';
 import { describeInfinitePolicy } from '../../homology/diagram.js';
 import type { SampleKind } from '../../io/dataset.js';
+import { parseShape } from '../../io/load.js';
 import { parseChoiceOption, parseGridOption, parseInfiniteOption, parseIntegerOption } from '../options.js';
 import {
   addDiagramOptions,
@@ -24,7 +25,16 @@ import {
 
 type VectorizeCommandOptions = Pick<
   StudyCommandOptions,
-  'kind' | 'degrees' | 'maxScale' | 'metric' | 'embed' | 'superlevel' | 'workers' | 'quiet' | 'infinite'
+  | 'kind'
+  | 'degrees'
+  | 'maxScale'
+  | 'metric'
+  | 'embed'
+  | 'superlevel'
+  | 'workers'
+  | 'quiet'
+  | 'infinite'
+  | 'shape'
 > & {
   features: string;
   depth: string;
@@ -119,6 +129,7 @@ Example:
           degrees: diagramOptions.degrees,
           diagramOptions,
           ...(m.record?.kind ? { kind: m.record.kind } : {}),
+          ...(o.shape !== undefined ? { shape: parseShape(o.shape) } : {}),
         };
         if (o.workers !== undefined) parsed.workers = parseIntegerOption(o.workers, '--workers', 1, 1024);
         fitted = true;
