@@ -208,7 +208,9 @@ export function defineContrast(program: Command): Command {
               version: made.version,
               options: made.options,
               seed,
-              family: 'all pairs of classes × all degrees',
+              family: result.grids.some((g) => g.filtration !== undefined)
+                ? 'all pairs of classes × all filtrations × all degrees'
+                : 'all pairs of classes × all degrees',
               grids: result.grids,
             })
           : contrastText(result, permutations);
