@@ -84,6 +84,25 @@ describe('landform merge', () => {
     expect(noOut.code).toBe(2);
     expect(noOut.stderr).toMatch(/--out FILE is required/);
   });
+
+  it('refuses a shard truncated after it was written (whole rows cut off), one line, nothing written', async () => {
+    const dir = tempDir();
+    const { files } = await writeShards(dir, 3);
+    const lines = readFileSync(files[1], 'utf8').split('\n');
+    // Cut the last four rows but keep a well-formed CSV: only the recorded size and SHA-256 can tell.
+    writeFileSync(files[1], `${lines.slice(0, -5).join('\n')}\n`);
+    const out = join(dir, 'merged.csv');
+    const r = runCli(['merge', ...files, '--out', out]);
+    expect(r.code).toBe(2);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stderr).toMatch(
+      /^landform: .*d\.shard-2-of-3\.csv: d\.shard-2-of-3\.csv holds \d+ bytes but \d+ were written \(truncated or changed\); rerun this shard\n$/,
+    );
+    expect(existsSync(out)).toBe(false);
+    const sidecar = JSON.parse(readFileSync(`${files[1]}.provenance.json`, 'utf8'));
+    expect(sidecar.shard.content.samples).toBe(sidecar.shard.ids.length);
+    expect(sidecar.shard.content.files.data.sha256).toMatch(/^[0-9a-f]{64}$/);
+  });
 });
 
 /**
