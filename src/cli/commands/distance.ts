@@ -5,6 +5,7 @@ import { type Diagram, diagramOfDegree, finitePairs, parseInfinitePolicy } from 
 import { type DiagramMetric, distanceMatrix } from '../../homology/distance.js';
 import { csvField, csvNumber } from '../../io/csv.js';
 import { readDiagramCsv } from '../../io/diagram-csv.js';
+import { checkFileOutput } from '../../io/output-guard.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
 import { startProgress } from '../progress.js';
 import { chooseDegree } from './landscape.js';
@@ -67,6 +68,7 @@ Example:
   landform distance lattice-diagrams.csv --degree 1 --metric wasserstein:1`,
     )
     .action(async (fileA: string, fileB: string | undefined, options: DistanceOptions) => {
+      if (options.out !== undefined) checkFileOutput(options.out, [fileA, fileB]);
       const metric = parseMetric(options.metric);
       const keep = options.infinite === 'keep';
       const policy = keep ? undefined : parseInfinitePolicy(options.infinite);
