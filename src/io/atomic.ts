@@ -39,8 +39,11 @@ export const ASIDE_PREFIX = '.landform-old-';
 export const LOCK_PREFIX = '.landform-lock-';
 export const FOLDER_MARKER = '.landform-output.json';
 
-/** How long a lock held by a live process is waited for before the write is refused. */
-export const LOCK_WAIT_MS = 30_000;
+/**
+ * How long a lock held by a live process is waited for before the write is refused: long enough for another
+ * evaluate to finish its report (it holds the lock while rendering), short enough to end a hung wait.
+ */
+export const LOCK_WAIT_MS = 5 * 60_000;
 /** Temporary leftovers older than this are removed even if a process with their pid runs. */
 const LEFTOVER_AGE_MS = 24 * 3600 * 1000;
 

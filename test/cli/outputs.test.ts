@@ -50,6 +50,37 @@ describe('outputs never destroy data', () => {
     expect(readdirSync(dir).filter((n) => n.startsWith('.landform'))).toEqual([]);
   });
 
+  it('two train runs on one --save at the same time leave one whole, verifiable model', async () => {
+    const folder = join(dir, 'race');
+    const run = (seed: string) =>
+      new Promise<number | null>((done) => {
+        const child = spawn(
+          process.execPath,
+          [
+            '--import',
+            'tsx',
+            join(root, 'src/cli/main.ts'),
+            'train',
+            input,
+            ...FAST,
+            '--seed',
+            seed,
+            '--quiet',
+            '--save',
+            folder,
+          ],
+          { cwd: root, stdio: 'ignore' },
+        );
+        child.on('close', (code) => done(code));
+      });
+    expect(await Promise.all([run('1'), run('2')])).toEqual([0, 0]);
+    const { loadModelFolder } = await import('../../src/learn/model-folder.js');
+    const { manifest } = await loadModelFolder(folder);
+    expect(manifest.kind).toBe('landform.model-folder');
+    expect(readdirSync(folder).sort()).toEqual(['.landform-output.json', 'classifier.json', 'manifest.json']);
+    expect(readdirSync(dir).filter((n) => n.startsWith('.landform'))).toEqual([]);
+  }, 120_000);
+
   it('train --save refuses the input file and a folder holding the input', () => {
     const r = runCli(['train', input, ...FAST, '--save', input]);
     expect(oneLineRefusal(r)).toMatch(/--save names a folder, but this is a file/);
@@ -76,6 +107,19 @@ describe('outputs never destroy data', () => {
     ]);
     expect(oneLineRefusal(v)).toMatch(/--out is the input/);
     expect(readFileSync(input).equals(original)).toBe(true);
+  });
+
+  it('a run removes temporary leftovers of killed runs beside its output, and leaves no lock', () => {
+    const out = join(dir, 'clean');
+    mkdirSync(out);
+    const dead = spawnSync(process.execPath, ['-e', 'process.stdout.write(String(process.pid))'], {
+      encoding: 'utf8',
+    });
+    const leftover = join(out, `.landform-tmp-d.csv-${dead.stdout}-0badc0de`);
+    writeFileSync(leftover, 'half a file from a run that was killed');
+    const r = runCli(['diagrams', input, '--workers', '1', '--quiet', '--out', join(out, 'd.csv')]);
+    expect(r.code).toBe(0);
+    expect(readdirSync(out).sort()).toEqual(['d.csv', 'd.csv.provenance.json']);
   });
 
   it('diagrams refuses a symbolic link and a FIFO at --out at once (no hang, link and target kept)', (context) => {
