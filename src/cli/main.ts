@@ -87,7 +87,13 @@ export async function main(argv: string[]): Promise<number> {
  */
 function systemErrorLine(error: unknown): string | undefined {
   const e = error as { code?: unknown; path?: unknown; syscall?: unknown };
-  if (typeof e?.code !== 'string' || typeof e.path !== 'string') return undefined;
+  if (typeof e?.code !== 'string') return undefined;
+  if (typeof e.path !== 'string') {
+    // A failed write on an open file carries no path: say what happened, without a trace.
+    if (e.code === 'ENOSPC' || e.code === 'EDQUOT') return 'cannot write: disk full (or over quota)';
+    if (e.code === 'EPIPE') return 'cannot write: the reading end of a pipe was closed';
+    return undefined;
+  }
   const reasons: Record<string, string> = {
     ENOENT: 'no such file or folder; check the path',
     EACCES: 'permission denied; choose a path you may write or read',
@@ -104,12 +110,36 @@ function systemErrorLine(error: unknown): string | undefined {
   return reason === undefined ? undefined : `${e.path}: ${reason}`;
 }
 
-/** Output piped into a program that stops reading (e.g. `| head`) ends the run quietly, not with a trace. */
-function quietOnClosedPipe(): void {
-  for (const stream of [process.stdout, process.stderr]) {
-    stream.on('error', (error: NodeJS.ErrnoException) => {
-      if (error.code === 'EPIPE') process.exit(process.exitCode ?? 0);
-      throw error;
+/**
+ * Standard output or error that cannot take more. A reader that stops early (`landform … | head -1`) closes
+ * the pipe: the run ends at once, silently (the reader asked for no more, so no message), with exit code 2 —
+ * not 0, because not everything was delivered, so a script with `set -o pipefail` still sees it, as it
+ * would see the conventional death by SIGPIPE, which Node does not die of. A full disk or another write
+ * failure on standard output is one line on standard error and exit 2.
+ */
+export function outputStreamFailure(
+  stream: 'stdout' | 'stderr',
+  error: NodeJS.ErrnoException,
+): string | undefined {
+  if (error.code === 'EPIPE' || error.code === 'ECONNRESET') return undefined;
+  const where = stream === 'stdout' ? 'standard output' : 'standard error';
+  if (error.code === 'ENOSPC' || error.code === 'EDQUOT' || error.code === 'EFBIG')
+    return `landform: cannot write ${where}: disk full (or over quota)\n`;
+  return `landform: cannot write ${where}: ${error.code ?? error.message}\n`;
+}
+
+function handleOutputStreams(): void {
+  for (const name of ['stdout', 'stderr'] as const) {
+    process[name].on('error', (error: NodeJS.ErrnoException) => {
+      const line = outputStreamFailure(name, error);
+      if (line !== undefined && name === 'stdout') {
+        try {
+          process.stderr.write(line);
+        } catch {
+          // standard error is gone too: the exit code is all that is left
+        }
+      }
+      process.exit(2);
     });
   }
 }
@@ -124,7 +154,7 @@ function isEntryPoint(): boolean {
 }
 
 if (isEntryPoint()) {
-  quietOnClosedPipe();
+  handleOutputStreams();
   main(process.argv.slice(2)).then(
     (code) => {
       process.exitCode = code;

@@ -80,23 +80,24 @@ export function writeFeatureTable(
   provenance: Provenance,
   format: FeatureFormat,
 ): string[] {
+  const [main, ...extra] = featureTableFiles(path, table, format);
+  writeWithProvenance(main.path, main.data, provenance, extra);
+  return [main.path, ...extra.map((f) => f.path), `${path}.provenance.json`];
+}
+
+/** The files of a feature table (main file first, then the NPY sidecars), without the provenance. */
+export function featureTableFiles(
+  path: string,
+  table: FeatureTable,
+  format: FeatureFormat,
+): Array<{ path: string; data: string | Uint8Array }> {
   checkTable(table);
-  if (format === 'csv') {
-    writeWithProvenance(path, formatFeatureCsv(table), provenance);
-    return [path, `${path}.provenance.json`];
-  }
-  const samples = samplesSidecarPath(path);
-  const columns = columnsSidecarPath(path);
-  writeWithProvenance(
-    path,
-    formatNpy([table.matrix.rows, table.matrix.cols], table.matrix.data),
-    provenance,
-    [
-      { path: samples, data: formatSamplesCsv(table.ids, table.labels) },
-      { path: columns, data: formatColumnsCsv(table.names) },
-    ],
-  );
-  return [path, samples, columns, `${path}.provenance.json`];
+  if (format === 'csv') return [{ path, data: formatFeatureCsv(table) }];
+  return [
+    { path, data: formatNpy([table.matrix.rows, table.matrix.cols], table.matrix.data) },
+    { path: samplesSidecarPath(path), data: formatSamplesCsv(table.ids, table.labels) },
+    { path: columnsSidecarPath(path), data: formatColumnsCsv(table.names) },
+  ];
 }
 
 /** Reads the `sample,label` sidecar of an array file: one entry per array row. */

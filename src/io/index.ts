@@ -9,7 +9,14 @@ export {
   writeDiagramArrow,
   writeFeatureArrow,
 } from './arrow.js';
-export { writeFileAtomic, writeFilesAtomic, writeFolderAtomic } from './atomic.js';
+export {
+  acquireOutputLock,
+  cleanLeftovers,
+  recoverFolderSwap,
+  writeFileAtomic,
+  writeFilesAtomic,
+  writeFolderAtomic,
+} from './atomic.js';
 export { type CsvRow, csvField, csvNumber, parseCsv } from './csv.js';
 export * from './dataset.js';
 export {
@@ -49,6 +56,7 @@ export {
   writeFeaturesOutput,
 } from './merge.js';
 export { formatNpy, type NpyArray, npyHeaderText, parseNpy, readNpy, writeNpy } from './npy.js';
+export { checkFileOutput, checkOutputPath, type OutputCheckOptions } from './output-guard.js';
 export { provenancePath, readProvenance, writeWithProvenance } from './provenance-file.js';
 export {
   defaultCoordinateNames,

@@ -6,13 +6,15 @@ import type { DiagramSet } from '../homology/diagram.js';
 import { formatDiagramArrow, formatFeatureArrow, readArrow } from './arrow.js';
 import { parseCsv } from './csv.js';
 import { formatDiagramCsv, parseDiagramCsv } from './diagram-csv.js';
-import { type FeatureTable, readFeatureTable, writeFeatureTable } from './feature-table.js';
+import { type FeatureTable, featureTableFiles, readFeatureTable } from './feature-table.js';
 import { provenancePath, readProvenance, writeWithProvenance } from './provenance-file.js';
 import {
   canonicalJson,
   PER_SAMPLE_OPTION_KEYS,
   type ShardedProvenance,
   type ShardRecord,
+  sealShardContent,
+  shardContentFault,
   sharedProvenance,
 } from './shard.js';
 
@@ -89,7 +91,11 @@ export async function writeDiagramsOutput(
   if (format === 'npy')
     throw new UserError('diagrams cannot be written as NPY; name the output .csv or .arrow', { file });
   const data = format === 'arrow' ? await formatDiagramArrow(sets, provenance) : formatDiagramCsv(sets);
-  writeWithProvenance(file, data, provenance);
+  writeWithProvenance(
+    file,
+    data,
+    sealShardContent(provenance, [{ path: file, data }], { rows: pairCount(sets), samples: sets.length }),
+  );
 }
 
 /** Writes a feature table with its provenance sidecar (CSV, NPY with sidecars, or Arrow), atomically. */
@@ -99,8 +105,12 @@ export async function writeFeaturesOutput(
   provenance: Provenance,
   format: OutputFormat = formatFromPath(file),
 ): Promise<void> {
-  if (format === 'arrow') writeWithProvenance(file, await formatFeatureArrow(table, provenance), provenance);
-  else writeFeatureTable(file, table, provenance, format);
+  const files =
+    format === 'arrow'
+      ? [{ path: file, data: await formatFeatureArrow(table, provenance) }]
+      : featureTableFiles(file, table, format);
+  const counts = { rows: table.matrix.rows, samples: table.matrix.rows };
+  writeWithProvenance(file, files[0].data, sealShardContent(provenance, files, counts), files.slice(1));
 }
 
 function checkFile(file: string): void {
@@ -216,6 +226,8 @@ function readShardInputs(files: readonly string[], out: string): ShardInput[] {
         },
       );
     }
+    const fault = shardContentFault(file, record);
+    if (fault !== undefined) throw new UserError(fault, { file });
     inputs.push({ file, provenance, record });
   }
   return inputs;
@@ -358,7 +370,9 @@ export async function mergeShards(
     let done = 0;
     for (const input of inputs) {
       const ordinals = ordinalOf(input);
-      for (const set of await readDiagramsOutput(input.file)) {
+      const read = await readDiagramsOutput(input.file);
+      checkCounts(input, read.length, pairCount(read));
+      for (const set of read) {
         const ordinal = ordinals.get(set.sample);
         if (ordinal === undefined) {
           throw new UserError(
@@ -382,6 +396,7 @@ export async function mergeShards(
   let done = 0;
   for (const input of inputs) {
     const table = await readFeaturesOutput(input.file);
+    checkCounts(input, table.ids.length, table.ids.length);
     if (names === undefined) {
       names = table.names;
       namesFrom = input.file;
@@ -428,6 +443,24 @@ export async function mergeShards(
     format,
   );
   return { out, format, output, shards: inputs.length, samples: total };
+}
+
+function pairCount(sets: readonly DiagramSet[]): number {
+  let rows = 0;
+  for (const set of sets) for (const d of set.diagrams) rows += d.births.length;
+  return rows;
+}
+
+/** The samples and rows read from a shard must be those its writer recorded. */
+function checkCounts(input: ShardInput, samples: number, rows: number): void {
+  const content = input.record.content;
+  if (content === undefined) return;
+  if (samples !== content.samples || rows !== content.rows) {
+    throw new UserError(
+      `holds ${samples} samples in ${rows} rows but ${content.samples} samples in ${content.rows} rows were written; rerun this shard`,
+      { file: input.file },
+    );
+  }
 }
 
 /**

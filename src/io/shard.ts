@@ -1,9 +1,10 @@
 import { createHash } from 'node:crypto';
-import { existsSync } from 'node:fs';
+import { existsSync, readFileSync } from 'node:fs';
 import { basename, dirname, extname, join } from 'node:path';
 import { UserError } from '../core/errors.js';
 import { type Provenance, version } from '../core/version.js';
 import type { Sample } from './dataset.js';
+import { columnsSidecarPath, samplesSidecarPath } from './feature-table.js';
 import { provenancePath, readProvenance } from './provenance-file.js';
 
 /**
@@ -197,6 +198,83 @@ export interface ShardRecord {
   /** This shard's sample ids in dataset order, and their 0-based positions in the whole dataset. */
   ids: string[];
   ordinals: number[];
+  /**
+   * What the shard's files held when written (added by the writer, not part of the plan): the data rows
+   * (diagram pairs, or table rows), the samples with rows, and each file's size and SHA-256. The merge
+   * checks them, so a truncated or altered shard is refused.
+   */
+  content?: ShardContent;
+}
+
+export interface ShardContent {
+  rows: number;
+  samples: number;
+  /** Size and SHA-256 of the data file and, for NPY, of its sample and column lists, by role. */
+  files: Partial<Record<ShardFileRole, { bytes: number; sha256: string }>>;
+}
+
+/** The files of a shard output: the data file, and the sample and column lists beside an NPY file. */
+export type ShardFileRole = 'data' | 'samples' | 'columns';
+
+const ROLES: readonly ShardFileRole[] = ['data', 'samples', 'columns'];
+
+/** Where a file of `role` sits for the data file `file` (so a shard may be moved or renamed whole). */
+function rolePath(file: string, role: ShardFileRole): string {
+  if (role === 'samples') return samplesSidecarPath(file);
+  if (role === 'columns') return columnsSidecarPath(file);
+  return file;
+}
+
+function sizeAndHash(data: string | Uint8Array): { bytes: number; sha256: string } {
+  const bytes = typeof data === 'string' ? Buffer.from(data, 'utf8') : data;
+  return { bytes: bytes.length, sha256: createHash('sha256').update(bytes).digest('hex') };
+}
+
+/**
+ * The provenance with the content of the files about to be written added to its shard record (unchanged
+ * when it has none). `files` are the data file, then for NPY its sample and column lists (the order
+ * `featureTableFiles` gives), not the provenance itself.
+ */
+export function sealShardContent(
+  provenance: Provenance,
+  files: ReadonlyArray<{ path: string; data: string | Uint8Array }>,
+  counts: { rows: number; samples: number },
+): Provenance {
+  const record = (provenance as ShardedProvenance).shard;
+  if (record === undefined) return provenance;
+  const listed: ShardContent['files'] = {};
+  files.forEach((file, k) => {
+    listed[ROLES[k]] = sizeAndHash(file.data);
+  });
+  return { ...provenance, shard: { ...record, content: { ...counts, files: listed } } } as ShardedProvenance;
+}
+
+/**
+ * Checks a shard's files against the content its record lists; returns what is wrong, or undefined. `file`
+ * is the shard's data file.
+ */
+export function shardContentFault(file: string, record: ShardRecord): string | undefined {
+  const content = record.content;
+  if (content === undefined || typeof content.files !== 'object' || content.files?.data === undefined)
+    return 'its sidecar records no size and checksum of the data (written by another landform version); rerun this shard';
+  for (const role of ROLES) {
+    const expected = content.files[role];
+    if (expected === undefined) continue;
+    const path = rolePath(file, role);
+    let bytes: Buffer;
+    try {
+      bytes = readFileSync(path);
+    } catch {
+      return `${path} is missing; rerun this shard`;
+    }
+    const found = sizeAndHash(bytes);
+    const name = basename(path);
+    if (found.bytes !== expected.bytes)
+      return `${name} holds ${found.bytes} bytes but ${expected.bytes} were written (truncated or changed); rerun this shard`;
+    if (found.sha256 !== expected.sha256)
+      return `${name} was changed after it was written (its SHA-256 differs from the sidecar's); rerun this shard`;
+  }
+  return undefined;
 }
 
 /** The provenance of a shard's output: the command's own provenance plus the shard record. */
@@ -378,7 +456,9 @@ export function shardFinished(out: string, expected: ShardRecord): boolean {
   } catch {
     return false;
   }
-  return found?.shard !== undefined && canonicalJson(found.shard) === canonicalJson(expected);
+  if (found?.shard === undefined) return false;
+  const { content: _content, ...plan } = found.shard;
+  return canonicalJson(plan) === canonicalJson(expected) && shardContentFault(out, found.shard) === undefined;
 }
 
 /** JSON with object keys sorted, so that two records compare by content, not by key order. */

@@ -56,10 +56,29 @@ export async function saveModelFolder(
     files: listed,
   };
   const full = { ...body, checksum: sha256(Buffer.from(canonicalJson(body), 'utf8')) };
-  await writeFolderAtomic(dir, (tmp) => {
-    for (const [name, bytes] of contents) writeFileSync(join(tmp, name), bytes);
-    writeFileSync(join(tmp, MANIFEST_NAME), `${JSON.stringify(full, null, 2)}\n`);
-  });
+  await writeFolderAtomic(
+    dir,
+    (tmp) => {
+      for (const [name, bytes] of contents) writeFileSync(join(tmp, name), bytes);
+      writeFileSync(join(tmp, MANIFEST_NAME), `${JSON.stringify(full, null, 2)}\n`);
+    },
+    { command: 'model' },
+  );
+}
+
+/**
+ * The names a model folder written before folders carried landform's marker holds: its manifest and the
+ * files the manifest lists (empty when `dir` holds no readable model manifest). Used to recognise such a
+ * folder as landform's own when it is about to be replaced.
+ */
+export function savedModelNames(dir: string): string[] {
+  try {
+    const m = JSON.parse(readFileSync(join(dir, MANIFEST_NAME), 'utf8')) as Partial<ModelFolderManifest>;
+    if (m?.kind !== KIND || typeof m.files !== 'object' || m.files === null) return [];
+    return [MANIFEST_NAME, ...Object.keys(m.files)];
+  } catch {
+    return [];
+  }
 }
 
 /** Reads and verifies a model folder; any problem is a UserError naming the file and what to do. */

@@ -10,6 +10,7 @@ import {
   RULE,
   SEQUENTIAL_RAMP,
 } from './palette.js';
+import { findActiveContent } from './svg-check.js';
 
 /**
  * The report's charts: each is a vega-lite spec built from plain data, compiled to vega and rendered to an
@@ -75,8 +76,8 @@ export async function renderSvg(spec: ChartSpec): Promise<string> {
     let svg = await view.toSVG();
     if (refused !== undefined)
       throw new Error(`charts: refusing to load ${refused}; charts use inline data only`);
-    if (/<script|<foreignObject|\son\w+\s*=|javascript:/i.test(svg))
-      throw new Error('charts: rendered SVG contains active content');
+    const active = findActiveContent(svg);
+    if (active !== undefined) throw new Error(`charts: rendered SVG contains active content (${active})`);
     // Give clip paths and gradients ids unique to this chart so many charts can live on one page.
     const prefix = `c${++idCounter}-`;
     svg = svg.replace(/\bid="([^"]+)"/g, `id="${prefix}$1"`).replace(/url\(#([^)]+)\)/g, `url(#${prefix}$1)`);

@@ -58,3 +58,4 @@ export {
   type ReportOptions,
   runDemo,
 } from './study.js';
+export { findActiveContent } from './svg-check.js';

@@ -84,6 +84,25 @@ describe('landform merge', () => {
     expect(noOut.code).toBe(2);
     expect(noOut.stderr).toMatch(/--out FILE is required/);
   });
+
+  it('refuses a shard truncated after it was written (whole rows cut off), one line, nothing written', async () => {
+    const dir = tempDir();
+    const { files } = await writeShards(dir, 3);
+    const lines = readFileSync(files[1], 'utf8').split('\n');
+    // Cut the last four rows but keep a well-formed CSV: only the recorded size and SHA-256 can tell.
+    writeFileSync(files[1], `${lines.slice(0, -5).join('\n')}\n`);
+    const out = join(dir, 'merged.csv');
+    const r = runCli(['merge', ...files, '--out', out]);
+    expect(r.code).toBe(2);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stderr).toMatch(
+      /^landform: .*d\.shard-2-of-3\.csv: d\.shard-2-of-3\.csv holds \d+ bytes but \d+ were written \(truncated or changed\); rerun this shard\n$/,
+    );
+    expect(existsSync(out)).toBe(false);
+    const sidecar = JSON.parse(readFileSync(`${files[1]}.provenance.json`, 'utf8'));
+    expect(sidecar.shard.content.samples).toBe(sidecar.shard.ids.length);
+    expect(sidecar.shard.content.files.data.sha256).toMatch(/^[0-9a-f]{64}$/);
+  });
 });
 
 /**
@@ -274,19 +293,26 @@ describe('sharded diagrams and vectorize through the CLI', () => {
     expect(files(join(dir, 'learned'))).toEqual([]);
   });
 
-  it('skips a finished shard unless --force; other options run it again; a bad --shard is one line', async () => {
+  it('skips a finished shard unless --force or its data changed; other options run it again; a bad --shard is one line', async () => {
     const out = join(dir, 'again', 'd.csv');
     expect((await landform(['diagrams', ...diagramArgs, '--shard', '1/2', '--out', out])).code).toBe(0);
     const shardFile = join(dir, 'again', 'd.shard-1-of-2.csv');
     const original = readFileSync(shardFile, 'utf8');
-    // The finished check reads the sidecar, not the data: an edit behind its back shows whether it recomputed.
-    writeFileSync(shardFile, 'edited\n');
+    // An atomic write renames a new file into place, so an unchanged inode shows nothing was rewritten.
+    const inode = statSync(shardFile).ino;
     const again = await landform(['diagrams', ...diagramArgs, '--shard', '1/2', '--out', out]);
     expect(again.code).toBe(0);
     expect(again.stderr).toMatch(/shard 1\/2 is already finished .*add --force to recompute/);
-    expect(readFileSync(shardFile, 'utf8')).toBe('edited\n');
+    expect(statSync(shardFile).ino).toBe(inode);
     const forced = await landform(['diagrams', ...diagramArgs, '--shard', '1/2', '--force', '--out', out]);
     expect(forced.code).toBe(0);
+    expect(statSync(shardFile).ino).not.toBe(inode);
+    expect(readFileSync(shardFile, 'utf8')).toBe(original);
+    // A finished shard edited behind its back no longer matches its recorded SHA-256: it is computed again.
+    writeFileSync(shardFile, 'edited\n');
+    const repaired = await landform(['diagrams', ...diagramArgs, '--shard', '1/2', '--out', out]);
+    expect(repaired.code).toBe(0);
+    expect(repaired.stderr).not.toMatch(/already finished/);
     expect(readFileSync(shardFile, 'utf8')).toBe(original);
     writeFileSync(shardFile, 'edited\n');
     const other = await landform([

@@ -12,6 +12,7 @@ import {
   parseShard,
   planShard,
   resolveShard,
+  sealShardContent,
   shardFileName,
   shardOf,
   shardOrdinals,
@@ -234,7 +235,13 @@ describe('planShard', () => {
     expect(record.total).toBe(21);
     expect(plan.finished).toBe(false);
 
-    writeWithProvenance(plan.out, 'sample,label,degree,birth,death\n', plan.stamp(prov));
+    const header = 'sample,label,degree,birth,death\n';
+    // As the writers do: the sidecar records the data's size and SHA-256 beside the plan's record.
+    writeWithProvenance(
+      plan.out,
+      header,
+      sealShardContent(plan.stamp(prov), [{ path: plan.out, data: header }], { rows: 0, samples: 0 }),
+    );
     expect(planShard({ samples, out, shard, output: 'diagrams', settings: prov.options }).finished).toBe(
       true,
     );
@@ -258,6 +265,15 @@ describe('planShard', () => {
     expect(
       planShard({ samples: edited, out, shard, output: 'diagrams', settings: prov.options }).finished,
     ).toBe(false);
+    // A finished shard whose data was truncated or changed afterwards is not finished any more.
+    writeFileSync(plan.out, header.slice(0, 10));
+    expect(planShard({ samples, out, shard, output: 'diagrams', settings: prov.options }).finished).toBe(
+      false,
+    );
+    writeFileSync(plan.out, header);
+    expect(planShard({ samples, out, shard, output: 'diagrams', settings: prov.options }).finished).toBe(
+      true,
+    );
     // An output whose sidecar is missing (e.g. the run died between the two renames) is not finished.
     writeFileSync(join(dir, 'd.shard-1-of-3.csv'), 'sample,label,degree,birth,death\n');
     expect(

@@ -5,6 +5,7 @@ import type { DiagramOptions } from '../../homology/compute.js';
 import type { DiagramSet } from '../../homology/diagram.js';
 import type { Metric } from '../../homology/metric.js';
 import type { Dataset } from '../../io/dataset.js';
+import { checkOutputPath } from '../../io/output-guard.js';
 import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
 import {
   parseChoiceOption,
@@ -107,6 +108,7 @@ export function defineContrast(program: Command): Command {
         'Example: landform contrast datasets/lattice/clouds.csv --degrees 0,1 --format text',
     )
     .action(async (path: string, flags: ContrastFlags) => {
+      if (flags.out) checkOutputPath(flags.out, [path]);
       const degrees = parseDegreesOption(flags.degrees);
       const depth = parseIntegerOption(flags.depth, '--depth', 1, 100);
       const gridCount = parseIntegerOption(flags.gridCount, '--grid-count', 2, 100_000);

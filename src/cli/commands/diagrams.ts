@@ -8,6 +8,7 @@ import { computeDiagramsParallel, startDiagramWorkers } from '../../homology/par
 import type { DelayEmbedding } from '../../homology/signal.js';
 import type { SampleKind } from '../../io/dataset.js';
 import { expectKind, loadDataset, parseKind, parseShape } from '../../io/load.js';
+import { checkFileOutput } from '../../io/output-guard.js';
 import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
 import { parseChoiceOption, parseDegreesOption, parseIntegerOption, parseNumberOption } from '../options.js';
 import { startProgress } from '../progress.js';
@@ -104,6 +105,7 @@ Example:
       const started = performance.now();
       if (options.out === undefined)
         throw new UserError('no --out FILE given; name the diagram CSV to write');
+      checkFileOutput(options.out, [input]);
       const degrees = parseDegreesOption(options.degrees, '--degrees', 2);
       const metric = parseChoiceOption(options.metric, '--metric', METRICS) as Metric;
       const maxScale =
@@ -167,6 +169,7 @@ Example:
       });
       if (plan.message !== undefined && options.quiet !== true) process.stderr.write(`${plan.message}\n`);
       if (plan.finished) return;
+      if (plan.out !== options.out) checkFileOutput(plan.out, [input]);
       const progress = await startProgress('diagrams', plan.samples.length, options.quiet === true);
       let sets: Awaited<ReturnType<typeof computeDiagramsParallel>>;
       const computing = performance.now();

@@ -5,6 +5,7 @@ import { type Diagram, diagramOfChannel, finitePairs, parseInfinitePolicy } from
 import { type DiagramMetric, distanceMatrix } from '../../homology/distance.js';
 import { csvField, csvNumber } from '../../io/csv.js';
 import { readDiagramCsv } from '../../io/diagram-csv.js';
+import { checkFileOutput } from '../../io/output-guard.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
 import { startProgress } from '../progress.js';
 import { chooseChannel } from './landscape.js';
@@ -69,6 +70,7 @@ Example:
   landform distance lattice-diagrams.csv --degree 1 --metric wasserstein:1`,
     )
     .action(async (fileA: string, fileB: string | undefined, options: DistanceOptions) => {
+      if (options.out !== undefined) checkFileOutput(options.out, [fileA, fileB]);
       const metric = parseMetric(options.metric);
       const keep = options.infinite === 'keep';
       const policy = keep ? undefined : parseInfinitePolicy(options.infinite);

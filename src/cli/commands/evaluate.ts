@@ -1,3 +1,4 @@
+import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
@@ -12,11 +13,12 @@ import type { DiagramOptions } from '../../homology/compute.js';
 import type { DiagramSet } from '../../homology/diagram.js';
 import { filtrationList } from '../../homology/filtration.js';
 import { METRICS, type Metric } from '../../homology/metric.js';
-import { writeFilesAtomic } from '../../io/atomic.js';
+import { acquireOutputLock, writeFileAtomic, writeFolderAtomic } from '../../io/atomic.js';
 import type { Dataset, SampleKind } from '../../io/dataset.js';
 import { loadDataset, parseKind, parseShape } from '../../io/load.js';
+import { checkOutputPath } from '../../io/output-guard.js';
 import { MODEL_NAMES, type ModelName } from '../../learn/classifier.js';
-import type { EvaluationOptions } from '../../learn/evaluate.js';
+import type { EvaluationOptions, EvaluationResult } from '../../learn/evaluate.js';
 import type { LandscapeCandidate } from '../../learn/select.js';
 import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
 import {
@@ -266,7 +268,12 @@ interface EvaluateCommandOptions extends StudyCommandOptions {
   folds: string;
   repeats: string;
   out?: string;
+  report: boolean;
+  force?: boolean;
 }
+
+/** What an evaluation folder holds; a folder with only these names was written by an earlier landform. */
+export const EVALUATION_FILES: readonly string[] = ['metrics.json', 'report.html'];
 
 /**
  * `landform evaluate <dataset> --out DIR`: the cross-validated study (every feature set × model, inner-CV
@@ -284,7 +291,9 @@ export function defineEvaluate(program: Command): Command {
     )
     .option('--folds <k>', 'outer stratified folds', '5')
     .option('--repeats <n>', 'repetitions of the outer split, each with its own shuffle', '1')
-    .option('--out <dir>', 'folder to write metrics.json into');
+    .option('--out <dir>', 'folder to write metrics.json and report.html into (replaced as a whole)')
+    .option('--no-report', 'write metrics.json only, without the HTML report')
+    .option('--force', 'replace --out even if it is a non-empty folder landform did not make');
   addStudyOptions(command);
   return command
     .addHelpText(
@@ -299,6 +308,10 @@ and grid size (--depths × --grid-sizes); nothing is learned from the outer test
 The defaults keep the search small (3 inner folds, 4 landscape candidates, tried first with the model's
 default hyperparameters, then each model candidate with the best landscape): F + M − 1 inner runs per fold.
 
+The folder is written as a whole: metrics.json first (so a failing report loses no work), then
+report.html; files of an earlier run in it are replaced, and a folder landform did not make is refused
+unless --force.
+
 Cross-validated accuracy is an estimate: validate on independent data before it feeds a decision.
 
 Example:
@@ -308,8 +321,9 @@ Example:
       if (o.out === undefined) throw new UserError('no --out DIR given; name the folder for metrics.json');
       const folds = parseIntegerOption(o.folds, '--folds', 2, 1000);
       const repeats = parseIntegerOption(o.repeats, '--repeats', 1, 1000);
+      checkOutputPath(o.out, [input], { folder: true, force: o.force === true, known: EVALUATION_FILES });
       const study = await parseStudy(input, o);
-      const { checkStudy, formatMetricsJson, runEvaluation } = await import('../../learn/evaluate.js');
+      const { checkStudy, runEvaluation } = await import('../../learn/evaluate.js');
       const options: EvaluationOptions = {
         ...study.options,
         folds,
@@ -327,23 +341,58 @@ Example:
       } finally {
         progress.stop();
       }
-      const outputs: Array<{ path: string; data: string | Uint8Array }> = [
-        { path: join(o.out, 'metrics.json'), data: formatMetricsJson(result) },
-      ];
-      const { evaluationReportHtml } = await import('../../report/study.js');
-      outputs.push({
-        path: join(o.out, 'report.html'),
-        data: await evaluationReportHtml(input, study.dataset, result, study.options.landscape),
+      await writeEvaluation(o.out, result, o.report, async () => {
+        const { evaluationReportHtml } = await import('../../report/study.js');
+        return evaluationReportHtml(input, study.dataset, result, study.options.landscape);
       });
-      writeFilesAtomic(outputs);
-      for (const r of result.results) {
-        process.stdout.write(
-          `${r.features.padEnd(10)} ${r.model.padEnd(8)} accuracy ${r.accuracy.mean.toFixed(3)} ± ${r.accuracy.std.toFixed(3)}` +
-            `  balanced ${r.balancedAccuracy.mean.toFixed(3)}  macro-F1 ${r.macroF1.mean.toFixed(3)}\n`,
-        );
-      }
-      process.stdout.write(
-        `wrote ${join(o.out, 'metrics.json')} and ${join(o.out, 'report.html')} (cross-validated estimates; validate on independent data)\n`,
-      );
     });
+}
+
+/**
+ * Writes an evaluation folder under its lock: the folder with metrics.json is committed first (replacing any
+ * earlier one as a whole, so no old report is left beside new metrics), the summary lines are printed, then
+ * the report is rendered and added. If the report fails, metrics.json stays and the error says so.
+ */
+async function writeEvaluation(
+  out: string,
+  result: EvaluationResult,
+  withReport: boolean,
+  renderReport: () => Promise<string>,
+): Promise<void> {
+  const { formatMetricsJson } = await import('../../learn/evaluate.js');
+  const metricsPath = join(out, 'metrics.json');
+  const release = acquireOutputLock(out);
+  try {
+    const metrics = formatMetricsJson(result);
+    await writeFolderAtomic(out, (tmp) => writeFileSync(join(tmp, 'metrics.json'), metrics), {
+      command: 'evaluate',
+      lock: false,
+    });
+    for (const r of result.results) {
+      process.stdout.write(
+        `${r.features.padEnd(10)} ${r.model.padEnd(8)} accuracy ${r.accuracy.mean.toFixed(3)} ± ${r.accuracy.std.toFixed(3)}` +
+          `  balanced ${r.balancedAccuracy.mean.toFixed(3)}  macro-F1 ${r.macroF1.mean.toFixed(3)}\n`,
+      );
+    }
+    if (!withReport) {
+      process.stdout.write(
+        `wrote ${metricsPath} (cross-validated estimates; validate on independent data)\n`,
+      );
+      return;
+    }
+    let html: string;
+    try {
+      html = await renderReport();
+    } catch (error) {
+      if (error instanceof Error)
+        error.message = `the report failed after ${metricsPath} was written (rerun with --no-report to skip it): ${error.message}`;
+      throw error;
+    }
+    writeFileAtomic(join(out, 'report.html'), html);
+    process.stdout.write(
+      `wrote ${metricsPath} and ${join(out, 'report.html')} (cross-validated estimates; validate on independent data)\n`,
+    );
+  } finally {
+    release();
+  }
 }

@@ -12,6 +12,7 @@ import {
 } from '../../homology/diagram.js';
 import { writeFileAtomic } from '../../io/atomic.js';
 import { MAX_DIAGRAM_DEGREE, readDiagramCsv } from '../../io/diagram-csv.js';
+import { checkFileOutput, checkOutputPath } from '../../io/output-guard.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
 import { exactLandscape } from '../../landscape/exact-landscape.js';
 import { coveringGrid, type Grid } from '../../landscape/grid.js';
@@ -81,6 +82,10 @@ Example:
     )
     .action((file: string, options: LandscapeOptions) => {
       const format = parseChoiceOption(options.format, '--format', ['json', 'csv'] as const);
+      if (options.out !== undefined) {
+        if (format === 'csv') checkFileOutput(options.out, [file]);
+        else checkOutputPath(options.out, [file]);
+      }
       const depth = parseIntegerOption(options.depth, '--depth', 1, 10_000);
       const policy = parseInfiniteOption(options.infinite);
       if (options.exact && options.grid !== undefined) {

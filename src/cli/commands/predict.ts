@@ -6,6 +6,7 @@ import type { DiagramOptions } from '../../homology/compute.js';
 import { csvField, csvNumber } from '../../io/csv.js';
 import type { SampleKind } from '../../io/dataset.js';
 import { parseKind, parseShape } from '../../io/load.js';
+import { checkFileOutput } from '../../io/output-guard.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
 import { parseIntegerOption } from '../options.js';
 import { diagramsForCommand, loadStudyDataset } from './evaluate.js';
@@ -58,6 +59,7 @@ Example:
   landform predict models/lattice new-lattices.csv --out predictions.csv`,
     )
     .action(async (modelDir: string, input: string, o: PredictCommandOptions) => {
+      if (o.out !== undefined) checkFileOutput(o.out, [input, modelDir]);
       const workers =
         o.workers === undefined ? undefined : parseIntegerOption(o.workers, '--workers', 1, 1024);
       const { loadModelFolder } = await import('../../learn/model-folder.js');

@@ -1,10 +1,12 @@
 import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
 import type { FeatureData } from '../../features/combined.js';
+import { checkOutputPath } from '../../io/output-guard.js';
 import { addStudyOptions, diagramsForCommand, parseStudy, type StudyCommandOptions } from './evaluate.js';
 
 interface TrainCommandOptions extends StudyCommandOptions {
   save?: string;
+  force?: boolean;
 }
 
 /**
@@ -18,13 +20,15 @@ export function defineTrain(program: Command): Command {
       'fit one feature set and model on all the samples (hyperparameters by inner cross-validation) and save it',
     )
     .argument('<dataset>', 'labelled dataset the loader reads')
-    .option('--save <dir>', 'model folder to write, e.g. models/lattice');
+    .option('--save <dir>', 'model folder to write, e.g. models/lattice (replaced as a whole)')
+    .option('--force', 'replace --save even if it is a non-empty folder landform did not make');
   addStudyOptions(command, true);
   return command
     .addHelpText(
       'after',
       `
-The folder holds manifest.json (options, the learned grid, classes, versions, checksums) and the classifier.
+The folder is written whole and swapped in only when complete; an earlier model there is replaced, and a
+non-empty folder landform did not make is refused unless --force. It holds manifest.json (options, the learned grid, classes, versions, checksums) and the classifier.
 'landform predict DIR <dataset>' labels new samples with it; 'landform vectorize --model DIR' exports the
 features it computes. Estimate accuracy with 'landform evaluate' first: a saved model carries no guarantee.
 
@@ -34,6 +38,13 @@ Example:
     .action(async (input: string, o: TrainCommandOptions) => {
       if (o.save === undefined)
         throw new UserError('no --save DIR given; name the model folder to write, e.g. models/NAME');
+      const { savedModelNames } = await import('../../learn/model-folder.js');
+      checkOutputPath(o.save, [input], {
+        folder: true,
+        force: o.force === true,
+        option: '--save',
+        known: savedModelNames(o.save),
+      });
       const study = await parseStudy(input, o, true);
       const { dataset, parsed } = study;
       const labels = dataset.samples.map((s) => s.label);

@@ -12,6 +12,7 @@ import type { DiagramOptions } from '../../homology/compute.js';
 import { describeInfinitePolicy } from '../../homology/diagram.js';
 import type { SampleKind } from '../../io/dataset.js';
 import { parseShape } from '../../io/load.js';
+import { checkFileOutput } from '../../io/output-guard.js';
 import { parseChoiceOption, parseGridOption, parseInfiniteOption, parseIntegerOption } from '../options.js';
 import {
   addDiagramOptions,
@@ -105,6 +106,7 @@ Example:
       const { chooseFormat, writeFeaturesOutput } = await import('../../io/merge.js');
       const { planShard, resolveShard } = await import('../../io/shard.js');
       const format = chooseFormat(o.out, o.format, ['csv', 'npy', 'arrow']);
+      checkFileOutput(o.out, [input, o.model], format);
       const shard = resolveShard(o.shard);
       let learnsFromSamples = false;
       let extractor: FeatureExtractor;
@@ -189,6 +191,7 @@ Example:
       });
       if (plan.message !== undefined && o.quiet !== true) process.stderr.write(`${plan.message}\n`);
       if (plan.finished) return;
+      if (plan.out !== o.out) checkFileOutput(plan.out, [input, o.model], format);
       const part = { ...dataset, samples: plan.samples };
       const diagrams =
         extractor.set === 'raw' ? undefined : await diagramsForCommand(part, parsed, o.quiet === true);
