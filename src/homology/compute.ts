@@ -10,7 +10,7 @@ import {
   subsampleForFiltration,
 } from './filtration.js';
 import { condenseMatrix, type Metric } from './metric.js';
-import { cloudRipsPersistence, ripsPersistence } from './rips.js';
+import { checkRipsFloor, cloudRipsPersistence, ripsPersistence } from './rips.js';
 import { type DelayEmbedding, delayEmbedding, signalPersistence } from './signal.js';
 import type { SubsampleSpec } from './subsample.js';
 
@@ -63,6 +63,8 @@ export function computeDiagrams(
       coveringRadius = cut.coveringRadius;
       const { matrix, size } = cut.sample;
       const filtration = options.filtration ?? 'rips';
+      // The condensed copy and the rank tables are refused before they are allocated (the matrix itself is loaded).
+      if (filtration === 'rips') checkRipsFloor(size);
       diagrams =
         filtration === 'rips'
           ? ripsPersistence(size, condenseMatrix(matrix, size), {
