@@ -1,5 +1,6 @@
 import { UserError } from '../core/errors.js';
 import { type InfinitePolicy, parseInfinitePolicy } from '../homology/diagram.js';
+import { isDecimalText } from '../io/csv.js';
 
 /** Parsers for option values; each throws the one-line user error naming the option. */
 
@@ -23,8 +24,8 @@ export function parseNumberOption(
   check?: { positive?: boolean; min?: number; max?: number },
 ): number {
   const value = Number(text);
-  if (text.trim() === '' || !Number.isFinite(value))
-    throw new UserError(`${option} '${text}' is not a finite number`);
+  if (!isDecimalText(text.trim()) || !Number.isFinite(value))
+    throw new UserError(`${option} '${text}' is not a finite decimal number`);
   if (check?.positive && !(value > 0)) throw new UserError(`${option} '${text}' must be greater than 0`);
   if (check?.min !== undefined && value < check.min)
     throw new UserError(`${option} '${text}' must be at least ${check.min}`);
