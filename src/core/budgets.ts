@@ -45,10 +45,12 @@ export const FEATURE_COLUMN_BUDGET = 200_000;
 export const FEATURE_MATRIX_COPIES = 4;
 
 /**
- * Values one `landform landscape` run may produce (samples × depth × grid points): 50 million. The output is
- * text, about 20 bytes a value, so this is about 1 GB of JSON or CSV (common practice, no source).
+ * Values one `landform landscape` run may produce (samples × depth × grid points): 5 million. The whole
+ * output is built as text before it is written, about 20 bytes a value (60 a CSV row), so this is 100–300 MB
+ * of JSON or CSV with the numbers and their pieces alive beside it; a study's landscapes (hundreds of samples
+ * × a few layers × a few hundred points) are far below (common practice, no source).
  */
-export const LANDSCAPE_VALUE_BUDGET = 50_000_000;
+export const LANDSCAPE_VALUE_BUDGET = 5_000_000;
 
 /** The memory limit from the environment variable, or undefined when it is not set. */
 export function memoryLimitFromEnvironment(
@@ -117,4 +119,39 @@ export function checkMemory(bytes: number, what: string, advice: string, limit?:
 /** The threads worth starting on this machine (os.availableParallelism()). */
 export function coreCount(): number {
   return availableParallelism();
+}
+
+/**
+ * Refuses landscape features of `columns` columns (degrees × depth × grid points) above FEATURE_COLUMN_BUDGET,
+ * and, when the sample count is known, a feature matrix whose FEATURE_MATRIX_COPIES copies exceed the memory
+ * budget. `options` names the options that set the columns, for the message.
+ */
+export function checkFeatureColumns(
+  columns: number,
+  options: string,
+  samples?: number,
+  limit?: number,
+): void {
+  if (columns > FEATURE_COLUMN_BUDGET) {
+    throw new UserError(
+      `${options} make ${columns} feature columns a sample, above the limit of ${FEATURE_COLUMN_BUDGET}; use fewer layers or grid points`,
+    );
+  }
+  if (samples === undefined) return;
+  checkMemory(
+    samples * columns * 8 * FEATURE_MATRIX_COPIES,
+    `a feature matrix of ${samples} samples × ${columns} columns (${FEATURE_MATRIX_COPIES} copies of float64)`,
+    'use fewer layers or grid points',
+    limit,
+  );
+}
+
+/** Refuses a `landform landscape` run that would produce more than LANDSCAPE_VALUE_BUDGET values. */
+export function checkLandscapeValues(samples: number, depth: number, gridPoints: number): void {
+  const values = samples * depth * gridPoints;
+  if (values > LANDSCAPE_VALUE_BUDGET) {
+    throw new UserError(
+      `${samples} sample${samples === 1 ? '' : 's'} × ${depth} layers × ${gridPoints} grid points make ${values} values, above the limit of ${LANDSCAPE_VALUE_BUDGET}; use a coarser --grid, a smaller --depth or one --sample`,
+    );
+  }
 }

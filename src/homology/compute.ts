@@ -64,7 +64,8 @@ export function computeDiagrams(
       const { matrix, size } = cut.sample;
       const filtration = options.filtration ?? 'rips';
       // The condensed copy and the rank tables are refused before they are allocated (the matrix itself is loaded).
-      if (filtration === 'rips') checkRipsFloor(size);
+      if (filtration === 'rips') checkRipsFloor(size, { sample: sample.id });
+      else checkRipsFloor(size, { sample: sample.id, withVertexValues: true, what: 'DTM' });
       diagrams =
         filtration === 'rips'
           ? ripsPersistence(size, condenseMatrix(matrix, size), {
@@ -147,6 +148,9 @@ function cloudDiagrams(
     }
   }
   const filtration = options.filtration ?? 'rips';
+  // Refused from the size of the cloud actually built (after any subsample), before the distances exist.
+  if (filtration === 'rips') checkRipsFloor(count, { sample: id });
+  else if (filtration !== 'alpha') checkRipsFloor(count, { sample: id, withVertexValues: true, what: 'DTM' });
   if (filtration !== 'rips')
     return cloudFiltrationDiagrams(coords, count, dim, {
       filtration,

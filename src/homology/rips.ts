@@ -616,11 +616,11 @@ export function ripsFloorBytes(n: number, withVertexValues = false): number {
  */
 export function checkRipsFloor(
   n: number,
-  options: { withVertexValues?: boolean; memoryLimit?: number; what?: string } = {},
+  options: { withVertexValues?: boolean; memoryLimit?: number; what?: string; sample?: string } = {},
 ): void {
   checkMemory(
     ripsFloorBytes(n, options.withVertexValues === true),
-    `the ${options.what ?? 'Rips'} filtration of ${n} points (${condensedLength(n)} pairwise distances)`,
+    `${options.sample === undefined ? '' : `sample '${options.sample}': `}the ${options.what ?? 'Rips'} filtration of ${n} points (${condensedLength(n)} pairwise distances)`,
     'subsample the cloud (--subsample maxmin:N or random:N) or split it',
     options.memoryLimit,
   );

@@ -9,7 +9,13 @@ import type { DelayEmbedding } from '../../homology/signal.js';
 import type { SampleKind } from '../../io/dataset.js';
 import { expectKind, loadDataset, parseKind } from '../../io/load.js';
 import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
-import { parseChoiceOption, parseDegreesOption, parseIntegerOption, parseNumberOption } from '../options.js';
+import {
+  parseChoiceOption,
+  parseDegreesOption,
+  parseIntegerOption,
+  parseNumberOption,
+  parseWorkersOption,
+} from '../options.js';
 import { startProgress } from '../progress.js';
 
 interface DiagramsCommandOptions {
@@ -107,7 +113,7 @@ Example:
       const workers =
         options.workers === undefined
           ? availableParallelism()
-          : parseIntegerOption(options.workers, '--workers', 1, 1024);
+          : parseWorkersOption(options.workers, options.quiet === true);
       let kind: SampleKind | undefined;
       if (options.kind !== undefined) {
         kind = parseKind(options.kind);

@@ -1,5 +1,6 @@
 import { join } from 'node:path';
 import type { Command } from 'commander';
+import { checkFeatureColumns } from '../../core/budgets.js';
 import { UserError } from '../../core/errors.js';
 import {
   checkFeatureSet,
@@ -25,6 +26,7 @@ import {
   parseIntegerOption,
   parseListOption,
   parseNumberOption,
+  parseWorkersOption,
 } from '../options.js';
 import { startProgress } from '../progress.js';
 import { parseEmbedOption } from './diagrams.js';
@@ -105,6 +107,7 @@ export function parseDiagramOptions(
     | 'embed'
     | 'superlevel'
     | 'workers'
+    | 'quiet'
     | 'filtration'
     | 'subsample'
   >,
@@ -114,7 +117,7 @@ export function parseDiagramOptions(
   const maxScale =
     o.maxScale === undefined ? undefined : parseNumberOption(o.maxScale, '--max-scale', { positive: true });
   const embed = o.embed === undefined ? undefined : parseEmbedOption(o.embed);
-  const workers = o.workers === undefined ? undefined : parseIntegerOption(o.workers, '--workers', 1, 1024);
+  const workers = o.workers === undefined ? undefined : parseWorkersOption(o.workers, o.quiet === true);
   const kind = o.kind === undefined ? undefined : parseKind(o.kind);
   const diagramOptions: DiagramOptions = { degrees, metric };
   if (maxScale !== undefined) diagramOptions.maxScale = maxScale;
@@ -224,10 +227,17 @@ export async function parseStudy(
   if (singleFeatureSet && requested && requested.length > 1) {
     throw new UserError(`--features takes one feature set here, got ${requested.join(',')}; pick one`);
   }
+  // Landscape columns: every degree × the largest depth × the largest grid tried (refused before loading).
+  const columns = parsed.degrees.length * Math.max(...depths) * Math.max(...gridSizes);
+  const columnOptions = '--degrees × --depths × --grid-sizes';
+  const landscapeAsked = (sets: readonly FeatureSetName[]): boolean =>
+    sets.includes('landscape') || sets.includes('combined');
+  if (requested === undefined || landscapeAsked(requested)) checkFeatureColumns(columns, columnOptions);
   const dataset = await loadStudyDataset(input, parsed);
   const featureSets =
     requested ?? (singleFeatureSet ? featureSetsFor(dataset.kind).slice(0, 1) : featureSetsFor(dataset.kind));
   for (const set of featureSets) checkFeatureSet(set, dataset.kind);
+  if (landscapeAsked(featureSets)) checkFeatureColumns(columns, columnOptions, dataset.samples.length);
   const landscapeCandidates: LandscapeCandidate[] = [];
   for (const depth of depths) for (const gridSize of gridSizes) landscapeCandidates.push({ depth, gridSize });
   const landscape: LandscapeVectorizerOptions = { degrees: parsed.degrees, infinite };

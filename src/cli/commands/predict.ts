@@ -7,7 +7,7 @@ import { csvField, csvNumber } from '../../io/csv.js';
 import type { SampleKind } from '../../io/dataset.js';
 import { parseKind } from '../../io/load.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
-import { parseIntegerOption } from '../options.js';
+import { parseIntegerOption, parseWorkersOption } from '../options.js';
 import { diagramsForCommand, loadStudyDataset } from './evaluate.js';
 
 interface PredictCommandOptions {
@@ -56,8 +56,7 @@ Example:
   landform predict models/lattice new-lattices.csv --out predictions.csv`,
     )
     .action(async (modelDir: string, input: string, o: PredictCommandOptions) => {
-      const workers =
-        o.workers === undefined ? undefined : parseIntegerOption(o.workers, '--workers', 1, 1024);
+      const workers = o.workers === undefined ? undefined : parseWorkersOption(o.workers, o.quiet === true);
       const { loadModelFolder } = await import('../../learn/model-folder.js');
       const { Pipeline } = await import('../../learn/pipeline.js');
       const { manifest, files } = await loadModelFolder(modelDir);

@@ -1,4 +1,5 @@
 import type { Command } from 'commander';
+import { checkFeatureColumns } from '../../core/budgets.js';
 import { UserError } from '../../core/errors.js';
 import { provenance } from '../../core/version.js';
 import {
@@ -11,7 +12,13 @@ import {
 import type { DiagramOptions } from '../../homology/compute.js';
 import { describeInfinitePolicy } from '../../homology/diagram.js';
 import type { SampleKind } from '../../io/dataset.js';
-import { parseChoiceOption, parseGridOption, parseInfiniteOption, parseIntegerOption } from '../options.js';
+import {
+  parseChoiceOption,
+  parseGridOption,
+  parseInfiniteOption,
+  parseIntegerOption,
+  parseWorkersOption,
+} from '../options.js';
 import {
   addDiagramOptions,
   diagramRecord,
@@ -120,7 +127,7 @@ Example:
           diagramOptions,
           ...(m.record?.kind ? { kind: m.record.kind } : {}),
         };
-        if (o.workers !== undefined) parsed.workers = parseIntegerOption(o.workers, '--workers', 1, 1024);
+        if (o.workers !== undefined) parsed.workers = parseWorkersOption(o.workers, o.quiet === true);
         fitted = true;
         source = { model: o.model };
       } else {
@@ -131,6 +138,11 @@ Example:
         const grid = o.grid === undefined ? undefined : parseGridOption(o.grid, '--grid');
         const infinite = parseInfiniteOption(o.infinite, '--infinite');
         const bins = parseIntegerOption(o.bins, '--bins', 1, 100_000);
+        if (set === 'landscape' || set === 'combined')
+          checkFeatureColumns(
+            parsed.degrees.length * depth * (grid ? grid.count : gridSize),
+            '--degrees × --depth × --grid-size',
+          );
         extractor = new FeatureExtractor(set, {
           landscape: {
             degrees: parsed.degrees,
