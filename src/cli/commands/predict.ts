@@ -4,10 +4,15 @@ import { provenance } from '../../core/version.js';
 import type { FeatureData } from '../../features/combined.js';
 import type { DiagramOptions } from '../../homology/compute.js';
 import { csvField, csvNumber } from '../../io/csv.js';
-import type { SampleKind } from '../../io/dataset.js';
+import {
+  recordedSampleShape,
+  type SampleKind,
+  type SampleShape,
+  sampleShapeProblem,
+} from '../../io/dataset.js';
 import { parseKind } from '../../io/load.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
-import { parseIntegerOption, parseWorkersOption } from '../options.js';
+import { parseWorkersOption } from '../options.js';
 import { diagramsForCommand, loadStudyDataset } from './evaluate.js';
 
 interface PredictCommandOptions {
@@ -65,6 +70,8 @@ Example:
         const record = ((manifest as { record?: Record<string, unknown> }).record ?? {}) as {
           kind?: SampleKind;
           diagramOptions?: DiagramOptions | null;
+          sampleShape?: SampleShape;
+          columns?: string[] | null;
         };
         if (!record.kind)
           throw new UserError(
@@ -85,6 +92,8 @@ Example:
             { file: input },
           );
         }
+        const shapeProblem = sampleShapeProblem(recordedSampleShape(record), dataset);
+        if (shapeProblem !== undefined) throw new UserError(shapeProblem, { file: input });
         const diagrams =
           pipeline.features === 'raw'
             ? undefined

@@ -11,7 +11,12 @@ import {
 } from '../../features/combined.js';
 import type { DiagramOptions } from '../../homology/compute.js';
 import { describeInfinitePolicy } from '../../homology/diagram.js';
-import type { SampleKind } from '../../io/dataset.js';
+import {
+  recordedSampleShape,
+  type SampleKind,
+  type SampleShape,
+  sampleShapeProblem,
+} from '../../io/dataset.js';
 import {
   parseChoiceOption,
   parseGridOption,
@@ -108,13 +113,20 @@ Example:
       let parsed: ParsedDiagramOptions;
       let fitted = false;
       let source: Record<string, unknown>;
+      let modelShape: SampleShape | undefined;
       if (o.model !== undefined) {
         const { loadModelFolder } = await import('../../learn/model-folder.js');
         const { manifest } = await loadModelFolder(o.model);
         const m = manifest as {
           extractor?: unknown;
-          record?: { kind?: SampleKind; diagramOptions?: DiagramOptions | null };
+          record?: {
+            kind?: SampleKind;
+            diagramOptions?: DiagramOptions | null;
+            sampleShape?: SampleShape;
+            columns?: string[] | null;
+          };
         };
+        modelShape = recordedSampleShape(m.record ?? {});
         if (!m.extractor)
           throw new UserError(
             'the model folder holds no feature extractor; train it again with landform train --save',
@@ -167,6 +179,8 @@ Example:
       }
       const dataset = await loadStudyDataset(input, parsed);
       checkFeatureSet(extractor.set, dataset.kind);
+      const shapeProblem = modelShape && sampleShapeProblem(modelShape, dataset);
+      if (shapeProblem) throw new UserError(shapeProblem, { file: input });
       if (shard !== undefined && learnsFromSamples) {
         throw new UserError(
           '--shard needs features fixed in advance, the same in every shard: give --model models/NAME, or --features landscape with --grid START:STOP:COUNT and no --standardize',
