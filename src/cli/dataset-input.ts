@@ -13,8 +13,18 @@ export async function loadInput(
   const kind: SampleKind | undefined = options.kind === undefined ? undefined : parseKind(options.kind);
   const progress = await startProgress(options.label ?? 'loading', 1, options.quiet === true);
   try {
-    return await loadDataset(path, { kind, onProgress: (done, total) => progress.update(done, total) });
+    return await loadDataset(path, {
+      kind,
+      onProgress: (done, total) => progress.update(done, total),
+      ...noteOption(options.quiet === true),
+    });
   } finally {
     progress.stop();
   }
+}
+
+/** Loader notes as one stderr line each (`landform: note: …`), or nothing with --quiet. */
+export function noteOption(quiet: boolean): { onNote?: (message: string) => void } {
+  if (quiet) return {};
+  return { onNote: (message) => process.stderr.write(`landform: ${message.replace(/\r?\n/g, ' ')}\n`) };
 }

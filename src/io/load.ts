@@ -34,6 +34,8 @@ export interface LoadOptions {
   kind?: SampleKind;
   /** Reports progress as (done, total), in bytes for files and in files for folders. */
   onProgress?: (done: number, total: number) => void;
+  /** Receives one-line notes on choices made while reading (a folder of square matrices read as points). */
+  onNote?: (message: string) => void;
 }
 
 /** Checks a `--kind` value. */

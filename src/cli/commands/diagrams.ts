@@ -8,6 +8,7 @@ import { computeDiagramsParallel, startDiagramWorkers } from '../../homology/par
 import type { DelayEmbedding } from '../../homology/signal.js';
 import type { SampleKind } from '../../io/dataset.js';
 import { expectKind, loadDataset, parseKind } from '../../io/load.js';
+import { noteOption } from '../dataset-input.js';
 import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
 import {
   parseChoiceOption,
@@ -121,7 +122,11 @@ Example:
       }
       // The worker threads start while the data loads (about 0.1 s each, on the cores loading leaves idle).
       if (workers > 1) void startDiagramWorkers(workers - 1);
-      const dataset = expectKind(await loadDataset(input, { kind }), INPUT_KINDS, 'landform diagrams');
+      const dataset = expectKind(
+        await loadDataset(input, { kind, ...noteOption(options.quiet === true) }),
+        INPUT_KINDS,
+        'landform diagrams',
+      );
       if (embed !== undefined && dataset.kind !== 'signal') {
         throw new UserError(
           `--embed applies to signals, but this is a ${dataset.kind} dataset; drop --embed`,

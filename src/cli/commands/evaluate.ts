@@ -18,6 +18,7 @@ import { loadDataset, parseKind } from '../../io/load.js';
 import { MODEL_NAMES, type ModelName } from '../../learn/classifier.js';
 import type { EvaluationOptions } from '../../learn/evaluate.js';
 import type { LandscapeCandidate } from '../../learn/select.js';
+import { noteOption } from '../dataset-input.js';
 import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
 import {
   parseChoiceOption,
@@ -151,8 +152,15 @@ export function diagramRecord(kind: SampleKind, d: DiagramOptions): Record<strin
 }
 
 /** Loads a dataset and refuses an empty one or --embed on non-signals. */
-export async function loadStudyDataset(input: string, parsed: ParsedDiagramOptions): Promise<Dataset> {
-  const dataset = await loadDataset(input, parsed.kind === undefined ? {} : { kind: parsed.kind });
+export async function loadStudyDataset(
+  input: string,
+  parsed: ParsedDiagramOptions,
+  quiet = false,
+): Promise<Dataset> {
+  const dataset = await loadDataset(input, {
+    ...(parsed.kind === undefined ? {} : { kind: parsed.kind }),
+    ...noteOption(quiet),
+  });
   if (dataset.samples.length === 0) throw new UserError('has no samples; nothing to do', { file: input });
   if (parsed.diagramOptions.embed !== undefined && dataset.kind !== 'signal') {
     throw new UserError(`--embed applies to signals, but this is a ${dataset.kind} dataset; drop --embed`, {
@@ -233,7 +241,7 @@ export async function parseStudy(
   const landscapeAsked = (sets: readonly FeatureSetName[]): boolean =>
     sets.includes('landscape') || sets.includes('combined');
   if (requested === undefined || landscapeAsked(requested)) checkFeatureColumns(columns, columnOptions);
-  const dataset = await loadStudyDataset(input, parsed);
+  const dataset = await loadStudyDataset(input, parsed, o.quiet === true);
   const featureSets =
     requested ?? (singleFeatureSet ? featureSetsFor(dataset.kind).slice(0, 1) : featureSetsFor(dataset.kind));
   for (const set of featureSets) checkFeatureSet(set, dataset.kind);

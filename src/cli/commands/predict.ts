@@ -85,7 +85,7 @@ Example:
           ...(o.kind !== undefined ? { kind: parseKind(o.kind) } : {}),
           ...(workers !== undefined ? { workers } : {}),
         };
-        const dataset = await loadStudyDataset(input, parsed);
+        const dataset = await loadStudyDataset(input, parsed, o.quiet === true);
         if (dataset.kind !== record.kind) {
           throw new UserError(
             `is a ${dataset.kind} dataset, but the model was trained on ${record.kind} samples; give ${record.kind} samples`,

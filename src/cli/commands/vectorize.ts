@@ -177,7 +177,7 @@ Example:
         };
         learnsFromSamples = set !== 'landscape' || grid === undefined || o.standardize === true;
       }
-      const dataset = await loadStudyDataset(input, parsed);
+      const dataset = await loadStudyDataset(input, parsed, o.quiet === true);
       checkFeatureSet(extractor.set, dataset.kind);
       const shapeProblem = modelShape && sampleShapeProblem(modelShape, dataset);
       if (shapeProblem) throw new UserError(shapeProblem, { file: input });
