@@ -69,3 +69,44 @@ describe('UTF-8 checks of text inputs', () => {
     expect(fault(() => cut.end()).line).toBe(2);
   });
 });
+
+describe('Utf8Stream against the WHATWG fatal decoder, chunk by chunk', () => {
+  it('accepts and decodes exactly what the fatal decoder accepts, whatever the cuts', () => {
+    // Reference: TextDecoder('utf-8', {fatal: true}) over the whole input (WHATWG Encoding Standard, 2024).
+    const piece = fc.oneof(
+      fc.constantFrom(...['a', '\n', 'é', '€', '😀', '\r\n'].map((t) => [...Buffer.from(t)])),
+      fc.array(fc.integer({ min: 0, max: 255 }), { maxLength: 2 }),
+    );
+    fc.assert(
+      fc.property(
+        fc.array(piece, { maxLength: 12 }),
+        fc.array(fc.integer({ min: 1, max: 5 }), { minLength: 1 }),
+        (pieces, cuts) => {
+          const bytes = Uint8Array.from(pieces.flat());
+          let expected: string | undefined;
+          try {
+            expected = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
+          } catch {
+            expected = undefined;
+          }
+          const stream = new Utf8Stream('s.txt');
+          let got: string | undefined = '';
+          try {
+            let at = 0;
+            for (let k = 0; at < bytes.length; k++) {
+              const next = Math.min(bytes.length, at + cuts[k % cuts.length]);
+              got += stream.decode(bytes.subarray(at, next));
+              at = next;
+            }
+            got += stream.end();
+          } catch (error) {
+            if (!(error instanceof UserError)) throw error;
+            got = undefined;
+          }
+          expect(got).toBe(expected);
+        },
+      ),
+      { numRuns: 3000 },
+    );
+  });
+});
