@@ -114,6 +114,7 @@ Example:
       let fitted = false;
       let source: Record<string, unknown>;
       let modelShape: SampleShape | undefined;
+      let landscapeColumns: number | undefined;
       if (o.model !== undefined) {
         const { loadModelFolder } = await import('../../learn/model-folder.js');
         const { manifest } = await loadModelFolder(o.model);
@@ -150,11 +151,10 @@ Example:
         const grid = o.grid === undefined ? undefined : parseGridOption(o.grid, '--grid');
         const infinite = parseInfiniteOption(o.infinite, '--infinite');
         const bins = parseIntegerOption(o.bins, '--bins', 1, 100_000);
-        if (set === 'landscape' || set === 'combined')
-          checkFeatureColumns(
-            parsed.degrees.length * depth * (grid ? grid.count : gridSize),
-            '--degrees × --depth × --grid-size',
-          );
+        if (set === 'landscape' || set === 'combined') {
+          landscapeColumns = parsed.degrees.length * depth * (grid ? grid.count : gridSize);
+          checkFeatureColumns(landscapeColumns, COLUMN_OPTIONS);
+        }
         extractor = new FeatureExtractor(set, {
           landscape: {
             degrees: parsed.degrees,
@@ -179,6 +179,8 @@ Example:
       }
       const dataset = await loadStudyDataset(input, parsed, o.quiet === true);
       checkFeatureSet(extractor.set, dataset.kind);
+      if (landscapeColumns !== undefined)
+        checkFeatureColumns(landscapeColumns, COLUMN_OPTIONS, dataset.samples.length);
       const shapeProblem = modelShape && sampleShapeProblem(modelShape, dataset);
       if (shapeProblem) throw new UserError(shapeProblem, { file: input });
       if (shard !== undefined && learnsFromSamples) {
@@ -239,3 +241,6 @@ Example:
       );
     });
 }
+
+/** The options that set the landscape columns, as the budget's message names them. */
+const COLUMN_OPTIONS = '--degrees × --depth × --grid-size';
