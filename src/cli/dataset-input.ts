@@ -18,8 +18,15 @@ export async function loadInput(
       kind,
       ...(shape !== undefined ? { shape } : {}),
       onProgress: (done, total) => progress.update(done, total),
+      ...noteOption(options.quiet === true),
     });
   } finally {
     progress.stop();
   }
+}
+
+/** Loader notes as one stderr line each (`landform: note: …`), or nothing with --quiet. */
+export function noteOption(quiet: boolean): { onNote?: (message: string) => void } {
+  if (quiet) return {};
+  return { onNote: (message) => process.stderr.write(`landform: ${message.replace(/\r?\n/g, ' ')}\n`) };
 }

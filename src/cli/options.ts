@@ -1,5 +1,7 @@
+import { coreCount } from '../core/budgets.js';
 import { UserError } from '../core/errors.js';
 import { type InfinitePolicy, parseInfinitePolicy } from '../homology/diagram.js';
+import { isDecimalText } from '../io/csv.js';
 
 /** Parsers for option values; each throws the one-line user error naming the option. */
 
@@ -17,14 +19,32 @@ export function parseIntegerOption(
   return value;
 }
 
+/**
+ * `--workers N`: a whole number from 1 to `max`, capped at the machine's cores (os.availableParallelism()),
+ * with one line on stderr unless `quiet`. Capped rather than refused: threads beyond the cores add no speed,
+ * only memory (each holds its own heap and two samples), and a script may pass one count to machines of
+ * different sizes; the run is the same either way, only slower or faster.
+ */
+export function parseWorkersOption(text: string, quiet: boolean, max = 1024): number {
+  const wanted = parseIntegerOption(text, '--workers', 1, max);
+  const cores = coreCount();
+  if (wanted <= cores) return wanted;
+  if (!quiet) {
+    process.stderr.write(
+      `landform: --workers ${wanted} is more than the ${cores} core${cores === 1 ? '' : 's'} of this machine; using ${cores}\n`,
+    );
+  }
+  return cores;
+}
+
 export function parseNumberOption(
   text: string,
   option: string,
   check?: { positive?: boolean; min?: number; max?: number },
 ): number {
   const value = Number(text);
-  if (text.trim() === '' || !Number.isFinite(value))
-    throw new UserError(`${option} '${text}' is not a finite number`);
+  if (!isDecimalText(text.trim()) || !Number.isFinite(value))
+    throw new UserError(`${option} '${text}' is not a finite decimal number`);
   if (check?.positive && !(value > 0)) throw new UserError(`${option} '${text}' must be greater than 0`);
   if (check?.min !== undefined && value < check.min)
     throw new UserError(`${option} '${text}' must be at least ${check.min}`);

@@ -15,7 +15,7 @@ import {
 } from './filtration.js';
 import { filteredImage, IMAGE_FILTRATION_CHOICES } from './image-filtration.js';
 import { condenseMatrix, type Metric } from './metric.js';
-import { cloudRipsPersistence, ripsPersistence } from './rips.js';
+import { checkRipsFloor, cloudRipsPersistence, ripsPersistence } from './rips.js';
 import { type DelayEmbedding, delayEmbedding, signalPersistence } from './signal.js';
 import type { SubsampleSpec } from './subsample.js';
 
@@ -123,6 +123,9 @@ function diagramsOf(
       coveringRadius = cut.coveringRadius;
       const { matrix, size } = cut.sample;
       const chosen = cloudFiltration ?? 'rips';
+      // The condensed copy and the rank tables are refused before they are allocated (the matrix itself is loaded).
+      if (chosen === 'rips') checkRipsFloor(size, { sample: sample.id });
+      else checkRipsFloor(size, { sample: sample.id, withVertexValues: true, what: 'DTM' });
       diagrams =
         chosen === 'rips'
           ? ripsPersistence(size, condenseMatrix(matrix, size), {
@@ -210,6 +213,9 @@ function cloudDiagrams(
     }
   }
   const filtration = chosen ?? 'rips';
+  // Refused from the size of the cloud actually built (after any subsample), before the distances exist.
+  if (filtration === 'rips') checkRipsFloor(count, { sample: id });
+  else if (filtration !== 'alpha') checkRipsFloor(count, { sample: id, withVertexValues: true, what: 'DTM' });
   if (filtration !== 'rips')
     return cloudFiltrationDiagrams(coords, count, dim, {
       filtration,

@@ -18,7 +18,7 @@
 import type { Diagram } from './diagram.js';
 import { condenseMatrix, type Metric, pairwiseDistances } from './metric.js';
 import { nearestNeighbours, nearestNeighboursFromMatrix } from './nearest.js';
-import { type RipsOptions, ripsPersistence } from './rips.js';
+import { checkRipsFloor, type RipsOptions, ripsPersistence } from './rips.js';
 
 export interface DtmOptions {
   /** Highest homology degree, 0–2. */
@@ -43,6 +43,7 @@ export function dtmPersistence(
   options: DtmOptions,
 ): Diagram[] {
   const metric = options.metric ?? 'euclidean';
+  checkRipsFloor(count, { withVertexValues: true, memoryLimit: options.memoryLimit, what: 'DTM' });
   const condensed = pairwiseDistances(coords, count, dim, metric);
   const f =
     metric === 'euclidean' ? dtmValues(coords, count, dim, k) : dtmValuesFromCondensed(condensed, count, k);
@@ -56,6 +57,7 @@ export function dtmPersistenceFromMatrix(
   k: number,
   options: DtmOptions,
 ): Diagram[] {
+  checkRipsFloor(size, { withVertexValues: true, memoryLimit: options.memoryLimit, what: 'DTM' });
   const f = dtmValuesFromMatrix(matrix, size, k);
   return weightedRips(size, condenseMatrix(matrix, size), f, options);
 }

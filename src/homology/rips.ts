@@ -1,4 +1,4 @@
-import { freemem } from 'node:os';
+import { checkMemory, fitsMemory, formatBytes, memoryBudget } from '../core/budgets.js';
 import { UserError } from '../core/errors.js';
 import type { Diagram } from './diagram.js';
 import { collapseFiltration } from './edge-collapse.js';
@@ -192,6 +192,7 @@ export function cloudRipsPersistence(
     );
     if (diagrams !== undefined) return diagrams;
   }
+  checkRipsFloor(n, { memoryLimit: options.memoryLimit });
   return ripsPersistence(n, pairwiseDistances(coords, n, dim, metric), options);
 }
 
@@ -593,18 +594,36 @@ function lowDegreesOnKernel(n: number, options: RipsOptions): boolean {
   );
 }
 
-/** The memory budget of a computation: the limit given, or 80 % of free memory and at least 1 GiB. */
-function memoryBudget(limit?: number): number {
-  return limit ?? Math.max(2 ** 30, 0.8 * freemem());
-}
-
 /** Whether every edge kept fits the budget without degree 2 (the cheap bound of checkSize). */
 function cheapBoundFits(n: number, maxDegree: number, limit?: number): boolean {
   if (maxDegree >= 2) return false;
-  const bound = 4 * n * n + 72 * condensedLength(n);
-  // Within the smallest default budget there is no need to ask the system for free memory (a system call,
-  // 2% of the time of a cloud of 300 points).
-  return (limit === undefined && bound <= 2 ** 30) || bound <= memoryBudget(limit);
+  return fitsMemory(4 * n * n + 72 * condensedLength(n), limit);
+}
+
+/**
+ * Bytes any Rips computation on n vertices holds whatever its scale: the condensed edge values (8 bytes a
+ * pair; 8 more for the values raised by vertex values), the rank of every pair (4) and the dense rank table
+ * (4n²). Known from n alone, so it is checked before the distances are computed.
+ */
+export function ripsFloorBytes(n: number, withVertexValues = false): number {
+  const pairs = condensedLength(n);
+  return (withVertexValues ? 20 : 12) * pairs + 4 * n * n;
+}
+
+/**
+ * Refuses, before anything is allocated, a Rips computation on n vertices whose scale-independent memory
+ * (ripsFloorBytes) exceeds the budget (src/core/budgets.ts). `what` names the filtration in the message.
+ */
+export function checkRipsFloor(
+  n: number,
+  options: { withVertexValues?: boolean; memoryLimit?: number; what?: string; sample?: string } = {},
+): void {
+  checkMemory(
+    ripsFloorBytes(n, options.withVertexValues === true),
+    `${options.sample === undefined ? '' : `sample '${options.sample}': `}the ${options.what ?? 'Rips'} filtration of ${n} points (${condensedLength(n)} pairwise distances)`,
+    'subsample the cloud (--subsample maxmin:N or random:N) or split it',
+    options.memoryLimit,
+  );
 }
 
 function checkSize(
@@ -614,12 +633,12 @@ function checkSize(
   maxDegree: number,
   limit?: number,
 ): void {
-  const budget = memoryBudget(limit);
   // Without degree 2, every edge kept is a cheap upper bound; count exactly only when it does not fit.
   if (cheapBoundFits(n, maxDegree, limit)) return;
+  const budget = memoryBudget(limit);
   const { bytes, edges, triangles } = estimateRipsBytes(n, values, threshold, maxDegree);
   if (bytes > budget) {
-    const mb = (x: number): string => `${Math.round(x / 2 ** 20)} MB`;
+    const mb = formatBytes;
     const what =
       maxDegree >= 2 ? `${edges} edges and about ${Math.round(triangles)} triangles` : `${edges} edges`;
     throw new UserError(

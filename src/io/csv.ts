@@ -2,6 +2,7 @@ import { readFileSync, statSync } from 'node:fs';
 import { gunzipSync } from 'node:zlib';
 import { parse } from 'csv-parse/sync';
 import { UserError } from '../core/errors.js';
+import { decodeUtf8 } from './utf8.js';
 
 /** One CSV record with the 1-based line it starts on. */
 export interface CsvRow {
@@ -18,9 +19,10 @@ export function readTextFile(file: string): string {
     throw new UserError('file not found; check the path', { file });
   }
   if (!isFile) throw new UserError('is a folder, not a file; give a file', { file });
-  if (!/\.gz$/i.test(file)) return readFileSync(file, 'utf8');
+  if (!/\.gz$/i.test(file)) return decodeUtf8(readFileSync(file), file);
+  let bytes: Buffer;
   try {
-    return gunzipSync(readFileSync(file)).toString('utf8');
+    bytes = gunzipSync(readFileSync(file));
   } catch {
     throw new UserError(
       'not a readable gzip file (damaged or cut short); compress it again or give the plain CSV',
@@ -29,6 +31,7 @@ export function readTextFile(file: string): string {
       },
     );
   }
+  return decodeUtf8(bytes, file);
 }
 
 /** Parses CSV text into rows with line numbers. Empty lines are skipped; ragged rows are left to the caller. */
@@ -102,6 +105,27 @@ export function csvNumber(value: number): string {
   return String(value);
 }
 
+/**
+ * Whether `text` (already trimmed) is written as a decimal number, the only form a data file may use.
+ * JavaScript's Number() also reads `0x1A` (26), `0b1`, `0o7`, `Infinity` and text that is only white space
+ * (as 0); each of those is refused. Cheap enough for every field: two character tests and, for a leading
+ * zero, a third. A decimal number starts with a digit, a sign or a point and ends with a digit or a point.
+ */
+export function isDecimalText(text: string): boolean {
+  const n = text.length;
+  if (n === 0) return false;
+  const first = text.charCodeAt(0);
+  const last = text.charCodeAt(n - 1);
+  if (!((first >= 48 && first <= 57) || first === 43 || first === 45 || first === 46)) return false;
+  if (!((last >= 48 && last <= 57) || last === 46)) return false;
+  // 0x…, 0b…, 0o… (Number() reads them unsigned only, so the prefix is at the start).
+  if (first === 48 && n > 2) {
+    const second = text.charCodeAt(1) | 0x20;
+    if (second === 0x78 || second === 0x62 || second === 0x6f) return false;
+  }
+  return true;
+}
+
 /** Parses a numeric CSV field, or throws the one-line error naming file, line and column. */
 export function parseNumberField(
   text: string,
@@ -112,9 +136,16 @@ export function parseNumberField(
   if (allow.infinite && (t === 'inf' || t === '+inf' || t === 'infinity' || t === '+infinity'))
     return Infinity;
   const infinite = /^[+-]?inf(inity)?$/.test(t);
-  const value = t === '' ? Number.NaN : infinite ? (t.startsWith('-') ? -Infinity : Infinity) : Number(t);
+  const value = infinite
+    ? t.startsWith('-')
+      ? -Infinity
+      : Infinity
+    : isDecimalText(t)
+      ? Number(t)
+      : Number.NaN;
   if (Number.isNaN(value)) {
-    throw new UserError(`'${shown(text)}' is not a number in column ${shown(where.column)}`, where);
+    const hint = /^0[xbo]/.test(t) ? ' (write numbers in decimal)' : '';
+    throw new UserError(`'${shown(text)}' is not a number in column ${shown(where.column)}${hint}`, where);
   }
   if (!Number.isFinite(value)) {
     throw new UserError(`'${shown(text)}' is not a finite number in column ${shown(where.column)}`, where);

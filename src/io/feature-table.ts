@@ -5,6 +5,7 @@ import type { Matrix } from '../learn/matrix.js';
 import { csvField, csvNumber, parseCsv, shown } from './csv.js';
 import { formatNpy, readNpy } from './npy.js';
 import { writeWithProvenance } from './provenance-file.js';
+import { decodeUtf8 } from './utf8.js';
 
 /**
  * A feature table: one row of named numeric features per sample. Written as
@@ -112,7 +113,7 @@ export function readSamplesSidecar(
       { file: arrayFile },
     );
   }
-  const rows = parseCsv(readFileSync(file, 'utf8'), file);
+  const rows = parseCsv(decodeUtf8(readFileSync(file), file), file);
   if (rows.length === 0) throw new UserError('empty file; expected the header sample,label', { file });
   const header = rows[0].fields.map((f) => f.toLowerCase());
   if (header[0] !== 'sample' || header[1] !== 'label' || header.length !== 2) {
@@ -154,7 +155,7 @@ export function readSamplesSidecar(
 /** Reads the `column` sidecar, or undefined when there is none. */
 export function readColumnsSidecar(file: string, expected: number): string[] | undefined {
   if (!existsSync(file)) return undefined;
-  const rows = parseCsv(readFileSync(file, 'utf8'), file);
+  const rows = parseCsv(decodeUtf8(readFileSync(file), file), file);
   if (rows.length === 0 || rows[0].fields[0]?.toLowerCase() !== 'column') {
     throw new UserError("the header must be 'column', then one feature name per line", {
       file,

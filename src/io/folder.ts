@@ -21,6 +21,8 @@ import { parseNpy } from './npy.js';
 export interface FolderOptions {
   kind?: SampleKind;
   onProgress?: (done: number, total: number) => void;
+  /** Receives the note of detectKind when square matrices fail the distance checks (see distancesFallback). */
+  onNote?: (message: string) => void;
 }
 
 /** Relative tolerance of the distance-matrix checks (common practice, no source). */
@@ -133,6 +135,45 @@ function detectKind(arrays: SampleArray[]): SampleKind {
   return square ? 'distances' : 'points';
 }
 
+/**
+ * Why a folder that looks like distance matrices was read as point clouds, or undefined when it does not look
+ * like them. It looks like them when every array is a square 2-D matrix, or when some are valid distance
+ * matrices; the note names the first file that is not one and the check it failed. A note rather than an
+ * error: n points in n dimensions are a square matrix too, and a legitimate point cloud must stay readable
+ * (`--kind distances` turns the fallback into the error, `--kind points` silences it).
+ */
+export function distancesFallback(
+  entries: readonly LabelledFile[],
+  arrays: readonly SampleArray[],
+): string | undefined {
+  const square = (a: SampleArray): boolean =>
+    a.shape.length === 2 && a.shape[0] === a.shape[1] && a.shape[0] >= 2;
+  let valid = 0;
+  let first = -1;
+  let reason = '';
+  for (let k = 0; k < arrays.length; k++) {
+    const a = arrays[k];
+    if (!square(a)) {
+      if (first < 0) {
+        first = k;
+        reason = `is ${a.shape.join(' × ')}, not square`;
+      }
+      continue;
+    }
+    const fault = distanceFault(a.shape[0], a.data);
+    if (fault === undefined) valid++;
+    else if (first < 0) {
+      first = k;
+      const line = a.lines.length > 0 ? ` (line ${a.lines[fault.row]})` : '';
+      reason = `${fault.message}${line}`;
+    }
+  }
+  if (first < 0) return undefined;
+  const allSquare = arrays.every(square);
+  if (!allSquare && valid === 0) return undefined;
+  return `note: read as point clouds, not distance matrices: ${shown(entries[first].file)} ${reason}; give --kind distances to be refused with the reason, or --kind points to silence this`;
+}
+
 export async function loadFolder(folder: string, options: FolderOptions = {}): Promise<Dataset> {
   const labelsFile = `${folder.replace(/[\\/]+$/, '')}/${LABELS_FILE}`;
   const entries = readLabelsFile(folder);
@@ -142,6 +183,10 @@ export async function loadFolder(folder: string, options: FolderOptions = {}): P
     options.onProgress?.(k + 1, entries.length);
   }
   const kind = options.kind ?? detectKind(arrays);
+  if (options.kind === undefined && kind === 'points' && options.onNote) {
+    const note = distancesFallback(entries, arrays);
+    if (note !== undefined) options.onNote(note);
+  }
   const samples: Sample[] = [];
   let dim = -1;
   let rank = -1;

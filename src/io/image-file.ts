@@ -1,3 +1,4 @@
+import { IMAGE_PIXEL_BUDGET } from '../core/budgets.js';
 import { UserError } from '../core/errors.js';
 import { shown } from './csv.js';
 
@@ -59,19 +60,19 @@ export function parsePgm(bytes: Uint8Array, file: string): GrayImage {
   const width = header('width', 1 << 16);
   const height = header('height', 1 << 16);
   const maxValue = header('maxval', 65535);
+  checkPixels(width, height, file);
   const count = width * height;
+  // A binary raster's length is checked before the values are allocated.
+  if (magic === 'P5') p++; // exactly one white-space byte separates the header from the raster
+  const bytesPer = maxValue < 256 ? 1 : 2;
+  if (magic === 'P5' && bytes.length - p < count * bytesPer) {
+    throw new UserError(
+      `truncated PGM: ${width}×${height} needs ${count * bytesPer} bytes of pixels, found ${bytes.length - p}`,
+      { file },
+    );
+  }
   const values = new Float64Array(count);
   if (magic === 'P5') {
-    p++; // exactly one white-space byte separates the header from the raster
-    const bytesPer = maxValue < 256 ? 1 : 2;
-    if (bytes.length - p < count * bytesPer) {
-      throw new UserError(
-        `truncated PGM: ${width}×${height} needs ${count * bytesPer} bytes of pixels, found ${bytes.length - p}`,
-        {
-          file,
-        },
-      );
-    }
     // Invariant: values[0..i) hold the first i pixels.
     if (bytesPer === 1) for (let i = 0; i < count; i++) values[i] = bytes[p + i];
     else for (let i = 0; i < count; i++) values[i] = (bytes[p + 2 * i] << 8) | bytes[p + 2 * i + 1];
@@ -119,8 +120,36 @@ export function formatPgm(
   return out;
 }
 
-/** Decodes a PNG (any colour type, 8 or 16 bits) into grey levels. */
+/** Refuses an image above IMAGE_PIXEL_BUDGET (src/core/budgets.ts) from its header, before it is decoded. */
+export function checkPixels(width: number, height: number, file: string): void {
+  const pixels = width * height;
+  if (pixels > IMAGE_PIXEL_BUDGET) {
+    throw new UserError(
+      `the image is ${width} × ${height} = ${pixels} pixels, above the limit of ${IMAGE_PIXEL_BUDGET} pixels an image; scale it down or cut it into tiles`,
+      { file },
+    );
+  }
+}
+
+/**
+ * Width and height from a PNG's IHDR chunk (the first chunk, at bytes 16–23, big-endian; W3C, "Portable
+ * Network Graphics (PNG) Specification (Third Edition)", 2025, section 11.2.1), or undefined when the bytes do
+ * not start as a PNG does (the decoder then words the error).
+ */
+export function pngSize(bytes: Uint8Array): { width: number; height: number } | undefined {
+  if (bytes.length < 24) return undefined;
+  for (let i = 0; i < 8; i++) if (bytes[i] !== PNG_SIGNATURE[i]) return undefined;
+  if (bytes[12] !== 0x49 || bytes[13] !== 0x48 || bytes[14] !== 0x44 || bytes[15] !== 0x52) return undefined;
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  return { width: view.getUint32(16), height: view.getUint32(20) };
+}
+
+const PNG_SIGNATURE = [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a];
+
+/** Decodes a PNG (any colour type, 8 or 16 bits) into grey levels; the size is checked before decoding. */
 export async function parsePng(bytes: Uint8Array, file: string): Promise<GrayImage> {
+  const size = pngSize(bytes);
+  if (size !== undefined) checkPixels(size.width, size.height, file);
   const { PNG } = (await import('pngjs')).default;
   let png: { width: number; height: number; data: ArrayLike<number>; depth?: number };
   try {

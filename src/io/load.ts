@@ -38,6 +38,8 @@ export interface LoadOptions {
   onProgress?: (done: number, total: number) => void;
   /** The shape of every image of an image table CSV: [rows, columns] or [depth, rows, columns]. */
   shape?: number[];
+  /** Receives one-line notes on choices made while reading (a folder of square matrices read as points). */
+  onNote?: (message: string) => void;
 }
 
 /** `28x28` or `DxHxW` (each a whole number ≥ 1) → the shape; a UserError otherwise. */

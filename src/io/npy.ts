@@ -155,6 +155,13 @@ export function parseNpy(bytes: Uint8Array, file: string): NpyArray {
       { file },
     );
   }
+  if (bytes.length - offset > need) {
+    // numpy.save writes exactly the data of the shape; more means a wrong header or two arrays in one file.
+    throw new UserError(
+      `the .npy data is longer than its shape: (${shape.join(', ')}) needs ${need} bytes, the file has ${bytes.length - offset}; save the array again with numpy.save`,
+      { file },
+    );
+  }
   // Little-endian float64 at an 8-byte-aligned address (the header pads to 64 bytes) is used in place, without
   // a copy: the result then shares memory with `bytes`. Anything else is converted value by value.
   const start8 = bytes.byteOffset + offset;

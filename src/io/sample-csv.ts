@@ -1,10 +1,10 @@
 import { createReadStream, statSync } from 'node:fs';
-import type { Readable } from 'node:stream';
-import { StringDecoder } from 'node:string_decoder';
+import { type Readable, Transform } from 'node:stream';
 import { createGunzip } from 'node:zlib';
 import { CsvError, parse } from 'csv-parse';
 import { UserError } from '../core/errors.js';
-import { CSV_OPTIONS, isBlankRecord, lineBreaksIn, parseNumberField, shown } from './csv.js';
+import { CSV_OPTIONS, isBlankRecord, isDecimalText, lineBreaksIn, parseNumberField, shown } from './csv.js';
+import { Utf8Stream } from './utf8.js';
 
 /**
  * Streams a CSV of the shape `sample,label,<numeric columns>` (the long layout shared by points, signals and
@@ -174,14 +174,15 @@ function progressStream(file: string, options: SampleCsvOptions): ReturnType<typ
 /** The records of a file without quotes (see readSampleCsv); false at the first chunk with a quote. */
 export const plainRecords: RecordSource = async (file, options, take) => {
   const stream = progressStream(file, options);
-  const decoder = new StringDecoder('utf8');
+  const decoder = new Utf8Stream(file);
   let carry = '';
   let line = 1;
   let started = false;
   try {
     for await (const chunk of stream as AsyncIterable<Buffer>) {
       if (chunk.indexOf(QUOTE) >= 0) return false;
-      let text = carry + decoder.write(chunk);
+      // The chunk starts on the line after the last one taken plus those in the unfinished rest (a CR at most).
+      let text = carry + decoder.decode(chunk, line + (carry.endsWith('\r') && chunk[0] !== 10 ? 1 : 0));
       if (!started && text.length > 0) {
         started = true;
         if (text.charCodeAt(0) === BOM) text = text.slice(1);
@@ -190,7 +191,7 @@ export const plainRecords: RecordSource = async (file, options, take) => {
       line = end.line;
       carry = text.slice(end.rest);
     }
-    let text = carry + decoder.end();
+    let text = carry + decoder.end(line);
     if (!started && text.charCodeAt(0) === BOM) text = text.slice(1);
     splitLines(text, line, true, take);
   } catch (error) {
@@ -262,7 +263,8 @@ const parsedRecords: RecordSource = async (file, options, take) => {
   // No `info` records: they cost about half of csv-parse's time (measured) and their line counts are off
   // after blank lines; lines are counted from the records instead (see CSV_OPTIONS).
   const source = openText(file, stream);
-  const parser = source.pipe(parse(CSV_OPTIONS));
+  const checked = source.pipe(utf8Check(file));
+  const parser = checked.pipe(parse(CSV_OPTIONS));
   let nextLine = 1;
   await new Promise<void>((resolve, reject) => {
     let failed = false;
@@ -271,11 +273,13 @@ const parsedRecords: RecordSource = async (file, options, take) => {
       failed = true;
       stream.destroy();
       source.destroy();
+      checked.destroy();
       parser.destroy();
       reject(csvSyntaxError(error, file));
     };
     stream.on('error', fail);
     source.on('error', fail);
+    checked.on('error', fail);
     parser.on('error', fail);
     parser.on('readable', () => {
       try {
@@ -296,6 +300,29 @@ const parsedRecords: RecordSource = async (file, options, take) => {
   });
   return true;
 };
+
+/** Passes bytes through unchanged, failing at the first byte that is not UTF-8 with its line (utf8.ts). */
+function utf8Check(file: string): Transform {
+  const decoder = new Utf8Stream(file);
+  return new Transform({
+    transform(chunk: Buffer, _encoding, done) {
+      try {
+        decoder.decode(chunk);
+        done(null, chunk);
+      } catch (error) {
+        done(error as Error);
+      }
+    },
+    flush(done) {
+      try {
+        decoder.end();
+        done();
+      } catch (error) {
+        done(error as Error);
+      }
+    },
+  });
+}
 
 /** The samples of `file`, its records read by `source`; undefined when the source gave the file up. */
 async function collectSamples(
@@ -362,7 +389,7 @@ async function collectSamples(
     for (let c = 2; c < record.length; c++) {
       const text = record[c];
       const v = Number(text);
-      if (text === '' || !Number.isFinite(v)) {
+      if (!Number.isFinite(v) || !isDecimalText(text)) {
         parseNumberField(text, { file, line, column: header[c] });
         throw new UserError(`'${shown(text)}' is not a number in column ${shown(header[c])}`, { file, line });
       }

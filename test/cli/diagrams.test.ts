@@ -1,4 +1,5 @@
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseDiagramCsv } from '../../src/io/diagram-csv.js';
@@ -126,4 +127,62 @@ describe('landform diagrams', () => {
     expect(embed.stderr).toMatch(/DIM:DELAY/);
     expect(embed.stderr.trim().split('\n').length).toBe(1);
   }, 60000);
+});
+
+describe('landform diagrams: resource guards', () => {
+  it('caps --workers 1000 at the cores of the machine with one line on stderr, silent with --quiet', () => {
+    const dir = tempDir();
+    const input = join(dir, 'struts.csv');
+    writeFileSync(input, ringsCsv());
+    const cores = availableParallelism();
+    const many = runCli([
+      'diagrams',
+      input,
+      '--degrees',
+      '0,1',
+      '--workers',
+      '1000',
+      '--out',
+      join(dir, 'many.csv'),
+    ]);
+    expect(many.code).toBe(0);
+    expect(many.stderr).toBe(
+      `landform: --workers 1000 is more than the ${cores} core${cores === 1 ? '' : 's'} of this machine; using ${cores}\n`,
+    );
+    const one = runCli([
+      'diagrams',
+      input,
+      '--degrees',
+      '0,1',
+      '--workers',
+      '1',
+      '--quiet',
+      '--out',
+      join(dir, 'one.csv'),
+    ]);
+    expect(one.code).toBe(0);
+    // The diagrams do not depend on the thread count.
+    expect(readFileSync(join(dir, 'many.csv'), 'utf8')).toBe(readFileSync(join(dir, 'one.csv'), 'utf8'));
+    const quiet = runCli(['diagrams', input, '--workers', '1000', '--quiet', '--out', join(dir, 'q.csv')]);
+    expect(quiet.code).toBe(0);
+    expect(quiet.stderr).toBe('');
+  });
+
+  it('refuses a 60,000-point cloud in one line before computing its distances', () => {
+    const dir = tempDir();
+    const input = join(dir, 'big.csv');
+    const rows = ['sample,label,x,y'];
+    for (let i = 0; i < 60_000; i++) rows.push(`big,a,${(i % 250) / 250},${Math.floor(i / 250) / 240}`);
+    writeFileSync(input, rows.join('\n') + '\n');
+    const r = runCli(['diagrams', input, '--workers', '1', '--out', join(dir, 'd.csv')], {
+      env: { LANDFORM_MEMORY_LIMIT: '8G' },
+    });
+    expect(r.code).toBe(2);
+    // 60,000 points need 12 bytes a pair and 4n² bytes before any scale is known: 33.5 GiB.
+    expect(r.stderr).toMatch(
+      /^landform: sample 'big': the Rips filtration of 60000 points \(1799970000 pairwise distances\) needs about 33\.5 GB of memory \(limit 8192 MB, set by LANDFORM_MEMORY_LIMIT\); subsample the cloud/,
+    );
+    expect(r.stderr.split('\n')).toHaveLength(2);
+    expect(existsSync(join(dir, 'd.csv'))).toBe(false);
+  });
 });

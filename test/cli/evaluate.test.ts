@@ -102,3 +102,36 @@ describe('landform evaluate', () => {
     expect(readdirSync(dir).some((f) => f === 'one' || f === 'm')).toBe(false);
   });
 });
+
+describe('landform evaluate: feature budget', () => {
+  it('refuses --depths 10000 --grid-sizes 10000 before loading the data, and a matrix over the memory limit', () => {
+    const dir = tempDir();
+    const input = join(dir, 'shapes.csv');
+    writeShapes(input, 3, 10);
+    const r = runCli([
+      'evaluate',
+      input,
+      '--depths',
+      '10000',
+      '--grid-sizes',
+      '10000',
+      '--out',
+      join(dir, 'out'),
+    ]);
+    // Degrees 0,1 (the default) × 10,000 layers × 10,000 points.
+    expect(r.stderr).toBe(
+      'landform: --degrees × --depths × --grid-sizes make 200000000 feature columns a sample, above the limit of 200000; use fewer layers or grid points\n',
+    );
+    expect(r.code).toBe(2);
+    expect(existsSync(join(dir, 'out'))).toBe(false);
+    // 6 samples × 2 × 100 × 1000 columns × 8 bytes × 4 copies = 38.4 MB, above a 16 MB limit.
+    const m = runCli(
+      ['evaluate', input, '--depths', '100', '--grid-sizes', '1000', '--out', join(dir, 'm')],
+      { env: { LANDFORM_MEMORY_LIMIT: '16M' } },
+    );
+    expect(m.stderr).toMatch(
+      /^landform: a feature matrix of 6 samples × 200000 columns \(4 copies of float64\) needs about 37 MB of memory \(limit 16 MB, set by LANDFORM_MEMORY_LIMIT\)/,
+    );
+    expect(m.code).toBe(2);
+  });
+});

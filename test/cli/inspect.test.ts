@@ -67,3 +67,20 @@ describe('landform inspect', () => {
     expect(quiet).not.toMatch(/loading \[/);
   });
 });
+
+describe('landform inspect: a distances folder that falls back to points', () => {
+  it('prints one note on stderr naming the failing file and check, and none with --quiet', () => {
+    const dir = tempDir();
+    writeFileSync(join(dir, 'm.csv'), '0,1,2\n1,0,1.5\n2,1.6,0\n');
+    writeFileSync(join(dir, 'labels.csv'), 'file,label\nm.csv,a\n');
+    const r = runCli(['inspect', dir]);
+    expect(r.code).toBe(0);
+    expect(r.stderr).toBe(
+      'landform: note: read as point clouds, not distance matrices: m.csv not symmetric: entry (2, 3) is 1.5 but (3, 2) is 1.6 (line 2); give --kind distances to be refused with the reason, or --kind points to silence this\n',
+    );
+    expect(runCli(['inspect', dir, '--quiet']).stderr).toBe('');
+    const strict = runCli(['inspect', dir, '--kind', 'distances']);
+    expect(strict.code).toBe(2);
+    expect(strict.stderr).toMatch(/m\.csv:2: not symmetric/);
+  });
+});

@@ -2,6 +2,7 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { LANDSCAPE_VALUE_BUDGET } from '../../src/core/budgets.js';
 import { runCli, tempDir } from '../helpers/cli.js';
 
 const root = resolve(dirname(new URL(import.meta.url).pathname), '../..');
@@ -243,5 +244,46 @@ describe('landform landscape', () => {
     ]) {
       expect(loaded.includes(heavy), heavy).toBe(false);
     }
+  });
+});
+
+describe('landform landscape: output budget', () => {
+  it('refuses --grid 0:1:1000000 over two samples before sampling, giving the count and the limit', () => {
+    const dir = tempDir();
+    const r = runCli([
+      'landscape',
+      writeDiagrams(dir),
+      '--degree',
+      '1',
+      '--grid',
+      '0:1:1000000',
+      '--out',
+      join(dir, 'l.json'),
+    ]);
+    // 2 samples × 5 layers (the default depth) × 1,000,000 points = 10,000,000 values.
+    expect(r.stderr).toBe(
+      `landform: 2 samples × 5 layers × 1000000 grid points make 10000000 values, above the limit of ${LANDSCAPE_VALUE_BUDGET}; use a coarser --grid, a smaller --depth or one --sample\n`,
+    );
+    expect(r.code).toBe(2);
+    expect(existsSync(join(dir, 'l.json'))).toBe(false);
+    // One sample at the same grid, depth 1: 1,000,000 values, within the limit. At t = 1, λ1 = 1 from the
+    // pair (0, 4) (λ_k(t) = k-th largest of max(0, min(t − b, d − t)); Chazal, Fasy, Lecci, Rinaldo,
+    // Wasserman, 2014).
+    const one = runCli([
+      'landscape',
+      writeDiagrams(dir),
+      '--sample',
+      'ring-1',
+      '--degree',
+      '1',
+      '--depth',
+      '1',
+      '--grid',
+      '0:1:1000000',
+    ]);
+    expect(one.code).toBe(0);
+    const layers = JSON.parse(one.stdout).layers;
+    expect(layers[0].length).toBe(1_000_000);
+    expect(layers[0][999_999]).toBeCloseTo(1, 12);
   });
 });

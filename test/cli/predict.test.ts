@@ -89,4 +89,22 @@ describe('landform predict', () => {
     expect(out[0]).toBe('sample,predicted,score:broken-strut,score:intact,score:merged-cells');
     expect(out).toHaveLength(7);
   });
+
+  it('refuses 3-D points for a model trained on 2-D points, naming the file', () => {
+    expect(trained.code).toBe(0);
+    const manifest = JSON.parse(readFileSync(join(model, 'manifest.json'), 'utf8'));
+    expect(manifest.record.sampleShape).toEqual({ dim: 2 });
+    const cube = join(dir, 'cube.csv');
+    const rows = ['sample,label,x,y,z'];
+    for (let i = 0; i < 8; i++) rows.push(`corner,,${i & 1},${(i >> 1) & 1},${(i >> 2) & 1}`);
+    writeFileSync(cube, `${rows.join('\n')}\n`);
+    const r = runCli(['predict', model, cube, '--workers', '1']);
+    expect(r.stderr).toBe(
+      `landform: ${cube}: has points in 3 dimensions, but the model was trained on points in 2; give 2-D points or train a model on these\n`,
+    );
+    expect(r.code).toBe(2);
+    const v = runCli(['vectorize', cube, '--model', model, '--out', join(dir, 'v.csv')]);
+    expect(v.stderr).toMatch(/has points in 3 dimensions, but the model was trained on points in 2/);
+    expect(v.code).toBe(2);
+  });
 });

@@ -51,3 +51,26 @@ describe('landform train', () => {
     );
   });
 });
+
+describe('landform train: feature budget', () => {
+  it('refuses --depths 10000 --grid-sizes 10000 in one line', () => {
+    const dir = tempDir();
+    const input = join(dir, 'shapes.csv');
+    writeShapes(input, 3, 10);
+    const r = runCli([
+      'train',
+      input,
+      '--depths',
+      '10000',
+      '--grid-sizes',
+      '10000',
+      '--save',
+      join(dir, 'model'),
+    ]);
+    expect(r.stderr).toMatch(
+      /^landform: --degrees × --depths × --grid-sizes make 200000000 feature columns a sample, above the limit of 200000/,
+    );
+    expect(r.code).toBe(2);
+    expect(existsSync(join(dir, 'model'))).toBe(false);
+  });
+});

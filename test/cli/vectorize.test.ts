@@ -82,3 +82,19 @@ describe('landform vectorize', () => {
     expect(existsSync(join(dir, 'never.csv'))).toBe(false);
   });
 });
+
+describe('landform vectorize: feature budget', () => {
+  it('refuses --depth 1000 --grid-size 100000 before loading, with the column count and the limit', () => {
+    const dir = tempDir();
+    const input = join(dir, 'shapes.csv');
+    writeShapes(input, 2, 10);
+    const out = join(dir, 'f.csv');
+    const r = runCli(['vectorize', input, '--depth', '1000', '--grid-size', '100000', '--out', out]);
+    // Degrees 0,1 × 1,000 layers × 100,000 points.
+    expect(r.stderr).toBe(
+      'landform: --degrees × --depth × --grid-size make 200000000 feature columns a sample, above the limit of 200000; use fewer layers or grid points\n',
+    );
+    expect(r.code).toBe(2);
+    expect(existsSync(out)).toBe(false);
+  });
+});

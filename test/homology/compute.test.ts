@@ -1,7 +1,11 @@
-import { describe, expect, it } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { MEMORY_LIMIT_VARIABLE } from '../../src/core/budgets.js';
+import { UserError } from '../../src/core/errors.js';
+import { Random } from '../../src/core/random.js';
 import { computeDiagrams } from '../../src/homology/compute.js';
 import { parseFiltrationList } from '../../src/homology/filtration.js';
 import { pairwiseDistances } from '../../src/homology/metric.js';
+import { ripsFloorBytes } from '../../src/homology/rips.js';
 import type { DistanceSample, ImageSample, PointSample } from '../../src/io/dataset.js';
 
 function square(): PointSample {
@@ -161,5 +165,82 @@ describe('computeDiagrams with several filtrations', () => {
     expect(() => computeDiagrams(square(), { degrees: [0], filtration: { kind: 'distance' } })).toThrow(
       /--filtration distance applies to images only/,
     );
+  });
+});
+
+describe('memory guard before the distances are built', () => {
+  let saved: string | undefined;
+  beforeEach(() => {
+    saved = process.env[MEMORY_LIMIT_VARIABLE];
+  });
+  afterEach(() => {
+    if (saved === undefined) delete process.env[MEMORY_LIMIT_VARIABLE];
+    else process.env[MEMORY_LIMIT_VARIABLE] = saved;
+  });
+
+  function cloud(count: number, seed = 7): PointSample {
+    const random = new Random(seed);
+    const coords = new Float64Array(2 * count);
+    for (let i = 0; i < coords.length; i++) coords[i] = random.uniform();
+    return { kind: 'points', id: 'big', label: 'a', dim: 2, count, coords };
+  }
+
+  it('refuses a 60,000-point Rips cloud from its size alone, naming the need and the limit', () => {
+    process.env[MEMORY_LIMIT_VARIABLE] = '8G';
+    // 60,000 points: n(n − 1)/2 = 1,799,970,000 pairs × 12 bytes + 4n² = 35,999,640,000 bytes = 33.5 GiB
+    // (arithmetic on the layout described at ripsFloorBytes).
+    expect(ripsFloorBytes(60_000)).toBe(35_999_640_000);
+    const before = process.memoryUsage().arrayBuffers;
+    let error: unknown;
+    try {
+      computeDiagrams(cloud(60_000), { degrees: [0, 1] });
+    } catch (e) {
+      error = e;
+    }
+    expect(error).toBeInstanceOf(UserError);
+    const message = (error as UserError).message;
+    expect(message).toMatch(/60000 points/);
+    expect(message).toMatch(/33\.5 GB/);
+    expect(message).toMatch(/limit 8192 MB/);
+    expect(message).toMatch(/--subsample/);
+    // Nothing of the 14 GB distance table was allocated (the cloud itself is 0.96 MB).
+    expect(process.memoryUsage().arrayBuffers - before).toBeLessThan(64 * 2 ** 20);
+  });
+
+  it('lets the same cloud through with --subsample: the guard applies to the landmarks actually built', () => {
+    process.env[MEMORY_LIMIT_VARIABLE] = '8G';
+    const set = computeDiagrams(cloud(60_000), {
+      degrees: [0, 1],
+      subsample: { method: 'maxmin', count: 150, seed: 1 },
+    });
+    // One H0 pair per landmark (the elder rule gives n pairs, one of them essential).
+    expect(set.diagrams[0].births.length).toBe(150);
+    expect(set.diagrams[0].deaths[149]).toBe(Infinity);
+    expect(set.coveringRadius).toBeGreaterThan(0);
+  });
+
+  it('refuses the DTM filtration of a large cloud before its distances are built', () => {
+    process.env[MEMORY_LIMIT_VARIABLE] = '8G';
+    expect(() => computeDiagrams(cloud(60_000), { degrees: [0], filtration: { kind: 'dtm', k: 5 } })).toThrow(
+      /the DTM filtration of 60000 points.*limit 8192 MB/,
+    );
+  });
+
+  it('refuses a distance matrix whose condensed copy and rank tables exceed the limit', () => {
+    const small = cloud(400);
+    const matrix = new Float64Array(400 * 400);
+    const condensed = pairwiseDistances(small.coords, 400, 2, 'euclidean');
+    for (let j = 1; j < 400; j++)
+      for (let i = 0; i < j; i++) {
+        const d = condensed[(j * (j - 1)) / 2 + i];
+        matrix[i * 400 + j] = d;
+        matrix[j * 400 + i] = d;
+      }
+    const sample: DistanceSample = { kind: 'distances', id: 'm', label: 'a', size: 400, matrix };
+    // 400 vertices: 79,800 pairs × 12 + 4 · 400² = 1,597,600 bytes, above 1 MiB.
+    process.env[MEMORY_LIMIT_VARIABLE] = '1M';
+    expect(() => computeDiagrams(sample, { degrees: [0] })).toThrow(/400 points.*limit 1 MB/);
+    process.env[MEMORY_LIMIT_VARIABLE] = '8M';
+    expect(computeDiagrams(sample, { degrees: [0] }).diagrams[0].births.length).toBe(400);
   });
 });

@@ -72,6 +72,39 @@ describe('folder datasets', () => {
     expect((await userError(loadDataset(rect, { kind: 'distances' }))).message).toMatch(/must be square/);
   });
 
+  it('says why a folder of square matrices was read as point clouds, once, naming the file and the check', async () => {
+    const notes: string[] = [];
+    const onNote = (m: string): void => {
+      notes.push(m);
+    };
+    const bad = folder({ 'm.csv': '0,1,2\n1,0,1.5\n2,1.6,0\n', 'n.csv': '0,1,1\n1,0,1\n1,1,0\n' }, [
+      ['n.csv', 'a'],
+      ['m.csv', 'b'],
+    ]);
+    expect((await loadDataset(bad, { onNote })).kind).toBe('points');
+    expect(notes).toEqual([
+      'note: read as point clouds, not distance matrices: m.csv not symmetric: entry (2, 3) is 1.5 but (3, 2) is 1.6 (line 2); give --kind distances to be refused with the reason, or --kind points to silence this',
+    ]);
+    // One valid matrix beside an array that is not square: the fallback is noted too.
+    notes.length = 0;
+    const mixed = folder({ 'n.csv': '0,1\n1,0\n', 'r.npy': formatNpy([3, 2], [0, 1, 2, 1, 0, 1]) }, [
+      ['n.csv', 'a'],
+      ['r.npy', 'b'],
+    ]);
+    expect((await loadDataset(mixed, { onNote })).kind).toBe('points');
+    expect(notes).toHaveLength(1);
+    expect(notes[0]).toMatch(/: r\.npy is 3 × 2, not square; give --kind distances/);
+    // Clouds that do not look like matrices, or an explicit --kind points: no note.
+    notes.length = 0;
+    const clouds = folder({ 'a.csv': '0,0\n1,0\n0,1\n', 'b.csv': '1,1\n2,2\n3,1\n' }, [
+      ['a.csv', 'a'],
+      ['b.csv', 'b'],
+    ]);
+    await loadDataset(clouds, { onNote });
+    await loadDataset(bad, { onNote, kind: 'points' });
+    expect(notes).toEqual([]);
+  });
+
   it('reads images: PNG, PGM and .npy frames, and 3-D volumes', async () => {
     const frame = Float64Array.from({ length: 6 }, (_, i) => i * 40);
     const dir = folder(

@@ -1,7 +1,8 @@
 import pngjs from 'pngjs';
 import { describe, expect, it } from 'vitest';
+import { IMAGE_PIXEL_BUDGET } from '../../src/core/budgets.js';
 import { UserError } from '../../src/core/errors.js';
-import { formatPgm, formatPng, parsePgm, parsePng } from '../../src/io/image-file.js';
+import { formatPgm, formatPng, parsePgm, parsePng, pngSize } from '../../src/io/image-file.js';
 
 const bytes = (s: string): Uint8Array => Uint8Array.from(s, (c) => c.charCodeAt(0));
 
@@ -95,5 +96,44 @@ describe('PNG images', () => {
   it('refuses bytes that are not a PNG', async () => {
     await expect(parsePng(bytes('not a png at all'), 'x.png')).rejects.toThrow(/not a readable PNG/);
     await expect(parsePng(bytes('not a png at all'), 'x.png')).rejects.toBeInstanceOf(UserError);
+  });
+});
+
+describe('image size budget, checked from the header before decoding', () => {
+  it('reads width and height from the IHDR chunk as pngjs does', async () => {
+    const bytes = await formatPng([7, 13], new Float64Array(91), 8);
+    // Reference: pngjs's own decoder on the same bytes.
+    const decoded = pngjs.PNG.sync.read(Buffer.from(bytes));
+    expect(pngSize(bytes)).toEqual({ width: decoded.width, height: decoded.height });
+    expect(pngSize(Uint8Array.from([1, 2, 3]))).toBeUndefined();
+  });
+
+  it('refuses a 20000 × 20000 PNG from its header alone', async () => {
+    const bytes = await formatPng([2, 2], new Float64Array(4), 8);
+    const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+    view.setUint32(16, 20_000);
+    view.setUint32(20, 20_000);
+    // The IHDR checksum is now wrong and the raster far too short: a decoder would fail differently (or
+    // allocate 1.6 GB first). The size check comes first and says why.
+    let caught: unknown;
+    try {
+      await parsePng(bytes, 'huge.png');
+    } catch (error) {
+      caught = error;
+    }
+    expect(caught).toBeInstanceOf(UserError);
+    expect((caught as UserError).describe()).toBe(
+      `huge.png: the image is 20000 × 20000 = 400000000 pixels, above the limit of ${IMAGE_PIXEL_BUDGET} pixels an image; scale it down or cut it into tiles`,
+    );
+  });
+
+  it('refuses a PGM above the budget before reading its raster', () => {
+    const head = new TextEncoder().encode('P5\n20000 20000\n255\n');
+    expect(() => parsePgm(head, 'huge.pgm')).toThrow(/20000 × 20000 = 400000000 pixels, above the limit/);
+    // At the limit itself the header passes and the missing raster is what is wrong.
+    const side = Math.sqrt(IMAGE_PIXEL_BUDGET);
+    expect(() => parsePgm(new TextEncoder().encode(`P5\n${side} ${side}\n255\n`), 'edge.pgm')).toThrow(
+      /truncated PGM/,
+    );
   });
 });

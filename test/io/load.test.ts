@@ -312,3 +312,52 @@ describe('loadDataset: image tables (one image per row)', () => {
     expect(() => parseShape('0x3')).toThrow(/from 1/);
   });
 });
+
+describe('loadDataset: numbers and text that only look valid', () => {
+  function bytesFile(name: string, bytes: Uint8Array): string {
+    const path = join(tempDir(), name);
+    writeFileSync(path, bytes);
+    return path;
+  }
+  const latin1 = (text: string): Uint8Array => Buffer.from(text, 'latin1');
+
+  it.each([
+    [
+      'sample,label,x,y\na,r,1,2\na,r,0x1A,2\n',
+      3,
+      /'0x1A' is not a number in column x \(write numbers in decimal\)/,
+    ],
+    ['sample,label,x,y\na,r,0b1,2\n', 2, /'0b1' is not a number in column x/],
+    ['sample,label,x,y\na,r,0o7,2\n', 2, /'0o7' is not a number in column x/],
+    ['sample,label,x,y\na,r,1,Infinity\n', 2, /'Infinity' is not a finite number in column y/],
+    ['sample,label,x,y\na,r,1,\u000b\n', 2, /is not a number in column y/],
+    // The same through csv-parse (a quote anywhere sends the whole file there).
+    ['sample,label,x,y\n"a",r,1,2\na,r,0x1A,2\n', 3, /'0x1A' is not a number in column x/],
+  ])('refuses non-decimal numbers that Number() reads, at their line (%#)', async (text, line, message) => {
+    const e = await userError(loadDataset(file('n.csv', text)));
+    expect(e.line).toBe(line);
+    expect(e.describe()).toMatch(message);
+  });
+
+  it('refuses invalid UTF-8 with the file and line, on the plain reader, csv-parse and gzip', async () => {
+    // 'é' written in Latin-1 (byte 0xE9 followed by a comma) is not UTF-8.
+    const text = 'sample,label,x\na,ok,1\nb,caf\u00e9,2\n';
+    const plain = await userError(loadDataset(bytesFile('p.csv', latin1(text))));
+    expect(plain.describe()).toMatch(/p\.csv:3: is not valid UTF-8 text/);
+    const quoted = await userError(loadDataset(bytesFile('q.csv', latin1(text.replace('a,ok', '"a",ok')))));
+    expect(quoted.describe()).toMatch(/q\.csv:3: is not valid UTF-8 text/);
+    const zipped = await userError(loadDataset(bytesFile('z.csv.gz', gzipSync(latin1(text)))));
+    expect(zipped.describe()).toMatch(/z\.csv\.gz:3: is not valid UTF-8 text/);
+    // The same text in UTF-8 loads, label intact.
+    const good = await loadDataset(bytesFile('u.csv', Buffer.from(text, 'utf8')));
+    expect(good.samples.map((s) => s.label)).toEqual(['ok', 'caf\u00e9']);
+  });
+
+  it('refuses a labels.csv that is not UTF-8, naming its line', async () => {
+    const folder = tempDir();
+    writeFileSync(join(folder, 'a.csv'), '0,0\n1,1\n');
+    writeFileSync(join(folder, 'labels.csv'), latin1('file,label\na.csv,ok\na.csv,s\u00e9rie\n'));
+    const e = await userError(loadDataset(folder));
+    expect(e.describe()).toMatch(/labels\.csv:3: is not valid UTF-8 text/);
+  });
+});

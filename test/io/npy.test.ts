@@ -189,6 +189,12 @@ describe('NPY format version 1.0', () => {
       [good.subarray(0, good.length - 3), /truncated \.npy data/],
       [Uint8Array.from([...good.subarray(0, 10)]), /truncated \.npy header/],
       [formatNpy([1], [Number.NaN]), /every value must be a finite number/],
+      // One float64 more than the shape (2,) holds: NEP 1 ("A simple file format for NumPy arrays",
+      // Kern, 2007) defines the data as exactly the shape's elements after the header.
+      [
+        Uint8Array.from([...good, 0, 0, 0, 0, 0, 0, 0xf0, 0x3f]),
+        /longer than its shape: \(2\) needs 16 bytes, the file has 24/,
+      ],
     ];
     const complex = formatNpy([1], [1]);
     complex.set(ascii("'<c16'"), 19);

@@ -13,6 +13,7 @@ import {
   parseInfiniteOption,
   parseIntegerOption,
   parseNumberOption,
+  parseWorkersOption,
 } from '../options.js';
 import { startProgress } from '../progress.js';
 
@@ -118,7 +119,9 @@ export function defineContrast(program: Command): Command {
       const format = parseChoiceOption(flags.format, '--format', ['json', 'text'] as const);
       const infinite = parseInfiniteOption(flags.infinite);
       const workers =
-        flags.workers === undefined ? undefined : parseIntegerOption(flags.workers, '--workers', 1, 256);
+        flags.workers === undefined
+          ? undefined
+          : parseWorkersOption(flags.workers, flags.quiet === true, 256);
       const choice = parseFiltrationOptions(flags);
       const diagramOptions: DiagramOptions = {
         degrees,

@@ -1,6 +1,6 @@
 import { join, relative } from 'node:path';
 import type { Command } from 'commander';
-import { parseIntegerOption } from '../options.js';
+import { parseIntegerOption, parseWorkersOption } from '../options.js';
 import { startProgress } from '../progress.js';
 
 interface DemoFlags {
@@ -30,7 +30,9 @@ export function defineDemo(program: Command): Command {
     .action(async (flags: DemoFlags) => {
       const seed = parseIntegerOption(flags.seed, '--seed', 0, 2 ** 32 - 1);
       const workers =
-        flags.workers === undefined ? undefined : parseIntegerOption(flags.workers, '--workers', 1, 256);
+        flags.workers === undefined
+          ? undefined
+          : parseWorkersOption(flags.workers, flags.quiet === true, 256);
       const quiet = flags.quiet === true;
       const started = performance.now();
       const { runDemo, accuracyTable } = await import('../../report/study.js');

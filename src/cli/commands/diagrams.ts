@@ -9,8 +9,15 @@ import type { DelayEmbedding } from '../../homology/signal.js';
 import type { SampleKind } from '../../io/dataset.js';
 import { expectKind, loadDataset, parseKind, parseShape } from '../../io/load.js';
 import { checkFileOutput } from '../../io/output-guard.js';
+import { noteOption } from '../dataset-input.js';
 import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
-import { parseChoiceOption, parseDegreesOption, parseIntegerOption, parseNumberOption } from '../options.js';
+import {
+  parseChoiceOption,
+  parseDegreesOption,
+  parseIntegerOption,
+  parseNumberOption,
+  parseWorkersOption,
+} from '../options.js';
 import { startProgress } from '../progress.js';
 
 interface DiagramsCommandOptions {
@@ -117,7 +124,7 @@ Example:
       const workers =
         options.workers === undefined
           ? availableParallelism()
-          : parseIntegerOption(options.workers, '--workers', 1, 1024);
+          : parseWorkersOption(options.workers, options.quiet === true);
       let kind: SampleKind | undefined;
       if (options.kind !== undefined) {
         kind = parseKind(options.kind);
@@ -127,7 +134,11 @@ Example:
       if (workers > 1) void startDiagramWorkers(workers - 1);
       const shape = options.shape === undefined ? undefined : parseShape(options.shape);
       const dataset = expectKind(
-        await loadDataset(input, { kind, ...(shape !== undefined ? { shape } : {}) }),
+        await loadDataset(input, {
+          kind,
+          ...(shape !== undefined ? { shape } : {}),
+          ...noteOption(options.quiet === true),
+        }),
         INPUT_KINDS,
         'landform diagrams',
       );

@@ -1,6 +1,7 @@
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Command } from 'commander';
+import { checkFeatureColumns } from '../../core/budgets.js';
 import { UserError } from '../../core/errors.js';
 import {
   checkFeatureSet,
@@ -20,6 +21,7 @@ import { checkOutputPath } from '../../io/output-guard.js';
 import { MODEL_NAMES, type ModelName } from '../../learn/classifier.js';
 import type { EvaluationOptions, EvaluationResult } from '../../learn/evaluate.js';
 import type { LandscapeCandidate } from '../../learn/select.js';
+import { noteOption } from '../dataset-input.js';
 import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
 import {
   parseChoiceOption,
@@ -28,6 +30,7 @@ import {
   parseIntegerOption,
   parseListOption,
   parseNumberOption,
+  parseWorkersOption,
 } from '../options.js';
 import { startProgress } from '../progress.js';
 import { parseEmbedOption } from './diagrams.js';
@@ -112,6 +115,7 @@ export function parseDiagramOptions(
     | 'embed'
     | 'superlevel'
     | 'workers'
+    | 'quiet'
     | 'filtration'
     | 'subsample'
     | 'threshold'
@@ -123,7 +127,7 @@ export function parseDiagramOptions(
   const maxScale =
     o.maxScale === undefined ? undefined : parseNumberOption(o.maxScale, '--max-scale', { positive: true });
   const embed = o.embed === undefined ? undefined : parseEmbedOption(o.embed);
-  const workers = o.workers === undefined ? undefined : parseIntegerOption(o.workers, '--workers', 1, 1024);
+  const workers = o.workers === undefined ? undefined : parseWorkersOption(o.workers, o.quiet === true);
   const kind = o.kind === undefined ? undefined : parseKind(o.kind);
   const diagramOptions: DiagramOptions = { degrees, metric };
   if (maxScale !== undefined) diagramOptions.maxScale = maxScale;
@@ -160,10 +164,15 @@ export function diagramRecord(kind: SampleKind, d: DiagramOptions): Record<strin
 }
 
 /** Loads a dataset and refuses an empty one or --embed on non-signals. */
-export async function loadStudyDataset(input: string, parsed: ParsedDiagramOptions): Promise<Dataset> {
+export async function loadStudyDataset(
+  input: string,
+  parsed: ParsedDiagramOptions,
+  quiet = false,
+): Promise<Dataset> {
   const dataset = await loadDataset(input, {
     ...(parsed.kind === undefined ? {} : { kind: parsed.kind }),
     ...(parsed.shape === undefined ? {} : { shape: parsed.shape }),
+    ...noteOption(quiet),
   });
   if (dataset.samples.length === 0) throw new UserError('has no samples; nothing to do', { file: input });
   if (parsed.diagramOptions.embed !== undefined && dataset.kind !== 'signal') {
@@ -239,10 +248,17 @@ export async function parseStudy(
   if (singleFeatureSet && requested && requested.length > 1) {
     throw new UserError(`--features takes one feature set here, got ${requested.join(',')}; pick one`);
   }
-  const dataset = await loadStudyDataset(input, parsed);
+  // Landscape columns: every degree × the largest depth × the largest grid tried (refused before loading).
+  const columns = parsed.degrees.length * Math.max(...depths) * Math.max(...gridSizes);
+  const columnOptions = '--degrees × --depths × --grid-sizes';
+  const landscapeAsked = (sets: readonly FeatureSetName[]): boolean =>
+    sets.includes('landscape') || sets.includes('combined');
+  if (requested === undefined || landscapeAsked(requested)) checkFeatureColumns(columns, columnOptions);
+  const dataset = await loadStudyDataset(input, parsed, o.quiet === true);
   const featureSets =
     requested ?? (singleFeatureSet ? featureSetsFor(dataset.kind).slice(0, 1) : featureSetsFor(dataset.kind));
   for (const set of featureSets) checkFeatureSet(set, dataset.kind);
+  if (landscapeAsked(featureSets)) checkFeatureColumns(columns, columnOptions, dataset.samples.length);
   const landscapeCandidates: LandscapeCandidate[] = [];
   for (const depth of depths) for (const gridSize of gridSizes) landscapeCandidates.push({ depth, gridSize });
   const landscape: LandscapeVectorizerOptions = { degrees: parsed.degrees, infinite };

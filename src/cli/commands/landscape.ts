@@ -1,4 +1,5 @@
 import type { Command } from 'commander';
+import { checkLandscapeValues } from '../../core/budgets.js';
 import { UserError } from '../../core/errors.js';
 import { provenance } from '../../core/version.js';
 import {
@@ -108,6 +109,7 @@ Example:
           );
         }
       }
+      if (!options.exact) checkLandscapeValues(sets.length, depth, (grid as Grid).count);
       const recorded = {
         input: file,
         sample: options.sample ?? null,

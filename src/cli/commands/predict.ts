@@ -4,11 +4,16 @@ import { provenance } from '../../core/version.js';
 import type { FeatureData } from '../../features/combined.js';
 import type { DiagramOptions } from '../../homology/compute.js';
 import { csvField, csvNumber } from '../../io/csv.js';
-import type { SampleKind } from '../../io/dataset.js';
+import {
+  recordedSampleShape,
+  type SampleKind,
+  type SampleShape,
+  sampleShapeProblem,
+} from '../../io/dataset.js';
 import { parseKind, parseShape } from '../../io/load.js';
 import { checkFileOutput } from '../../io/output-guard.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
-import { parseIntegerOption } from '../options.js';
+import { parseWorkersOption } from '../options.js';
 import { diagramsForCommand, loadStudyDataset } from './evaluate.js';
 
 interface PredictCommandOptions {
@@ -60,8 +65,7 @@ Example:
     )
     .action(async (modelDir: string, input: string, o: PredictCommandOptions) => {
       if (o.out !== undefined) checkFileOutput(o.out, [input, modelDir]);
-      const workers =
-        o.workers === undefined ? undefined : parseIntegerOption(o.workers, '--workers', 1, 1024);
+      const workers = o.workers === undefined ? undefined : parseWorkersOption(o.workers, o.quiet === true);
       const { loadModelFolder } = await import('../../learn/model-folder.js');
       const { Pipeline } = await import('../../learn/pipeline.js');
       const { manifest, files } = await loadModelFolder(modelDir);
@@ -70,6 +74,8 @@ Example:
         const record = ((manifest as { record?: Record<string, unknown> }).record ?? {}) as {
           kind?: SampleKind;
           diagramOptions?: DiagramOptions | null;
+          sampleShape?: SampleShape;
+          columns?: string[] | null;
         };
         if (!record.kind)
           throw new UserError(
@@ -84,13 +90,15 @@ Example:
           ...(o.shape !== undefined ? { shape: parseShape(o.shape) } : {}),
           ...(workers !== undefined ? { workers } : {}),
         };
-        const dataset = await loadStudyDataset(input, parsed);
+        const dataset = await loadStudyDataset(input, parsed, o.quiet === true);
         if (dataset.kind !== record.kind) {
           throw new UserError(
             `is a ${dataset.kind} dataset, but the model was trained on ${record.kind} samples; give ${record.kind} samples`,
             { file: input },
           );
         }
+        const shapeProblem = sampleShapeProblem(recordedSampleShape(record), dataset);
+        if (shapeProblem !== undefined) throw new UserError(shapeProblem, { file: input });
         const diagrams =
           pipeline.features === 'raw'
             ? undefined

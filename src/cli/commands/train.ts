@@ -1,6 +1,7 @@
 import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
 import type { FeatureData } from '../../features/combined.js';
+import { sampleShapeOf } from '../../io/dataset.js';
 import { checkOutputPath } from '../../io/output-guard.js';
 import { addStudyOptions, diagramsForCommand, parseStudy, type StudyCommandOptions } from './evaluate.js';
 
@@ -78,6 +79,8 @@ Example:
           ...options.record,
           diagramOptions: dataset.kind === 'diagrams' ? null : parsed.diagramOptions,
           columns: dataset.columns ?? null,
+          // What predict checks new samples against (the dimension of points, the axes of images, columns).
+          sampleShape: sampleShapeOf(dataset),
         });
         await saveModelFolder(o.save, { ...manifest }, files);
         const chosen = Object.entries(pipeline.chosen())

@@ -1,4 +1,5 @@
 import type { Command } from 'commander';
+import { checkFeatureColumns } from '../../core/budgets.js';
 import { UserError } from '../../core/errors.js';
 import { provenance } from '../../core/version.js';
 import {
@@ -10,10 +11,21 @@ import {
 } from '../../features/combined.js';
 import type { DiagramOptions } from '../../homology/compute.js';
 import { describeInfinitePolicy } from '../../homology/diagram.js';
-import type { SampleKind } from '../../io/dataset.js';
+import {
+  recordedSampleShape,
+  type SampleKind,
+  type SampleShape,
+  sampleShapeProblem,
+} from '../../io/dataset.js';
 import { parseShape } from '../../io/load.js';
 import { checkFileOutput } from '../../io/output-guard.js';
-import { parseChoiceOption, parseGridOption, parseInfiniteOption, parseIntegerOption } from '../options.js';
+import {
+  parseChoiceOption,
+  parseGridOption,
+  parseInfiniteOption,
+  parseIntegerOption,
+  parseWorkersOption,
+} from '../options.js';
 import {
   addDiagramOptions,
   diagramRecord,
@@ -113,13 +125,21 @@ Example:
       let parsed: ParsedDiagramOptions;
       let fitted = false;
       let source: Record<string, unknown>;
+      let modelShape: SampleShape | undefined;
+      let landscapeColumns: number | undefined;
       if (o.model !== undefined) {
         const { loadModelFolder } = await import('../../learn/model-folder.js');
         const { manifest } = await loadModelFolder(o.model);
         const m = manifest as {
           extractor?: unknown;
-          record?: { kind?: SampleKind; diagramOptions?: DiagramOptions | null };
+          record?: {
+            kind?: SampleKind;
+            diagramOptions?: DiagramOptions | null;
+            sampleShape?: SampleShape;
+            columns?: string[] | null;
+          };
         };
+        modelShape = recordedSampleShape(m.record ?? {});
         if (!m.extractor)
           throw new UserError(
             'the model folder holds no feature extractor; train it again with landform train --save',
@@ -133,7 +153,7 @@ Example:
           ...(m.record?.kind ? { kind: m.record.kind } : {}),
           ...(o.shape !== undefined ? { shape: parseShape(o.shape) } : {}),
         };
-        if (o.workers !== undefined) parsed.workers = parseIntegerOption(o.workers, '--workers', 1, 1024);
+        if (o.workers !== undefined) parsed.workers = parseWorkersOption(o.workers, o.quiet === true);
         fitted = true;
         source = { model: o.model };
       } else {
@@ -144,6 +164,10 @@ Example:
         const grid = o.grid === undefined ? undefined : parseGridOption(o.grid, '--grid');
         const infinite = parseInfiniteOption(o.infinite, '--infinite');
         const bins = parseIntegerOption(o.bins, '--bins', 1, 100_000);
+        if (set === 'landscape' || set === 'combined') {
+          landscapeColumns = parsed.degrees.length * depth * (grid ? grid.count : gridSize);
+          checkFeatureColumns(landscapeColumns, COLUMN_OPTIONS);
+        }
         extractor = new FeatureExtractor(set, {
           landscape: {
             degrees: parsed.degrees,
@@ -166,8 +190,12 @@ Example:
         };
         learnsFromSamples = set !== 'landscape' || grid === undefined || o.standardize === true;
       }
-      const dataset = await loadStudyDataset(input, parsed);
+      const dataset = await loadStudyDataset(input, parsed, o.quiet === true);
       checkFeatureSet(extractor.set, dataset.kind);
+      if (landscapeColumns !== undefined)
+        checkFeatureColumns(landscapeColumns, COLUMN_OPTIONS, dataset.samples.length);
+      const shapeProblem = modelShape && sampleShapeProblem(modelShape, dataset);
+      if (shapeProblem) throw new UserError(shapeProblem, { file: input });
       if (shard !== undefined && learnsFromSamples) {
         throw new UserError(
           '--shard needs features fixed in advance, the same in every shard: give --model models/NAME, or --features landscape with --grid START:STOP:COUNT and no --standardize',
@@ -227,3 +255,6 @@ Example:
       );
     });
 }
+
+/** The options that set the landscape columns, as the budget's message names them. */
+const COLUMN_OPTIONS = '--degrees × --depth × --grid-size';
