@@ -1,12 +1,15 @@
 import type { Matrix } from './matrix.js';
 
 /**
- * The contract between the models (pca-svm, dense) and the evaluation loop.
+ * The contract between the models (pca-svm, dense, forest) and the evaluation loop.
  * Hyperparameters go to the factory; `fit` learns; `predictScores` uses only what `fit` learned.
  */
-export type ModelName = 'pca-svm' | 'dense';
+export type ModelName = 'pca-svm' | 'dense' | 'forest';
 
-export const MODEL_NAMES: readonly ModelName[] = ['pca-svm', 'dense'];
+export const MODEL_NAMES: readonly ModelName[] = ['pca-svm', 'dense', 'forest'];
+
+/** The models a study compares when none are named (the forest is asked for by name: see DEVELOPERS.md). */
+export const DEFAULT_MODEL_NAMES: readonly ModelName[] = ['pca-svm', 'dense'];
 
 /** Hyperparameter values of one candidate, e.g. {kernel:'rbf', C: 10, gamma: 0.01} or {hidden: 32}. */
 export type Hyperparameters = Record<string, number | string>;
