@@ -356,7 +356,9 @@ function growTree(
       if (counts[c] > 0) classesPresent++;
     }
     const canSplit =
-      classesPresent > 1 && m >= 2 * settings.minLeaf && (settings.maxDepth === 0 || depth < settings.maxDepth);
+      classesPresent > 1 &&
+      m >= 2 * settings.minLeaf &&
+      (settings.maxDepth === 0 || depth < settings.maxDepth);
     let bestFeature = -1;
     let bestRank = 0;
     let bestNext = 0;

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
-import { featuresPerSplit, ForestClassifier } from '../../src/learn/forest.js';
+import { ForestClassifier, featuresPerSplit } from '../../src/learn/forest.js';
 import { fromRows, type Matrix, takeRows } from '../../src/learn/matrix.js';
 import { candidateHyperparameters, classifierFromJSON, createClassifier } from '../../src/learn/models.js';
 import { iris, stratifiedFolds } from './models-fixtures.js';
@@ -110,9 +110,9 @@ describe('forest classifier', () => {
     expect(() => createClassifier('forest', { depth: 3 }, 1)).toThrow(/no hyperparameter 'depth'/);
     expect(() => createClassifier('forest', { trees: 0 }, 1)).toThrow(/trees must be a whole number ≥ 1/);
     expect(() => createClassifier('forest', { splitFeatures: 'half' }, 1)).toThrow(/sqrt, log2/);
-    await expect(classifierFromJSON({ kind: 'landform.classifier', model: 'forest', format: 2 })).rejects.toThrow(
-      /format 2/,
-    );
+    await expect(
+      classifierFromJSON({ kind: 'landform.classifier', model: 'forest', format: 2 }),
+    ).rejects.toThrow(/format 2/);
     const { x, y } = iris();
     const model = new ForestClassifier({ trees: 3 }, 1);
     await model.fit(x, y, 3);

@@ -14,7 +14,7 @@ import { METRICS, type Metric } from '../../homology/metric.js';
 import { writeFilesAtomic } from '../../io/atomic.js';
 import type { Dataset, SampleKind } from '../../io/dataset.js';
 import { loadDataset, parseKind } from '../../io/load.js';
-import { MODEL_NAMES, type ModelName } from '../../learn/classifier.js';
+import { DEFAULT_MODEL_NAMES, MODEL_NAMES, type ModelName } from '../../learn/classifier.js';
 import type { EvaluationOptions } from '../../learn/evaluate.js';
 import type { LandscapeCandidate } from '../../learn/select.js';
 import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
@@ -75,10 +75,13 @@ export function addStudyOptions(command: Command, single = false): Command {
       );
   } else {
     command
-      .option('--models <list>', `models: ${MODEL_NAMES.join(', ')} (default: all)`)
+      .option(
+        '--models <list>',
+        `models: ${MODEL_NAMES.join(', ')} (default: ${DEFAULT_MODEL_NAMES.join(', ')})`,
+      )
       .option(
         '--features <list>',
-        `feature sets: ${FEATURE_SET_NAMES.join(', ')} (default: all the kind allows)`,
+        `feature sets: ${FEATURE_SET_NAMES.join(', ')} (default: landscape, raw, combined, those the kind allows)`,
       );
   }
   return command
@@ -216,7 +219,7 @@ export async function parseStudy(
   const gridSizes = parsePositiveList(o.gridSizes, '--grid-sizes', 2);
   const infinite = parseInfiniteOption(o.infinite, '--infinite');
   const models =
-    o.models === undefined ? [...MODEL_NAMES] : parseListOption(o.models, '--models', MODEL_NAMES);
+    o.models === undefined ? [...DEFAULT_MODEL_NAMES] : parseListOption(o.models, '--models', MODEL_NAMES);
   const requested =
     o.features === undefined ? undefined : parseListOption(o.features, '--features', FEATURE_SET_NAMES);
   if (singleFeatureSet && models.length > 1)
@@ -279,7 +282,9 @@ export function defineEvaluate(program: Command): Command {
       `
 Every feature set runs with every model: landscape (the landscape vectoriser), raw (a baseline of the sample
 kind: pairwise-distance histogram and covariance spectrum for clouds, resampled signals, downsampled images),
-combined (both). A table dataset runs only raw; a diagrams file only landscape. Inside every outer training
+combined (both). A table dataset runs only raw; a diagrams file only landscape. Asked for by name, three more
+vectorisations of the diagrams compare with the landscape: betti (Betti curves), stats (persistence
+statistics and entropy), pimage (persistence images); and a third model, forest (a random forest). Inside every outer training
 fold an inner cross-validation (--inner-folds) chooses the model's hyperparameters and the landscape depth
 and grid size (--depths × --grid-sizes); nothing is learned from the outer test fold.
 
