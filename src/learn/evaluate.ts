@@ -50,7 +50,7 @@ import {
 export interface EvaluationOptions {
   /** Feature sets to compare. Default: every set the sample kind allows (`featureSetsFor`). */
   featureSets?: FeatureSetName[];
-  /** Models to compare. Default DEFAULT_MODEL_NAMES (pca-svm, dense; the forest is asked for by name). */
+  /** Models to compare. Default DEFAULT_MODEL_NAMES (pca-svm, dense, forest). */
   models?: ModelName[];
   /** Outer folds. Default 5. */
   folds?: number;

@@ -280,13 +280,13 @@ export function defineEvaluate(program: Command): Command {
     .addHelpText(
       'after',
       `
-Every feature set runs with every model: landscape (the landscape vectoriser), raw (a baseline of the sample
-kind: pairwise-distance histogram and covariance spectrum for clouds, resampled signals, downsampled images),
-combined (both). A table dataset runs only raw; a diagrams file only landscape. Asked for by name, three more
-vectorisations of the diagrams compare with the landscape: betti (Betti curves), stats (persistence
-statistics and entropy), pimage (persistence images); and a third model, forest (a random forest). Inside every outer training
-fold an inner cross-validation (--inner-folds) chooses the model's hyperparameters and the landscape depth
-and grid size (--depths × --grid-sizes); nothing is learned from the outer test fold.
+Every feature set runs with every model (pca-svm, dense, forest): landscape (the landscape vectoriser), raw
+(a baseline of the sample kind: pairwise-distance histogram and covariance spectrum for clouds, resampled
+signals, downsampled images), combined (both). Asked for by name, three more vectorisations of the diagrams
+compare with the landscape: betti (Betti curves), stats (persistence statistics and entropy), pimage
+(persistence images). A table dataset runs only raw; a diagrams file only the diagram sets. Inside every
+outer training fold an inner cross-validation (--inner-folds) chooses the model's hyperparameters and the
+landscape depth and grid size (--depths × --grid-sizes); nothing is learned from the outer test fold.
 
 The defaults keep the search small (3 inner folds, 4 landscape candidates, tried first with the model's
 default hyperparameters, then each model candidate with the best landscape): F + M − 1 inner runs per fold.
