@@ -1,5 +1,13 @@
 export {
+  type BettiCurveJSON,
+  type BettiCurveOptions,
+  BettiCurveVectorizer,
+  DEFAULT_BETTI_CURVE_OPTIONS,
+} from './betti-curve.js';
+export {
   checkFeatureSet,
+  DIAGRAM_FEATURE_SETS,
+  type DiagramVectorizer,
   FEATURE_SET_NAMES,
   type FeatureData,
   FeatureExtractor,
@@ -7,6 +15,7 @@ export {
   type FeatureExtractorOptions,
   type FeatureSetName,
   featureSetsFor,
+  needsDiagrams,
   usesLandscape,
 } from './combined.js';
 export {
@@ -19,6 +28,21 @@ export {
   learnGrid,
   parseLandscapeFeatureName,
 } from './landscape-vectorizer.js';
+export {
+  DEFAULT_PERSISTENCE_IMAGE_OPTIONS,
+  type ImageFrame,
+  type PersistenceImageJSON,
+  type PersistenceImageOptions,
+  PersistenceImageVectorizer,
+} from './persistence-image.js';
+export {
+  DEFAULT_PERSISTENCE_STATISTICS_OPTIONS,
+  PersistenceStatistics,
+  type PersistenceStatisticsJSON,
+  type PersistenceStatisticsOptions,
+  persistentEntropy,
+  STATISTIC_NAMES,
+} from './persistence-statistics.js';
 export {
   DEFAULT_RAW_FEATURES_OPTIONS,
   hasRawFeatures,

@@ -4,8 +4,10 @@ import {
   checkFeatureSet,
   type FeatureData,
   FeatureExtractor,
+  type FeatureExtractorOptions,
   type FeatureSetName,
   featureSetsFor,
+  usesLandscape,
 } from '../features/combined.js';
 import { LandscapeVectorizer, type LandscapeVectorizerOptions } from '../features/landscape-vectorizer.js';
 import { RawFeatures, type RawFeaturesOptions } from '../features/raw-features.js';
@@ -13,7 +15,7 @@ import type { DiagramOptions } from '../homology/compute.js';
 import { type DiagramSet, describeInfinitePolicy } from '../homology/diagram.js';
 import { classesOf, type Dataset } from '../io/dataset.js';
 import type { Grid } from '../landscape/grid.js';
-import { type Hyperparameters, MODEL_NAMES, type ModelName } from './classifier.js';
+import { DEFAULT_MODEL_NAMES, type Hyperparameters, type ModelName } from './classifier.js';
 import { checkFoldable, encodeLabels, stratifiedFolds } from './folds.js';
 import type { Matrix } from './matrix.js';
 import {
@@ -48,7 +50,7 @@ import {
 export interface EvaluationOptions {
   /** Feature sets to compare. Default: every set the sample kind allows (`featureSetsFor`). */
   featureSets?: FeatureSetName[];
-  /** Models to compare. Default ['pca-svm', 'dense']. */
+  /** Models to compare. Default DEFAULT_MODEL_NAMES (pca-svm, dense, forest). */
   models?: ModelName[];
   /** Outer folds. Default 5. */
   folds?: number;
@@ -64,6 +66,8 @@ export interface EvaluationOptions {
   landscapeCandidates?: readonly LandscapeCandidate[];
   /** Options of the raw-feature baseline. */
   raw?: RawFeaturesOptions;
+  /** Options of the `betti`, `stats` and `pimage` vectorisers (degrees and essential classes: `landscape`'s). */
+  diagramFeatures?: Pick<FeatureExtractorOptions, 'betti' | 'stats' | 'pimage'>;
   /**
    * One diagram set per sample, in the dataset's order. Required unless the dataset is itself a diagrams
    * dataset or `computeDiagrams` is given.
@@ -224,7 +228,7 @@ export async function runEvaluation(
   const repeats = options.repeats ?? DEFAULT_EVALUATION_OPTIONS.repeats;
   const seed = options.seed ?? DEFAULT_EVALUATION_OPTIONS.seed;
   const innerFolds = options.innerFolds ?? DEFAULT_EVALUATION_OPTIONS.innerFolds;
-  const models = options.models ?? [...MODEL_NAMES];
+  const models = options.models ?? [...DEFAULT_MODEL_NAMES];
   const landscapeCandidates = options.landscapeCandidates ?? DEFAULT_LANDSCAPE_CANDIDATES;
   const factory = withCandidates(
     options.modelFactory ?? (await defaultModelFactory()),
@@ -258,6 +262,7 @@ export async function runEvaluation(
     const base = new FeatureExtractor(set, {
       ...(options.landscape ? { landscape: options.landscape } : {}),
       ...(options.raw ? { raw: options.raw } : {}),
+      ...options.diagramFeatures,
     });
     for (let mi = 0; mi < models.length; mi++) {
       const model = models[mi];
@@ -331,11 +336,12 @@ export async function runEvaluation(
     features: featureSets,
     models,
     innerFolds,
-    landscapeCandidates: usesAnyLandscape(featureSets)
+    landscapeCandidates: featureSets.some(usesLandscape)
       ? landscapeCandidates.map((c) => ({ depth: c.depth, gridSize: c.gridSize }))
       : [],
     landscape: usesAnyLandscape(featureSets) ? landscapeRecord(options.landscape) : null,
     raw: featureSets.includes('raw') || featureSets.includes('combined') ? rawRecord(options.raw) : null,
+    ...diagramFeatureRecords(featureSets, options),
     ...(options.record ?? {}),
   };
   return {
@@ -350,6 +356,24 @@ export async function runEvaluation(
     labels: y,
     ...(diagrams ? { diagrams } : {}),
   };
+}
+
+/** The options of the `betti`, `stats` and `pimage` vectorisers in the study, by set name. */
+function diagramFeatureRecords(
+  sets: readonly FeatureSetName[],
+  options: EvaluationOptions,
+): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const set of sets) {
+    Object.assign(
+      out,
+      new FeatureExtractor(set, {
+        ...(options.landscape ? { landscape: options.landscape } : {}),
+        ...options.diagramFeatures,
+      }).describeOptions(),
+    );
+  }
+  return out;
 }
 
 function usesAnyLandscape(sets: readonly FeatureSetName[]): boolean {

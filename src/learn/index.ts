@@ -18,6 +18,13 @@ export {
   type FoldOptions,
   stratifiedFolds,
 } from './folds.js';
+export {
+  FOREST_HYPERPARAMETERS,
+  ForestClassifier,
+  type ForestJSON,
+  type ForestTrees,
+  featuresPerSplit,
+} from './forest.js';
 export * from './matrix.js';
 export {
   accuracy,

@@ -1,6 +1,7 @@
 import { UserError } from '../core/errors.js';
 import { type Classifier, type Hyperparameters, MODEL_NAMES, type ModelName } from './classifier.js';
 import { DenseClassifier } from './dense.js';
+import { ForestClassifier } from './forest.js';
 import { PcaSvmClassifier } from './pca-svm.js';
 
 /**
@@ -13,6 +14,8 @@ export function createClassifier(name: ModelName, hyper: Hyperparameters, seed: 
       return new PcaSvmClassifier(hyper, seed);
     case 'dense':
       return new DenseClassifier(hyper, seed);
+    case 'forest':
+      return new ForestClassifier(hyper, seed);
     default:
       throw new UserError(`unknown model '${String(name)}': choose one of ${MODEL_NAMES.join(', ')}`);
   }
@@ -25,6 +28,8 @@ export function createClassifier(name: ModelName, hyper: Hyperparameters, seed: 
  * (the usual spread of a coarse grid, common practice, no source: Hsu, Chang & Lin, "A practical guide to
  * support vector classification", 2003, search powers of two more finely).
  * dense: hidden units ∈ {16, 32} (other settings at their defaults, see DenseOptions).
+ * forest: 100 trees, √features per split, leaves of ≥ 5 rows then of ≥ 1 (fully grown, Breiman 2001); a
+ * forest is known to need little tuning, so two candidates (common practice, no source).
  */
 export function candidateHyperparameters(
   name: ModelName,
@@ -41,6 +46,11 @@ export function candidateHyperparameters(
     }
     case 'dense':
       return [{ hidden: 16 }, { hidden: 32 }];
+    case 'forest':
+      return [
+        { trees: 100, minLeaf: 5 },
+        { trees: 100, minLeaf: 1 },
+      ];
     default:
       throw new UserError(`unknown model '${String(name)}': choose one of ${MODEL_NAMES.join(', ')}`);
   }
@@ -58,6 +68,8 @@ export async function classifierFromJSON(json: unknown): Promise<Classifier> {
       return PcaSvmClassifier.fromJSON(json);
     case 'dense':
       return DenseClassifier.fromJSON(json);
+    case 'forest':
+      return ForestClassifier.fromJSON(json);
     default:
       throw new UserError(
         `saved classifier names an unknown model '${String(j.model)}': this version knows ${MODEL_NAMES.join(', ')}; use the landform version that saved it`,

@@ -96,9 +96,9 @@ describe('landform evaluate', () => {
       /^landform: found only one class \('disc'\); classification needs samples of at least two classes/,
     );
     expect(r.stderr.split('\n')).toHaveLength(2);
-    const m = runCli(['evaluate', input, '--models', 'forest', '--out', join(dir, 'm')]);
+    const m = runCli(['evaluate', input, '--models', 'boosted', '--out', join(dir, 'm')]);
     expect(m.code).toBe(2);
-    expect(m.stderr).toBe("landform: --models 'forest' is not known; choose from pca-svm, dense\n");
+    expect(m.stderr).toBe("landform: --models 'boosted' is not known; choose from pca-svm, dense, forest\n");
     expect(readdirSync(dir).some((f) => f === 'one' || f === 'm')).toBe(false);
   });
 });

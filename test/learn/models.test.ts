@@ -98,8 +98,8 @@ describe('pca-svm classifier', () => {
     await expect(classifierFromJSON({ kind: 'something-else' })).rejects.toThrow(
       /not a saved landform classifier/,
     );
-    await expect(classifierFromJSON({ kind: 'landform.classifier', model: 'forest' })).rejects.toThrow(
-      /unknown model 'forest'/,
+    await expect(classifierFromJSON({ kind: 'landform.classifier', model: 'boosted' })).rejects.toThrow(
+      /unknown model 'boosted'/,
     );
     await expect(
       classifierFromJSON({ kind: 'landform.classifier', model: 'pca-svm', format: 7 }),

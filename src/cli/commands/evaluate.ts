@@ -18,7 +18,7 @@ import { acquireOutputLock, writeFileAtomic, writeFolderAtomic } from '../../io/
 import type { Dataset, SampleKind } from '../../io/dataset.js';
 import { loadDataset, parseKind, parseShape } from '../../io/load.js';
 import { checkOutputPath } from '../../io/output-guard.js';
-import { MODEL_NAMES, type ModelName } from '../../learn/classifier.js';
+import { DEFAULT_MODEL_NAMES, MODEL_NAMES, type ModelName } from '../../learn/classifier.js';
 import type { EvaluationOptions, EvaluationResult } from '../../learn/evaluate.js';
 import type { LandscapeCandidate } from '../../learn/select.js';
 import { noteOption } from '../dataset-input.js';
@@ -84,10 +84,13 @@ export function addStudyOptions(command: Command, single = false): Command {
       );
   } else {
     command
-      .option('--models <list>', `models: ${MODEL_NAMES.join(', ')} (default: all)`)
+      .option(
+        '--models <list>',
+        `models: ${MODEL_NAMES.join(', ')} (default: ${DEFAULT_MODEL_NAMES.join(', ')})`,
+      )
       .option(
         '--features <list>',
-        `feature sets: ${FEATURE_SET_NAMES.join(', ')} (default: all the kind allows)`,
+        `feature sets: ${FEATURE_SET_NAMES.join(', ')} (default: landscape, raw, combined, those the kind allows)`,
       );
   }
   return command
@@ -240,7 +243,7 @@ export async function parseStudy(
   const gridSizes = parsePositiveList(o.gridSizes, '--grid-sizes', 2);
   const infinite = parseInfiniteOption(o.infinite, '--infinite');
   const models =
-    o.models === undefined ? [...MODEL_NAMES] : parseListOption(o.models, '--models', MODEL_NAMES);
+    o.models === undefined ? [...DEFAULT_MODEL_NAMES] : parseListOption(o.models, '--models', MODEL_NAMES);
   const requested =
     o.features === undefined ? undefined : parseListOption(o.features, '--features', FEATURE_SET_NAMES);
   if (singleFeatureSet && models.length > 1)
@@ -315,11 +318,13 @@ export function defineEvaluate(program: Command): Command {
     .addHelpText(
       'after',
       `
-Every feature set runs with every model: landscape (the landscape vectoriser), raw (a baseline of the sample
-kind: pairwise-distance histogram and covariance spectrum for clouds, resampled signals, downsampled images),
-combined (both). A table dataset runs only raw; a diagrams file only landscape. Inside every outer training
-fold an inner cross-validation (--inner-folds) chooses the model's hyperparameters and the landscape depth
-and grid size (--depths × --grid-sizes); nothing is learned from the outer test fold.
+Every feature set runs with every model (pca-svm, dense, forest): landscape (the landscape vectoriser), raw
+(a baseline of the sample kind: pairwise-distance histogram and covariance spectrum for clouds, resampled
+signals, downsampled images), combined (both). Asked for by name, three more vectorisations of the diagrams
+compare with the landscape: betti (Betti curves), stats (persistence statistics and entropy), pimage
+(persistence images). A table dataset runs only raw; a diagrams file only the diagram sets. Inside every
+outer training fold an inner cross-validation (--inner-folds) chooses the model's hyperparameters and the
+landscape depth and grid size (--depths × --grid-sizes); nothing is learned from the outer test fold.
 
 The defaults keep the search small (3 inner folds, 4 landscape candidates, tried first with the model's
 default hyperparameters, then each model candidate with the best landscape): F + M − 1 inner runs per fold.

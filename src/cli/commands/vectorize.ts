@@ -71,7 +71,7 @@ export function defineVectorize(program: Command): Command {
   const command = program
     .command('vectorize')
     .description(
-      'feature vectors (landscape, raw or combined) of every sample, as CSV or NPY with named columns',
+      'feature vectors (landscape, raw, combined, betti, stats or pimage) of every sample, as CSV or NPY with named columns',
     )
     .argument('<dataset>', 'dataset the loader reads')
     .option('--features <set>', `feature set: ${FEATURE_SET_NAMES.join(', ')}`, 'landscape')
