@@ -303,22 +303,47 @@ export async function discriminativeMaps(
   };
 }
 
-/** Plain-words findings: how landscape features compare with the raw baseline, and what the contrasts say. */
+/** How the findings name each feature set built from diagrams alone. */
+const SHAPE_SET_WORDS: Record<string, string> = {
+  landscape: 'landscape features',
+  betti: 'Betti-curve features',
+  stats: 'persistence statistics',
+  pimage: 'persistence-image features',
+};
+
+/** The best result among the feature sets built from diagrams alone (landscape, betti, stats, pimage). */
+function bestShape(results: readonly StudyResult[]): { result: StudyResult; words: string } | undefined {
+  let out: { result: StudyResult; words: string } | undefined;
+  for (const set of Object.keys(SHAPE_SET_WORDS)) {
+    const r = best(results, set);
+    if (r && (!out || r.accuracy.mean > out.result.accuracy.mean))
+      out = { result: r, words: SHAPE_SET_WORDS[set] };
+  }
+  return out;
+}
+
+/**
+ * Plain-words findings: how the best features built from diagrams alone compare with the raw baseline, and
+ * what the contrasts say.
+ */
 export function findingsOf(evaluation: EvaluationResult, contrasts: readonly ContrastTest[]): string[] {
   const out: string[] = [];
   const pct = (v: number) => `${(100 * v).toFixed(0)}%`;
-  const land = best(evaluation.results, 'landscape');
+  const shape = bestShape(evaluation.results);
+  const land = shape?.result;
+  const words = shape?.words ?? 'landscape features';
+  const Words = words.charAt(0).toUpperCase() + words.slice(1);
   const raw = best(evaluation.results, 'raw');
   const combined = best(evaluation.results, 'combined');
   if (land && raw) {
     const gap = land.accuracy.mean - raw.accuracy.mean;
     const spread = Math.max(land.accuracy.std, raw.accuracy.std);
-    const l = `landscape features (${land.model}) reach ${pct(land.accuracy.mean)} ± ${pct(land.accuracy.std)}`;
+    const l = `${words} (${land.model}) reach ${pct(land.accuracy.mean)} ± ${pct(land.accuracy.std)}`;
     const r = `the raw baseline (${raw.model}) ${pct(raw.accuracy.mean)} ± ${pct(raw.accuracy.std)}`;
     if (gap >= 0.1 && gap > spread) out.push(`Shape helps here: ${l}, clearly above ${r}.`);
     else if (gap > 0.02)
       out.push(
-        `Landscape features are somewhat ahead: ${l} against ${r}; the gap is within about one fold-to-fold spread, so treat it as suggestive.`,
+        `${Words} are somewhat ahead: ${l} against ${r}; the gap is within about one fold-to-fold spread, so treat it as suggestive.`,
       );
     else if (gap >= -0.02) out.push(`No gain from shape on this set: ${l} and ${r} perform alike.`);
     else
@@ -326,9 +351,7 @@ export function findingsOf(evaluation: EvaluationResult, contrasts: readonly Con
         `The raw baseline wins on this set: ${r} against ${l}. A plain summary of the data already separates these classes; persistent homology adds nothing here.`,
       );
   } else if (land) {
-    out.push(
-      `Landscape features (${land.model}) reach ${pct(land.accuracy.mean)} ± ${pct(land.accuracy.std)}.`,
-    );
+    out.push(`${Words} (${land.model}) reach ${pct(land.accuracy.mean)} ± ${pct(land.accuracy.std)}.`);
   }
   if (combined && land && raw) {
     const top = Math.max(land.accuracy.mean, raw.accuracy.mean);
@@ -434,7 +457,9 @@ export async function buildDatasetReport(
       models: evaluation.options.models,
       'outer folds × repeats': `${evaluation.folds} × ${evaluation.repeats}`,
       'inner folds': evaluation.options.innerFolds,
-      'landscape (K, G) candidates': evaluation.options.landscapeCandidates,
+      ...(evaluation.options.landscapeCandidates !== undefined
+        ? { 'landscape (K, G) candidates': evaluation.options.landscapeCandidates }
+        : {}),
       seed: evaluation.seed,
       ...(shaped ? {} : { note: 'no diagrams (table data): accuracy only' }),
       'class means': `depth ${o.depth}, ${o.gridCount}-point grid, ${Math.round(o.level * 100)}% band from ${o.draws} multiplier draws`,
@@ -498,7 +523,7 @@ export async function evaluationReportHtml(
   );
   return renderReport({
     title: `Shape study of ${name}`,
-    lead: 'Cross-validated accuracy of landscape and raw features, class means with bands, contrasts and discriminative maps.',
+    lead: 'Cross-validated accuracy of topological and raw features, class means with bands, contrasts and discriminative maps.',
     version: version(),
     command: `landform evaluate ${input}`,
     seed: evaluation.seed,
