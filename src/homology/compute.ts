@@ -54,6 +54,14 @@ export function computeDiagrams(
   options: DiagramOptions,
 ): DiagramSet & { coveringRadius?: number } {
   const degrees = checkDegrees(options.degrees);
+  if (sample.kind === 'diagrams') {
+    // Given diagrams are used as they are; tagged ones keep every channel of the wanted degrees, in order.
+    const tagged = sample.diagrams.some((d) => d.filtration !== undefined);
+    const diagrams = tagged
+      ? sample.diagrams.filter((d) => degrees.includes(d.degree))
+      : degrees.map((d) => sample.diagrams.find((x) => x.degree === d) ?? emptyDiagram(d));
+    return { sample: sample.id, label: sample.label, diagrams };
+  }
   const list = filtrationList(options.filtration);
   const covering = (r: number | undefined) => (r !== undefined ? { coveringRadius: r } : {});
   if (list.length <= 1) {

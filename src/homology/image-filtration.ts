@@ -51,16 +51,6 @@ export interface CentreCoordinate {
   percent: boolean;
 }
 
-export const IMAGE_FILTRATION_KINDS = [
-  'grey',
-  'height',
-  'radial',
-  'distance',
-  'dilation',
-  'erosion',
-  'density',
-] as const;
-
 export const IMAGE_FILTRATION_CHOICES =
   'grey, height:ROW:COL (a direction), radial:ROW:COL (a centre, pixels or P%), distance, dilation, erosion, density:R, or the presets heights:N and radials:N';
 

@@ -42,7 +42,7 @@ export function diagramsInFileOrder(set: DiagramSet): Diagram[] {
 export class DiagramCollector {
   private readonly samples = new Map<
     string,
-    { label: string; pairs: Map<string, { b: number[]; d: number[] }> }
+    { label: string; pairs: Map<string, { b: number[]; d: number[] }>; sequence: Array<string | undefined> }
   >();
   private readonly tags: Array<string | undefined> = [];
   private readonly degrees = new Set<number>();
@@ -62,10 +62,11 @@ export class DiagramCollector {
   ): void {
     let entry = this.samples.get(sample);
     if (entry === undefined) {
-      entry = { label, pairs: new Map() };
+      entry = { label, pairs: new Map(), sequence: [] };
       this.samples.set(sample, entry);
     }
     if (!this.tags.includes(tag)) this.tags.push(tag);
+    if (entry.sequence[entry.sequence.length - 1] !== tag) entry.sequence.push(tag);
     this.degrees.add(degree);
     const key = channelKey(tag, degree);
     let pairs = entry.pairs.get(key);
@@ -77,8 +78,43 @@ export class DiagramCollector {
     pairs.d.push(death);
   }
 
+  /**
+   * The tags in the order the rows imply: each sample's rows go filtration by filtration, so a tag met
+   * after another in one sample comes after it (a sample without pairs in some filtration still orders the
+   * rest); ties and contradictions fall back to first-met order. Untagged diagrams come first.
+   */
+  private tagOrder(): Array<string | undefined> {
+    const index = new Map(this.tags.map((t, i) => [t, i]));
+    const n = this.tags.length;
+    const after: number[][] = Array.from({ length: n }, () => []);
+    const incoming = new Int32Array(n);
+    for (const entry of this.samples.values()) {
+      for (let k = 1; k < entry.sequence.length; k++) {
+        const from = index.get(entry.sequence[k - 1])!;
+        const to = index.get(entry.sequence[k])!;
+        if (!after[from].includes(to)) {
+          after[from].push(to);
+          incoming[to]++;
+        }
+      }
+    }
+    const order: number[] = [];
+    const placed = new Uint8Array(n);
+    // invariant: order holds the placed tags; each step places the first-met tag with nothing left before it
+    while (order.length < n) {
+      let next = -1;
+      for (let i = 0; i < n && next < 0; i++) if (!placed[i] && incoming[i] === 0) next = i;
+      if (next < 0) for (let i = 0; i < n && next < 0; i++) if (!placed[i]) next = i; // a contradiction
+      placed[next] = 1;
+      order.push(next);
+      for (const to of after[next]) incoming[to]--;
+    }
+    const tags = order.map((i) => this.tags[i]);
+    return tags.includes(undefined) ? [undefined, ...tags.filter((t) => t !== undefined)] : tags;
+  }
+
   finish(): DiagramSet[] {
-    const tags = [...this.tags].sort((a, b) => (a === undefined ? -1 : b === undefined ? 1 : 0));
+    const tags = this.tagOrder();
     const degrees = [...this.degrees].sort((a, b) => a - b);
     return [...this.samples.entries()].map(([sample, entry]) => {
       const diagrams: Diagram[] = [];

@@ -156,6 +156,19 @@ describe('computeDiagrams with several filtrations', () => {
     expect(Array.from(set.diagrams[1].deaths)).toEqual([Infinity]);
   });
 
+  it('passes given diagrams through with their tags, whatever filtrations are asked for', () => {
+    const diagrams = computeDiagrams(loop, {
+      degrees: [0, 1],
+      filtration: parseFiltrationList('grey,erosion'),
+    }).diagrams;
+    const given = computeDiagrams(
+      { kind: 'diagrams', id: 'g', label: 'o', diagrams },
+      { degrees: [1], filtration: parseFiltrationList('height:1:0,distance') },
+    );
+    expect(given.diagrams).toEqual(diagrams.filter((d) => d.degree === 1));
+    expect(given.diagrams.map((d) => d.filtration)).toEqual(['grey', 'erosion']);
+  });
+
   it('computes clouds under a list of cloud filtrations and refuses image filtrations there', () => {
     const set = computeDiagrams(square(), { degrees: [1], filtration: parseFiltrationList('rips,alpha') });
     expect(set.diagrams.map((d) => d.filtration)).toEqual(['rips', 'alpha']);

@@ -95,6 +95,21 @@ describe('diagram CSV with filtration tags', () => {
     expect(formatDiagramCsv(back)).toBe(text);
   });
 
+  it('recovers the filtration order when the first sample has no pairs in the first filtration', () => {
+    const gap = [
+      { sample: 'a', label: 'x', diagrams: [tagged(1, 'erosion', []), tagged(1, 'grey', [[1, 2]])] },
+      { sample: 'b', label: 'x', diagrams: [tagged(1, 'erosion', [[-2, 0]]), tagged(1, 'grey', [[0, 3]])] },
+    ];
+    const text = formatDiagramCsv(gap);
+    const back = parseDiagramCsv(text, 'gap.csv');
+    expect(back.map((set) => set.diagrams.map((d) => d.filtration))).toEqual([
+      ['erosion', 'grey'],
+      ['erosion', 'grey'],
+    ]);
+    expect(back).toEqual(gap);
+    expect(formatDiagramCsv(back)).toBe(text);
+  });
+
   it('keeps untagged files at five columns', () => {
     const plain = [{ sample: 'a', label: 'x', diagrams: [makeDiagram(0, [[0, 1]])] }];
     expect(formatDiagramCsv(plain).split('\n')[0]).toBe('sample,label,degree,birth,death');
