@@ -2,15 +2,21 @@ import { UserError } from '../core/errors.js';
 import { type Classifier, type Hyperparameters, MODEL_NAMES, type ModelName } from './classifier.js';
 import { DenseClassifier } from './dense.js';
 import { PcaSvmClassifier } from './pca-svm.js';
+import type { ProjectionCache } from './projection-cache.js';
 
 /**
  * The registry of models: a name → a factory, a default inner-CV grid and a loader.
  * To add a model, see DEVELOPERS.md ("How to add a model").
  */
-export function createClassifier(name: ModelName, hyper: Hyperparameters, seed: number): Classifier {
+export function createClassifier(
+  name: ModelName,
+  hyper: Hyperparameters,
+  seed: number,
+  shared?: ProjectionCache,
+): Classifier {
   switch (name) {
     case 'pca-svm':
-      return new PcaSvmClassifier(hyper, seed);
+      return new PcaSvmClassifier(hyper, seed, shared);
     case 'dense':
       return new DenseClassifier(hyper, seed);
     default:
