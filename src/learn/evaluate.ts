@@ -180,7 +180,11 @@ export async function selectUnit(context: StudyContext, u: StudyUnit): Promise<S
 }
 
 /** Phase 2 of one unit: fit on the outer training rows with the chosen values, score the test rows. */
-export async function fitUnit(context: StudyContext, u: StudyUnit, selection: Selection): Promise<FoldOutcome> {
+export async function fitUnit(
+  context: StudyContext,
+  u: StudyUnit,
+  selection: Selection,
+): Promise<FoldOutcome> {
   const f = context.outer[u.fi];
   const { y, classCount } = context;
   const extractor = baseExtractor(context, u.si).withLandscape(selection.landscape ?? {});
@@ -371,7 +375,11 @@ export function applyFixed(list: Hyperparameters[], fixed: Hyperparameters | und
       if (key === 'gamma' && c.kernel === 'linear') continue;
       c[key] = value;
     }
-    const key = JSON.stringify(Object.keys(c).sort().map((k) => [k, c[k]]));
+    const key = JSON.stringify(
+      Object.keys(c)
+        .sort()
+        .map((k) => [k, c[k]]),
+    );
     if (seen.has(key)) continue;
     seen.add(key);
     out.push(c);

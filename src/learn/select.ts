@@ -32,7 +32,12 @@ export const DEFAULT_LANDSCAPE_CANDIDATES: readonly LandscapeCandidate[] = [
 /** Creates classifiers and lists their inner-CV candidates (the models stage provides the default one). */
 export interface ModelFactory {
   /** `shared`: fitted parts the candidates of one search may share (pca-svm: scaler + PCA per fold). */
-  create(name: ModelName, hyperparameters: Hyperparameters, seed: number, shared?: ProjectionCache): Classifier;
+  create(
+    name: ModelName,
+    hyperparameters: Hyperparameters,
+    seed: number,
+    shared?: ProjectionCache,
+  ): Classifier;
   candidates(name: ModelName, shape: { samples: number; features: number }): Hyperparameters[];
 }
 

@@ -1,6 +1,7 @@
 import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
 import type { FeatureData } from '../../features/combined.js';
+import { parseProgressMode } from '../progress.js';
 import { addStudyOptions, diagramsForCommand, parseStudy, type StudyCommandOptions } from './evaluate.js';
 
 interface TrainCommandOptions extends StudyCommandOptions {
@@ -44,7 +45,9 @@ Example:
         });
       const features = study.featureSets[0];
       const diagrams =
-        features === 'raw' ? undefined : await diagramsForCommand(dataset, parsed, o.quiet === true);
+        features === 'raw'
+          ? undefined
+          : await diagramsForCommand(dataset, parsed, o.quiet === true, parseProgressMode(o.progress));
       const data: FeatureData = {
         samples: dataset.samples,
         ...(diagrams ? { diagrams } : {}),
@@ -62,7 +65,8 @@ Example:
         ...(options.seed !== undefined ? { seed: options.seed } : {}),
       });
       try {
-        await pipeline.fit(data, labels);
+        const { defaultModelFactory, withFixed } = await import('../../learn/evaluate.js');
+        await pipeline.fit(data, labels, withFixed(await defaultModelFactory(), options.fixed));
         const { manifest, files } = await pipeline.toFolder({
           ...options.record,
           diagramOptions: dataset.kind === 'diagrams' ? null : parsed.diagramOptions,
