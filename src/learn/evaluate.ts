@@ -75,7 +75,10 @@ export interface EvaluationOptions {
    * the homology stage's worker threads). Default: degrees of the landscape options (0, 1), Rips, euclidean.
    */
   diagramOptions?: DiagramOptions;
-  /** Worker threads for the diagrams. Default: every core. */
+  /**
+   * Threads for the diagrams and the learning (the calling thread counts as one). Default: every core; the
+   * learning stays on the calling thread below MIN_SAMPLES_FOR_LEARNING_WORKERS samples.
+   */
   workers?: number;
   /** Computes the diagrams of the samples (called once) when `diagrams` is not given. */
   computeDiagrams?: (
@@ -127,6 +130,37 @@ export interface StudyContext {
   reuse: boolean;
   landscape?: LandscapeVectorizerOptions;
   raw?: RawFeaturesOptions;
+  /**
+   * How `factory` was made from the models stage's default one, so a worker thread can make the same; absent
+   * when the caller gave its own factory (its units then run on the calling thread).
+   */
+  plan?: {
+    modelCandidates?: Partial<Record<ModelName, Hyperparameters[]>>;
+    fixed?: Partial<Record<ModelName, Hyperparameters>>;
+  };
+}
+
+/** A study context as plain data (what a worker thread is sent): the factory replaced by its plan. */
+export interface StudySpec extends Omit<StudyContext, 'data' | 'factory' | 'plan'> {
+  samples: FeatureData['samples'];
+  diagrams?: FeatureData['diagrams'];
+  columns?: FeatureData['columns'];
+  modelCandidates?: Partial<Record<ModelName, Hyperparameters[]>>;
+  fixed?: Partial<Record<ModelName, Hyperparameters>>;
+}
+
+/** The context as plain data, or undefined when its factory cannot be rebuilt elsewhere. */
+export function studySpec(context: StudyContext): StudySpec | undefined {
+  if (!context.plan) return undefined;
+  const { data, factory: _f, plan, ...rest } = context;
+  return {
+    ...rest,
+    samples: data.samples,
+    ...(data.diagrams ? { diagrams: data.diagrams } : {}),
+    ...(data.columns ? { columns: data.columns } : {}),
+    ...(plan.modelCandidates ? { modelCandidates: plan.modelCandidates } : {}),
+    ...(plan.fixed ? { fixed: plan.fixed } : {}),
+  };
 }
 
 /** One unit: feature set `si`, model `mi`, outer fold `fi` (indices into the context's lists). */
@@ -226,6 +260,26 @@ export async function fitUnit(
   } finally {
     classifier.dispose();
   }
+}
+
+/**
+ * Below this many samples a study takes seconds and the start of a worker thread (about a second with
+ * TensorFlow.js and libsvm loaded) would eat the gain, so units run on the calling thread (common practice,
+ * no source: a threshold measured on this project's bench, see DEVELOPERS.md).
+ */
+export const MIN_SAMPLES_FOR_LEARNING_WORKERS = 200;
+
+async function defaultRunner(
+  options: EvaluationOptions,
+  samples: number,
+  units: number,
+): Promise<UnitRunner> {
+  const { availableParallelism } = await import('node:os');
+  const workers = Math.min(options.workers ?? availableParallelism(), units);
+  if (workers <= 1 || samples < MIN_SAMPLES_FOR_LEARNING_WORKERS || options.modelFactory)
+    return serialUnitRunner;
+  const { learningWorkers } = await import('./parallel.js');
+  return learningWorkers({ workers });
 }
 
 /** Every unit on the calling thread, one after another. */
@@ -483,6 +537,14 @@ export async function runEvaluation(
     reuse: options.reuse !== false,
     ...(options.landscape ? { landscape: options.landscape } : {}),
     ...(options.raw ? { raw: options.raw } : {}),
+    ...(options.modelFactory
+      ? {}
+      : {
+          plan: {
+            ...(options.modelCandidates ? { modelCandidates: options.modelCandidates } : {}),
+            ...(options.fixed ? { fixed: options.fixed } : {}),
+          },
+        }),
   };
   // Units in (feature set, model, outer fold) order; each has its own derived seed, so the order in which
   // units run (one after another, or on worker threads) does not change any result.
@@ -492,7 +554,7 @@ export async function runEvaluation(
       for (let fi = 0; fi < outer.length; fi++) unitList.push({ si, mi, fi });
 
   // Phase 1, inner CV: every unit's hyperparameters; phase 2, outer folds: every unit's fit and test.
-  const runner = options.unitRunner ?? serialUnitRunner;
+  const runner = options.unitRunner ?? (await defaultRunner(options, dataset.samples.length, units));
   let selectionsDone = 0;
   options.onPhase?.('inner CV', 0, units);
   const selections = await runner.select(context, unitList, () => {
