@@ -8,7 +8,6 @@ import {
   type FoldOutcome,
   fitUnit,
   type StudyContext,
-  type StudyUnit,
   selectUnit,
   serialUnitRunner,
   studySpec,
