@@ -53,8 +53,6 @@ export interface SelectionOptions {
    * Default true; false refits them per candidate (the plain path, kept for tests and benchmarks).
    */
   reuse?: boolean;
-  /** Called after each candidate is scored (done, total candidates of this search). */
-  onCandidate?: (done: number, total: number) => void;
 }
 
 export const DEFAULT_SELECTION_OPTIONS = { innerFolds: 3, seed: 1 } as const;
@@ -178,7 +176,6 @@ export async function selectHyperparameters(
     return cached;
   };
   const shared = options.reuse === false ? undefined : new ProjectionCache();
-  const planned = Math.max(1, landscapeCandidates.length) + modelCandidates.length - 1;
   const score = async (
     landscape: LandscapeCandidate | undefined,
     hyper: Hyperparameters,
@@ -197,7 +194,6 @@ export async function selectHyperparameters(
     }
     const s = sum / folds.length;
     tried.push({ ...(landscape ? { landscape } : {}), model: hyper, score: s });
-    options.onCandidate?.(tried.length, Math.max(planned, tried.length));
     return s;
   };
 
