@@ -15,8 +15,8 @@ import type { DiagramOptions } from '../homology/compute.js';
 import { type DiagramSet, describeInfinitePolicy } from '../homology/diagram.js';
 import { classesOf, type Dataset } from '../io/dataset.js';
 import type { Grid } from '../landscape/grid.js';
-import { DEFAULT_MODEL_NAMES, type Hyperparameters, type ModelName } from './classifier.js';
-import { checkFoldable, encodeLabels, stratifiedFolds } from './folds.js';
+import { DEFAULT_MODEL_NAMES, type Hyperparameters, MODEL_NAMES, type ModelName } from './classifier.js';
+import { checkFoldable, encodeLabels, type Fold, stratifiedFolds } from './folds.js';
 import type { Matrix } from './matrix.js';
 import {
   accuracy,
@@ -35,6 +35,7 @@ import {
   type LandscapeCandidate,
   type ModelFactory,
   pick,
+  type Selection,
   selectHyperparameters,
 } from './select.js';
 
@@ -78,7 +79,10 @@ export interface EvaluationOptions {
    * the homology stage's worker threads). Default: degrees of the landscape options (0, 1), Rips, euclidean.
    */
   diagramOptions?: DiagramOptions;
-  /** Worker threads for the diagrams. Default: every core. */
+  /**
+   * Threads for the diagrams and the learning (the calling thread counts as one). Default: every core; the
+   * learning stays on the calling thread below MIN_SAMPLES_FOR_LEARNING_WORKERS samples.
+   */
   workers?: number;
   /** Computes the diagrams of the samples (called once) when `diagrams` is not given. */
   computeDiagrams?: (
@@ -94,9 +98,217 @@ export interface EvaluationOptions {
   modelFactory?: ModelFactory;
   /** Anything else to record under `options` in metrics.json (e.g. the diagram options). */
   record?: Record<string, unknown>;
-  /** Progress over diagram computation and (feature set × model × outer fold) units. */
+  /**
+   * Model hyperparameters fixed by the user, per model (e.g. {'pca-svm': {kernel: 'rbf', C: 10,
+   * varianceKept: 1}}): the inner search keeps only candidates with these values (see `withFixed`).
+   */
+  fixed?: Partial<Record<ModelName, Hyperparameters>>;
+  /** Share each inner fold's scaler + PCA among the SVM candidates. Default true (same results). */
+  reuse?: boolean;
+  /** Runs the units (serially by default; `learningWorkers` runs them on worker threads). */
+  unitRunner?: UnitRunner;
+  /**
+   * Progress over diagram computation and the units of both learning phases: total = samples whose
+   * diagrams are computed + 2 × (feature sets × models × outer folds).
+   */
   onProgress?: (done: number, total: number) => void;
+  /** Progress per phase: 'diagrams' (samples), then 'inner CV' and 'outer folds' (units each). */
+  onPhase?: (phase: StudyPhase, done: number, total: number) => void;
 }
+
+/** The phases of a study, in order ('report' belongs to the command that writes one). */
+export type StudyPhase = 'diagrams' | 'inner CV' | 'outer folds' | 'report';
+
+/** What every unit of one study shares (built once; a worker thread builds its own copy). */
+export interface StudyContext {
+  data: FeatureData;
+  y: Int32Array;
+  classCount: number;
+  featureSets: FeatureSetName[];
+  models: ModelName[];
+  outer: Fold[];
+  seed: number;
+  innerFolds: number;
+  landscapeCandidates: readonly LandscapeCandidate[];
+  factory: ModelFactory;
+  reuse: boolean;
+  landscape?: LandscapeVectorizerOptions;
+  raw?: RawFeaturesOptions;
+  /** Options of the betti, stats and pimage vectorisers (plain data). */
+  diagramFeatures?: EvaluationOptions['diagramFeatures'];
+  /**
+   * How `factory` was made from the models stage's default one, so a worker thread can make the same; absent
+   * when the caller gave its own factory (its units then run on the calling thread).
+   */
+  plan?: {
+    modelCandidates?: Partial<Record<ModelName, Hyperparameters[]>>;
+    fixed?: Partial<Record<ModelName, Hyperparameters>>;
+  };
+}
+
+/** A study context as plain data (what a worker thread is sent): the factory replaced by its plan. */
+export interface StudySpec extends Omit<StudyContext, 'data' | 'factory' | 'plan'> {
+  samples: FeatureData['samples'];
+  diagrams?: FeatureData['diagrams'];
+  columns?: FeatureData['columns'];
+  modelCandidates?: Partial<Record<ModelName, Hyperparameters[]>>;
+  fixed?: Partial<Record<ModelName, Hyperparameters>>;
+}
+
+/** The context as plain data, or undefined when its factory cannot be rebuilt elsewhere. */
+export function studySpec(context: StudyContext): StudySpec | undefined {
+  if (!context.plan) return undefined;
+  const { data, factory: _f, plan, ...rest } = context;
+  return {
+    ...rest,
+    samples: data.samples,
+    ...(data.diagrams ? { diagrams: data.diagrams } : {}),
+    ...(data.columns ? { columns: data.columns } : {}),
+    ...(plan.modelCandidates ? { modelCandidates: plan.modelCandidates } : {}),
+    ...(plan.fixed ? { fixed: plan.fixed } : {}),
+  };
+}
+
+/** One unit: feature set `si`, model `mi`, outer fold `fi` (indices into the context's lists). */
+export interface StudyUnit {
+  si: number;
+  mi: number;
+  fi: number;
+}
+
+/** Runs the units of both phases; results in the order of `units`. `tick` after each unit. */
+export interface UnitRunner {
+  select(context: StudyContext, units: StudyUnit[], tick: () => void): Promise<Selection[]>;
+  fit(
+    context: StudyContext,
+    units: StudyUnit[],
+    selections: Selection[],
+    tick: () => void,
+  ): Promise<FoldOutcome[]>;
+}
+
+function baseExtractor(context: StudyContext, si: number): FeatureExtractor {
+  return new FeatureExtractor(context.featureSets[si], {
+    ...(context.landscape ? { landscape: context.landscape } : {}),
+    ...(context.raw ? { raw: context.raw } : {}),
+    ...context.diagramFeatures,
+  });
+}
+
+function unitSeed(context: StudyContext, u: StudyUnit): number {
+  const f = context.outer[u.fi];
+  return derivedSeed(context.seed, f.repeat, f.fold, u.si, u.mi);
+}
+
+/** Phase 1 of one unit: the inner cross-validation inside the outer fold's training rows. */
+export async function selectUnit(context: StudyContext, u: StudyUnit): Promise<Selection> {
+  const f = context.outer[u.fi];
+  return selectHyperparameters(
+    baseExtractor(context, u.si),
+    context.data,
+    context.y,
+    context.classCount,
+    f.train,
+    context.models[u.mi],
+    context.factory,
+    {
+      innerFolds: context.innerFolds,
+      landscapeCandidates: context.landscapeCandidates,
+      seed: unitSeed(context, u),
+      reuse: context.reuse,
+    },
+  );
+}
+
+/** Phase 2 of one unit: fit on the outer training rows with the chosen values, score the test rows. */
+export async function fitUnit(
+  context: StudyContext,
+  u: StudyUnit,
+  selection: Selection,
+): Promise<FoldOutcome> {
+  const f = context.outer[u.fi];
+  const { y, classCount } = context;
+  const extractor = baseExtractor(context, u.si).withLandscape(selection.landscape ?? {});
+  const classifier = context.factory.create(context.models[u.mi], selection.model, unitSeed(context, u));
+  try {
+    const { predicted, scores } = await fitAndPredict(
+      extractor,
+      context.data,
+      y,
+      classCount,
+      f.train,
+      f.test,
+      classifier,
+    );
+    const confusion = confusionMatrix(pick(y, f.test), predicted, classCount);
+    const weights = hasLinearWeights(classifier) ? classifier.linearWeights() : undefined;
+    return {
+      repeat: f.repeat,
+      fold: f.fold,
+      test: f.test,
+      predicted,
+      scores,
+      accuracy: accuracy(confusion),
+      balancedAccuracy: balancedAccuracy(confusion),
+      macroF1: macroF1(confusion),
+      chosen: chosenOf(selection.landscape, selection.model),
+      innerScore: selection.score,
+      ...(extractor.landscape?.state
+        ? {
+            grids: extractor.landscape.state.grids.map((g) => ({
+              degree: g.degree,
+              ...(g.filtration !== undefined ? { filtration: g.filtration } : {}),
+              grid: { ...g.grid },
+            })),
+          }
+        : {}),
+      featureNames: extractor.featureNames(),
+      ...(weights ? { linearWeights: weights } : {}),
+    };
+  } finally {
+    classifier.dispose();
+  }
+}
+
+/**
+ * Below this many samples a study takes seconds and the start of a worker thread (about a second with
+ * TensorFlow.js and libsvm loaded) would eat the gain, so units run on the calling thread (common practice,
+ * no source: a threshold measured on this project's bench, see DEVELOPERS.md).
+ */
+export const MIN_SAMPLES_FOR_LEARNING_WORKERS = 200;
+
+async function defaultRunner(
+  options: EvaluationOptions,
+  samples: number,
+  units: number,
+): Promise<UnitRunner> {
+  const { availableParallelism } = await import('node:os');
+  const workers = Math.min(options.workers ?? availableParallelism(), units);
+  if (workers <= 1 || samples < MIN_SAMPLES_FOR_LEARNING_WORKERS || options.modelFactory)
+    return serialUnitRunner;
+  const { learningWorkers } = await import('./parallel.js');
+  return learningWorkers({ workers });
+}
+
+/** Every unit on the calling thread, one after another. */
+export const serialUnitRunner: UnitRunner = {
+  async select(context, units, tick) {
+    const out: Selection[] = [];
+    for (const u of units) {
+      out.push(await selectUnit(context, u));
+      tick();
+    }
+    return out;
+  },
+  async fit(context, units, selections, tick) {
+    const out: FoldOutcome[] = [];
+    for (let i = 0; i < units.length; i++) {
+      out.push(await fitUnit(context, units[i], selections[i]));
+      tick();
+    }
+    return out;
+  },
+};
 
 export const DEFAULT_EVALUATION_OPTIONS = { folds: 5, repeats: 1, seed: 1, innerFolds: 3 } as const;
 
@@ -193,6 +405,65 @@ export function withCandidates(
   };
 }
 
+/**
+ * The factory with some models' hyperparameters fixed: a fixed `kernel` keeps only the candidates with that
+ * kernel (or that kernel alone when none has it); every other fixed value replaces the candidates' value —
+ * `gamma` only where the kernel is not linear — and repeated candidates are dropped (the first stays), so a
+ * model whose every value is fixed is fitted without an inner search for it.
+ */
+export function withFixed(
+  factory: ModelFactory,
+  fixed?: Partial<Record<ModelName, Hyperparameters>>,
+): ModelFactory {
+  if (!fixed) return factory;
+  return {
+    create: factory.create,
+    candidates: (name, shape) => applyFixed(factory.candidates(name, shape), fixed[name]),
+  };
+}
+
+export function applyFixed(list: Hyperparameters[], fixed: Hyperparameters | undefined): Hyperparameters[] {
+  if (!fixed || Object.keys(fixed).length === 0) return list;
+  let kept = list;
+  if (fixed.kernel !== undefined) {
+    kept = list.filter((h) => (h.kernel ?? 'rbf') === fixed.kernel);
+    if (kept.length === 0) kept = [{ kernel: fixed.kernel }];
+  }
+  const out: Hyperparameters[] = [];
+  const seen = new Set<string>();
+  for (const h of kept) {
+    const c: Hyperparameters = { ...h };
+    for (const [key, value] of Object.entries(fixed)) {
+      if (key === 'gamma' && c.kernel === 'linear') continue;
+      c[key] = value;
+    }
+    const key = JSON.stringify(
+      Object.keys(c)
+        .sort()
+        .map((k) => [k, c[k]]),
+    );
+    if (seen.has(key)) continue;
+    seen.add(key);
+    out.push(c);
+  }
+  return out;
+}
+
+/** What metrics.json records of the fixed values: one entry per model of the study (empty = all searched). */
+function fixedRecord(
+  models: readonly ModelName[],
+  fixed: Partial<Record<ModelName, Hyperparameters>> | undefined,
+): Record<string, Hyperparameters> {
+  const out: Record<string, Hyperparameters> = {};
+  for (const m of models) {
+    const f = fixed?.[m] ?? {};
+    const sorted: Hyperparameters = {};
+    for (const key of Object.keys(f).sort()) sorted[key] = f[key];
+    out[m] = sorted;
+  }
+  return out;
+}
+
 /** Checks what a study needs before any work: two classes, enough samples per class, usable feature sets. */
 export function checkStudy(
   dataset: Dataset,
@@ -230,9 +501,9 @@ export async function runEvaluation(
   const innerFolds = options.innerFolds ?? DEFAULT_EVALUATION_OPTIONS.innerFolds;
   const models = options.models ?? [...DEFAULT_MODEL_NAMES];
   const landscapeCandidates = options.landscapeCandidates ?? DEFAULT_LANDSCAPE_CANDIDATES;
-  const factory = withCandidates(
-    options.modelFactory ?? (await defaultModelFactory()),
-    options.modelCandidates,
+  const factory = withFixed(
+    withCandidates(options.modelFactory ?? (await defaultModelFactory()), options.modelCandidates),
+    options.fixed,
   );
   const classCount = classes.length;
   const outer = stratifiedFolds(y, classCount, { folds, repeats, seed });
@@ -241,13 +512,17 @@ export async function runEvaluation(
   const needDiagrams = featureSets.some((s) => s !== 'raw');
   const diagramUnits =
     needDiagrams && !options.diagrams && dataset.kind !== 'diagrams' ? dataset.samples.length : 0;
-  const total = units + diagramUnits;
+  const total = 2 * units + diagramUnits;
   let done = 0;
   options.onProgress?.(0, total);
 
   let diagrams: readonly DiagramSet[] | undefined;
   if (needDiagrams) {
-    diagrams = await diagramsOf(dataset, options, (d) => options.onProgress?.(d, total));
+    if (diagramUnits > 0) options.onPhase?.('diagrams', 0, diagramUnits);
+    diagrams = await diagramsOf(dataset, options, (d) => {
+      options.onProgress?.(d, total);
+      options.onPhase?.('diagrams', d, diagramUnits);
+    });
     done = diagramUnits;
   }
   const data: FeatureData = {
@@ -256,78 +531,72 @@ export async function runEvaluation(
     ...(dataset.columns ? { columns: dataset.columns } : {}),
   };
 
+  const context: StudyContext = {
+    data,
+    y,
+    classCount,
+    featureSets,
+    models,
+    outer,
+    seed,
+    innerFolds,
+    landscapeCandidates,
+    factory,
+    reuse: options.reuse !== false,
+    ...(options.landscape ? { landscape: options.landscape } : {}),
+    ...(options.raw ? { raw: options.raw } : {}),
+    ...(options.diagramFeatures ? { diagramFeatures: options.diagramFeatures } : {}),
+    ...(options.modelFactory
+      ? {}
+      : {
+          plan: {
+            ...(options.modelCandidates ? { modelCandidates: options.modelCandidates } : {}),
+            ...(options.fixed ? { fixed: options.fixed } : {}),
+          },
+        }),
+  };
+  // Units in (feature set, model, outer fold) order; each has its own derived seed, so the order in which
+  // units run (one after another, or on worker threads) does not change any result.
+  const unitList: StudyUnit[] = [];
+  for (let si = 0; si < featureSets.length; si++)
+    for (let mi = 0; mi < models.length; mi++)
+      for (let fi = 0; fi < outer.length; fi++) unitList.push({ si, mi, fi });
+
+  // Phase 1, inner CV: every unit's hyperparameters; phase 2, outer folds: every unit's fit and test.
+  const runner = options.unitRunner ?? (await defaultRunner(options, dataset.samples.length, units));
+  let selectionsDone = 0;
+  options.onPhase?.('inner CV', 0, units);
+  const selections = await runner.select(context, unitList, () => {
+    options.onProgress?.(++done, total);
+    options.onPhase?.('inner CV', ++selectionsDone, units);
+  });
+  let fitsDone = 0;
+  options.onPhase?.('outer folds', 0, units);
+  const outcomes = await runner.fit(context, unitList, selections, () => {
+    options.onProgress?.(++done, total);
+    options.onPhase?.('outer folds', ++fitsDone, units);
+  });
+
   const results: StudyResult[] = [];
   for (let si = 0; si < featureSets.length; si++) {
-    const set = featureSets[si];
-    const base = new FeatureExtractor(set, {
-      ...(options.landscape ? { landscape: options.landscape } : {}),
-      ...(options.raw ? { raw: options.raw } : {}),
-      ...options.diagramFeatures,
-    });
     for (let mi = 0; mi < models.length; mi++) {
-      const model = models[mi];
-      const outcomes: FoldOutcome[] = [];
+      const mine: FoldOutcome[] = [];
       const pooled: Confusion = confusionMatrix([], [], classCount);
-      for (const f of outer) {
-        const unitSeed = derivedSeed(seed, f.repeat, f.fold, si, mi);
-        const selection = await selectHyperparameters(base, data, y, classCount, f.train, model, factory, {
-          innerFolds,
-          landscapeCandidates,
-          seed: unitSeed,
-        });
-        const extractor = base.withLandscape(selection.landscape ?? {});
-        const classifier = factory.create(model, selection.model, unitSeed);
-        try {
-          const { predicted, scores } = await fitAndPredict(
-            extractor,
-            data,
-            y,
-            classCount,
-            f.train,
-            f.test,
-            classifier,
-          );
-          const confusion = confusionMatrix(pick(y, f.test), predicted, classCount);
-          addConfusion(pooled, confusion);
-          const weights = hasLinearWeights(classifier) ? classifier.linearWeights() : undefined;
-          outcomes.push({
-            repeat: f.repeat,
-            fold: f.fold,
-            test: f.test,
-            predicted,
-            scores,
-            accuracy: accuracy(confusion),
-            balancedAccuracy: balancedAccuracy(confusion),
-            macroF1: macroF1(confusion),
-            chosen: chosenOf(selection.landscape, selection.model),
-            innerScore: selection.score,
-            ...(extractor.landscape?.state
-              ? {
-                  grids: extractor.landscape.state.grids.map((g) => ({
-                    degree: g.degree,
-                    ...(g.filtration !== undefined ? { filtration: g.filtration } : {}),
-                    grid: { ...g.grid },
-                  })),
-                }
-              : {}),
-            featureNames: extractor.featureNames(),
-            ...(weights ? { linearWeights: weights } : {}),
-          });
-        } finally {
-          classifier.dispose();
-        }
-        options.onProgress?.(++done, total);
-      }
-      const perFold = outcomes.map((o) => o.chosen);
+      unitList.forEach((u, i) => {
+        if (u.si !== si || u.mi !== mi) return;
+        mine.push(outcomes[i]);
+        addConfusion(pooled, confusionMatrix(pick(y, outcomes[i].test), outcomes[i].predicted, classCount));
+      });
+      const perFold = mine.map((o) => o.chosen);
       results.push({
-        features: set,
-        model,
-        accuracy: summarize(outcomes.map((o) => o.accuracy)),
-        balancedAccuracy: summarize(outcomes.map((o) => o.balancedAccuracy)),
-        macroF1: summarize(outcomes.map((o) => o.macroF1)),
+        features: featureSets[si],
+        model: models[mi],
+        accuracy: summarize(mine.map((o) => o.accuracy)),
+        balancedAccuracy: summarize(mine.map((o) => o.balancedAccuracy)),
+        macroF1: summarize(mine.map((o) => o.macroF1)),
         confusion: pooled,
         chosen: { mostFrequent: mostFrequent(perFold), perFold },
-        folds: outcomes,
+        folds: mine,
       });
     }
   }
@@ -342,6 +611,7 @@ export async function runEvaluation(
     landscape: usesAnyLandscape(featureSets) ? landscapeRecord(options.landscape) : null,
     raw: featureSets.includes('raw') || featureSets.includes('combined') ? rawRecord(options.raw) : null,
     ...diagramFeatureRecords(featureSets, options),
+    fixed: fixedRecord(models, options.fixed),
     ...(options.record ?? {}),
   };
   return {

@@ -1,6 +1,7 @@
 export * from './classifier.js';
 export { DenseClassifier, DenseNetwork, type DenseOptions, type DenseState } from './dense.js';
 export {
+  applyFixed,
   checkStudy,
   type EvaluationOptions,
   type EvaluationResult,
@@ -8,7 +9,11 @@ export {
   formatMetricsJson,
   type LinearWeights,
   runEvaluation,
+  type StudyPhase,
   type StudyResult,
+  serialUnitRunner,
+  type UnitRunner,
+  withFixed,
 } from './evaluate.js';
 export {
   checkFoldable,
@@ -45,8 +50,10 @@ export {
   saveModelFolder,
 } from './model-folder.js';
 export { candidateHyperparameters, classifierFromJSON, createClassifier } from './models.js';
+export { learningWorkers } from './parallel.js';
 export { Pca, type PcaOptions, type PcaState } from './pca.js';
 export { PcaSvmClassifier } from './pca-svm.js';
+export { ProjectionCache } from './projection-cache.js';
 export { StandardScaler, type StandardScalerOptions, type StandardScalerState } from './scaler.js';
 export {
   DEFAULT_LANDSCAPE_CANDIDATES,

@@ -3,15 +3,21 @@ import { type Classifier, type Hyperparameters, MODEL_NAMES, type ModelName } fr
 import { DenseClassifier } from './dense.js';
 import { ForestClassifier } from './forest.js';
 import { PcaSvmClassifier } from './pca-svm.js';
+import type { ProjectionCache } from './projection-cache.js';
 
 /**
  * The registry of models: a name → a factory, a default inner-CV grid and a loader.
  * To add a model, see DEVELOPERS.md ("How to add a model").
  */
-export function createClassifier(name: ModelName, hyper: Hyperparameters, seed: number): Classifier {
+export function createClassifier(
+  name: ModelName,
+  hyper: Hyperparameters,
+  seed: number,
+  shared?: ProjectionCache,
+): Classifier {
   switch (name) {
     case 'pca-svm':
-      return new PcaSvmClassifier(hyper, seed);
+      return new PcaSvmClassifier(hyper, seed, shared);
     case 'dense':
       return new DenseClassifier(hyper, seed);
     case 'forest':

@@ -2,6 +2,7 @@ import { UserError } from '../core/errors.js';
 import type { Classifier, Hyperparameters } from './classifier.js';
 import type { Matrix } from './matrix.js';
 import { Pca } from './pca.js';
+import type { ProjectionCache } from './projection-cache.js';
 import { StandardScaler } from './scaler.js';
 import { type SvmKernel, SvmModel } from './svm.js';
 
@@ -19,7 +20,10 @@ export class PcaSvmClassifier implements Classifier {
     | { scaler: StandardScaler; pca: Pca; svm: SvmModel; features: number; classCount: number }
     | undefined;
 
-  constructor(hyperparameters: Hyperparameters, seed: number) {
+  /** Fitted scaler + PCA shared with the other candidates of a search (see ProjectionCache); not saved. */
+  private readonly shared: ProjectionCache | undefined;
+
+  constructor(hyperparameters: Hyperparameters, seed: number, shared?: ProjectionCache) {
     for (const key of Object.keys(hyperparameters)) {
       if (!['kernel', 'C', 'gamma', 'components', 'varianceKept'].includes(key)) {
         throw new UserError(
@@ -29,27 +33,38 @@ export class PcaSvmClassifier implements Classifier {
     }
     this.hyperparameters = { ...hyperparameters };
     this.seed = seed;
+    this.shared = shared;
     // Build once so that a bad value fails here, before any training.
     this.makeParts();
   }
 
   async fit(x: Matrix, y: Int32Array, classCount: number): Promise<void> {
-    const { scaler, pca, svm } = this.makeParts();
-    const standardised = scaler.fitTransform(x);
-    const scores = pca.fitTransform(standardised);
-    await svm.fit(scores, y, classCount);
-    this.state = { scaler, pca, svm, features: x.cols, classCount };
+    const parts = this.makeParts();
+    const fitParts = () => {
+      const standardised = parts.scaler.fitTransform(x);
+      return { scaler: parts.scaler, pca: parts.pca, scores: parts.pca.fitTransform(standardised) };
+    };
+    // The scaler and PCA do not depend on the SVM's settings: candidates of one fold share one fit.
+    const { scaler, pca, scores } = this.shared
+      ? this.shared.fit(x, JSON.stringify(parts.pca.options), fitParts)
+      : fitParts();
+    await parts.svm.fit(scores, y, classCount);
+    this.state = { scaler, pca, svm: parts.svm, features: x.cols, classCount };
   }
 
   async predictScores(x: Matrix): Promise<Matrix> {
     const s = this.fitted();
-    return s.svm.predictScores(s.pca.transform(s.scaler.transform(x)));
+    return s.svm.predictScores(this.project(s, x));
   }
 
   /** Class indices by libsvm's one-vs-one vote (without the probability step). */
   predictLabels(x: Matrix): Int32Array {
     const s = this.fitted();
-    return s.svm.predictLabels(s.pca.transform(s.scaler.transform(x)));
+    return s.svm.predictLabels(this.project(s, x));
+  }
+
+  private project(s: NonNullable<PcaSvmClassifier['state']>, x: Matrix): Matrix {
+    return this.shared ? this.shared.project(x, s) : s.pca.transform(s.scaler.transform(x));
   }
 
   /**

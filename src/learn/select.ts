@@ -4,6 +4,7 @@ import type { Classifier, Hyperparameters, ModelName } from './classifier.js';
 import { classCounts, stratifiedFolds } from './folds.js';
 import type { Matrix } from './matrix.js';
 import { argmaxRows, balancedAccuracy, confusionMatrix } from './metrics.js';
+import { ProjectionCache } from './projection-cache.js';
 
 /**
  * Inner cross-validation: inside one training set only, choose the model's hyperparameters and — for feature
@@ -30,7 +31,13 @@ export const DEFAULT_LANDSCAPE_CANDIDATES: readonly LandscapeCandidate[] = [
 
 /** Creates classifiers and lists their inner-CV candidates (the models stage provides the default one). */
 export interface ModelFactory {
-  create(name: ModelName, hyperparameters: Hyperparameters, seed: number): Classifier;
+  /** `shared`: fitted parts the candidates of one search may share (pca-svm: scaler + PCA per fold). */
+  create(
+    name: ModelName,
+    hyperparameters: Hyperparameters,
+    seed: number,
+    shared?: ProjectionCache,
+  ): Classifier;
   candidates(name: ModelName, shape: { samples: number; features: number }): Hyperparameters[];
 }
 
@@ -41,6 +48,11 @@ export interface SelectionOptions {
   landscapeCandidates?: readonly LandscapeCandidate[];
   /** Seed of the inner splits and of the classifiers fitted inside. Default 1. */
   seed?: number;
+  /**
+   * Share each inner fold's fitted scaler + PCA among the SVM candidates (same results, fewer fits).
+   * Default true; false refits them per candidate (the plain path, kept for tests and benchmarks).
+   */
+  reuse?: boolean;
 }
 
 export const DEFAULT_SELECTION_OPTIONS = { innerFolds: 3, seed: 1 } as const;
@@ -163,6 +175,7 @@ export async function selectHyperparameters(
     }
     return cached;
   };
+  const shared = options.reuse === false ? undefined : new ProjectionCache();
   const score = async (
     landscape: LandscapeCandidate | undefined,
     hyper: Hyperparameters,
@@ -170,7 +183,7 @@ export async function selectHyperparameters(
     const folds = featuresOf(landscape);
     let sum = 0;
     for (let f = 0; f < folds.length; f++) {
-      const classifier = factory.create(model, hyper, (seed + 7919 * (f + 1)) >>> 0);
+      const classifier = factory.create(model, hyper, (seed + 7919 * (f + 1)) >>> 0, shared);
       try {
         await classifier.fit(folds[f].xTrain, folds[f].yTrain, classCount);
         const predicted = await labelsOf(classifier, folds[f].xTest);

@@ -135,3 +135,86 @@ describe('landform evaluate: feature budget', () => {
     expect(m.code).toBe(2);
   });
 });
+
+describe('landform evaluate: fixed model values, PCA variance and progress lines', () => {
+  const dir = tempDir();
+  const input = join(dir, 'shapes.csv');
+  writeShapes(input, 6, 20);
+
+  it('refuses bad values with one line and exit 2', () => {
+    const cases: Array<[string[], RegExp]> = [
+      [['--svm-c', '0'], /^landform: --svm-c '0' must be greater than 0\n$/],
+      [['--svm-c', 'ten'], /^landform: --svm-c 'ten' is not a finite number\n$/],
+      [['--svm-gamma', '-1'], /^landform: --svm-gamma '-1' must be greater than 0\n$/],
+      [['--svm-kernel', 'poly'], /^landform: --svm-kernel 'poly' is not known; choose from linear, rbf\n$/],
+      [['--svm-kernel', 'linear', '--svm-gamma', '0.1'], /^landform: --svm-gamma applies to the rbf kernel/],
+      [
+        ['--pca-variance', '1.5'],
+        /^landform: --pca-variance '1.5' must be a share in \(0, 1\] such as 0\.95, or 'all'\n$/,
+      ],
+      [['--pca-variance', 'most'], /^landform: --pca-variance 'most' must be a share/],
+      [
+        ['--models', 'dense', '--svm-c', '1'],
+        /^landform: --svm-kernel, --svm-c, --svm-gamma and --pca-variance apply to pca-svm/,
+      ],
+      [['--progress', 'loud'], /^landform: --progress must be one of auto, lines, none, got 'loud'\n$/],
+    ];
+    for (const [extra, message] of cases) {
+      const r = runCli(['evaluate', input, ...FAST, ...extra, '--out', join(dir, 'never')]);
+      expect(r.code, extra.join(' ')).toBe(2);
+      expect(r.stderr, extra.join(' ')).toMatch(message);
+      expect(r.stderr.split('\n')).toHaveLength(2);
+    }
+    expect(existsSync(join(dir, 'never'))).toBe(false);
+  });
+
+  it('records the fixed values, uses them in every fold, and prints phase lines in a pipe when asked', () => {
+    const out = join(dir, 'fixed');
+    const r = runCli([
+      'evaluate',
+      input,
+      ...FAST,
+      '--features',
+      'raw',
+      '--svm-kernel',
+      'rbf',
+      '--svm-c',
+      '10',
+      '--pca-variance',
+      'all',
+      '--progress',
+      'lines',
+      '--out',
+      out,
+    ]);
+    expect(r.code).toBe(0);
+    // One line per phase start and end at least; each names the phase and counts done/total.
+    const lines = r.stderr.trim().split('\n');
+    expect(lines[0]).toMatch(/^landform: inner CV 0\/3 \(0%\), 0s elapsed$/);
+    expect(lines).toContainEqual(expect.stringMatching(/^landform: inner CV 3\/3 \(100%\), done in \d+s$/));
+    expect(lines).toContainEqual(
+      expect.stringMatching(/^landform: outer folds 3\/3 \(100%\), done in \d+s$/),
+    );
+    const doc = JSON.parse(readFileSync(join(out, 'metrics.json'), 'utf8'));
+    expect(doc.options.fixed).toEqual({ 'pca-svm': { C: 10, kernel: 'rbf', varianceKept: 1 } });
+    expect(doc.options.modelOptions).toEqual({
+      'pca-svm': { kernel: 'rbf', C: 10, gamma: 'searched', pcaVariance: 'all' },
+    });
+    for (const h of doc.results[0].chosen.perFold) {
+      expect(h.kernel).toBe('rbf');
+      expect(h.C).toBe(10);
+      expect(h.varianceKept).toBe(1);
+    }
+    // The same study without --progress stays quiet in a pipe (the default).
+    const quiet = runCli(['evaluate', input, ...FAST, '--features', 'raw', '--out', join(dir, 'plain')]);
+    expect(quiet.stderr).toBe('');
+  });
+
+  it('LANDFORM_PROGRESS=lines asks for the lines too', () => {
+    const r = runCli(['evaluate', input, ...FAST, '--features', 'raw', '--out', join(dir, 'env')], {
+      env: { LANDFORM_PROGRESS: 'lines' },
+    });
+    expect(r.code).toBe(0);
+    expect(r.stderr).toMatch(/^landform: inner CV 0\/3/);
+  });
+});

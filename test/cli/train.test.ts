@@ -40,6 +40,35 @@ describe('landform train', () => {
     expect(existsSync(join(save, 'classifier.json'))).toBe(true);
   });
 
+  it('fixes the SVM kernel, C and PCA variance, and records them in the manifest', () => {
+    const save = join(dir, 'models', 'fixed');
+    const r = runCli([
+      'train',
+      input,
+      '--depths',
+      '2',
+      '--grid-sizes',
+      '8',
+      '--workers',
+      '1',
+      '--svm-kernel',
+      'linear',
+      '--svm-c',
+      '3',
+      '--pca-variance',
+      'all',
+      '--save',
+      save,
+    ]);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    expect(r.stdout).toMatch(/chosen depth=2 gridSize=8 C=3 kernel=linear varianceKept=1\n/);
+    const manifest = JSON.parse(readFileSync(join(save, 'manifest.json'), 'utf8'));
+    expect(manifest.record.modelOptions).toEqual({
+      'pca-svm': { kernel: 'linear', C: 3, gamma: null, pcaVariance: 'all' },
+    });
+  });
+
   it('refuses two models at once and a missing --save, one line each', () => {
     const a = runCli(['train', input, '--models', 'pca-svm,dense', '--save', join(dir, 'x')]);
     expect(a.code).toBe(2);

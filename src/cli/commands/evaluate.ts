@@ -18,7 +18,12 @@ import { acquireOutputLock, writeFileAtomic, writeFolderAtomic } from '../../io/
 import type { Dataset, SampleKind } from '../../io/dataset.js';
 import { loadDataset, parseKind, parseShape } from '../../io/load.js';
 import { checkOutputPath } from '../../io/output-guard.js';
-import { DEFAULT_MODEL_NAMES, MODEL_NAMES, type ModelName } from '../../learn/classifier.js';
+import {
+  DEFAULT_MODEL_NAMES,
+  type Hyperparameters,
+  MODEL_NAMES,
+  type ModelName,
+} from '../../learn/classifier.js';
 import type { EvaluationOptions, EvaluationResult } from '../../learn/evaluate.js';
 import type { LandscapeCandidate } from '../../learn/select.js';
 import { noteOption } from '../dataset-input.js';
@@ -32,7 +37,7 @@ import {
   parseNumberOption,
   parseWorkersOption,
 } from '../options.js';
-import { startProgress } from '../progress.js';
+import { type ProgressMode, parseProgressMode, startPhases } from '../progress.js';
 import { parseEmbedOption } from './diagrams.js';
 
 /** Options shared by `evaluate` and `train`: the data, the diagrams and the feature/model search. */
@@ -56,6 +61,11 @@ export interface StudyCommandOptions {
   subsample?: string;
   threshold?: string;
   shape?: string;
+  svmKernel?: string;
+  svmC?: string;
+  svmGamma?: string;
+  pcaVariance?: string;
+  progress?: string;
 }
 
 /** Adds the options that say how diagrams are computed (shared by evaluate, train, vectorize). */
@@ -68,7 +78,7 @@ export function addDiagramOptions(command: Command): Command {
     .option('--metric <name>', `distance between points: ${METRICS.join(', ')}`, 'euclidean')
     .option('--embed <DIM:DELAY[:STRIDE]>', 'turn each signal into a cloud of delay windows before Rips')
     .option('--superlevel', 'images and signals: superlevel sets (bright first)')
-    .option('--workers <n>', 'worker threads for the diagrams (default: every core)')
+    .option('--workers <n>', 'worker threads for the diagrams and the learning (default: every core)')
     .option('--infinite <policy>', "essential classes: 'drop' or 'clip:VALUE'", 'drop');
 }
 
@@ -96,7 +106,62 @@ export function addStudyOptions(command: Command, single = false): Command {
   return command
     .option('--inner-folds <k>', 'folds of the inner cross-validation that chooses hyperparameters', '3')
     .option('--depths <list>', 'landscape depths K tried by the inner cross-validation', '5,3')
-    .option('--grid-sizes <list>', 'landscape grid sizes G tried by the inner cross-validation', '50,25');
+    .option('--grid-sizes <list>', 'landscape grid sizes G tried by the inner cross-validation', '50,25')
+    .option('--svm-kernel <kernel>', 'pca-svm: fix the kernel, linear or rbf (default: searched)')
+    .option('--svm-c <C>', 'pca-svm: fix the cost C > 0 (default: searched)')
+    .option(
+      '--svm-gamma <gamma>',
+      'pca-svm: fix the RBF width γ > 0 (default: searched, scaled by 1/features)',
+    )
+    .option('--pca-variance <share>', "pca-svm: share of variance the PCA keeps, in (0, 1], or 'all'", '0.95')
+    .option(
+      '--progress <mode>',
+      'auto (a bar on a terminal), lines (plain lines on stderr, also in pipes) or none',
+    );
+}
+
+/**
+ * The pca-svm values fixed by --svm-kernel, --svm-c, --svm-gamma and --pca-variance (the inner search then
+ * keeps only candidates with them), and what metrics.json and the manifest record of them.
+ */
+export function parseModelOptions(
+  o: Pick<StudyCommandOptions, 'svmKernel' | 'svmC' | 'svmGamma' | 'pcaVariance'>,
+  models: readonly ModelName[],
+): { fixed: Partial<Record<ModelName, Hyperparameters>>; record: Record<string, unknown> } {
+  const fixed: Hyperparameters = {};
+  if (o.svmKernel !== undefined)
+    fixed.kernel = parseChoiceOption(o.svmKernel, '--svm-kernel', ['linear', 'rbf']);
+  if (o.svmC !== undefined) fixed.C = parseNumberOption(o.svmC, '--svm-c', { positive: true });
+  if (o.svmGamma !== undefined) {
+    if (fixed.kernel === 'linear')
+      throw new UserError('--svm-gamma applies to the rbf kernel; drop it or use --svm-kernel rbf');
+    fixed.gamma = parseNumberOption(o.svmGamma, '--svm-gamma', { positive: true });
+  }
+  const variance = o.pcaVariance ?? '0.95';
+  let pcaVariance: number | 'all' = 'all';
+  if (variance !== 'all') {
+    pcaVariance = Number(variance);
+    if (variance.trim() === '' || !(pcaVariance > 0 && pcaVariance <= 1))
+      throw new UserError(`--pca-variance '${variance}' must be a share in (0, 1] such as 0.95, or 'all'`);
+    if (pcaVariance !== 0.95) fixed.varianceKept = pcaVariance;
+  } else fixed.varianceKept = 1;
+  const given = Object.keys(fixed).length > 0;
+  if (given && !models.includes('pca-svm')) {
+    throw new UserError(
+      '--svm-kernel, --svm-c, --svm-gamma and --pca-variance apply to pca-svm, which is not among --models; add it or drop them',
+    );
+  }
+  const record = models.includes('pca-svm')
+    ? {
+        'pca-svm': {
+          kernel: fixed.kernel ?? 'searched',
+          C: fixed.C ?? 'searched',
+          gamma: fixed.gamma ?? (fixed.kernel === 'linear' ? null : 'searched'),
+          pcaVariance,
+        },
+      }
+    : {};
+  return { fixed: given ? { 'pca-svm': fixed } : {}, record };
 }
 
 /** The parsed diagram options and what metrics.json / a manifest records of them. */
@@ -191,6 +256,7 @@ export async function diagramsForCommand(
   dataset: Dataset,
   parsed: ParsedDiagramOptions,
   quiet: boolean,
+  mode: ProgressMode = 'auto',
 ): Promise<DiagramSet[]> {
   if (dataset.kind === 'diagrams') {
     return dataset.samples.map((s) => ({
@@ -200,11 +266,13 @@ export async function diagramsForCommand(
     }));
   }
   const { computeDiagramsParallel } = await import('../../homology/parallel.js');
-  const progress = await startProgress('diagrams', dataset.samples.length, quiet);
+  const progress = await startPhases(mode, quiet);
+  const total = dataset.samples.length;
+  progress.update('diagrams', 0, total);
   try {
     return await computeDiagramsParallel(dataset.samples, parsed.diagramOptions, {
       ...(parsed.workers !== undefined ? { workers: parsed.workers } : {}),
-      onProgress: (done) => progress.update(done),
+      onProgress: (done) => progress.update('diagrams', done, total),
     });
   } finally {
     progress.stop();
@@ -237,6 +305,7 @@ export async function parseStudy(
   singleFeatureSet = false,
 ): Promise<ParsedStudy> {
   const parsed = parseDiagramOptions(o);
+  parseProgressMode(o.progress);
   const seed = parseIntegerOption(o.seed, '--seed', 0, 2 ** 32 - 1);
   const innerFolds = parseIntegerOption(o.innerFolds, '--inner-folds', 2, 100);
   const depths = parsePositiveList(o.depths, '--depths', 1);
@@ -265,6 +334,7 @@ export async function parseStudy(
   const landscapeCandidates: LandscapeCandidate[] = [];
   for (const depth of depths) for (const gridSize of gridSizes) landscapeCandidates.push({ depth, gridSize });
   const landscape: LandscapeVectorizerOptions = { degrees: parsed.degrees, infinite };
+  const model = parseModelOptions(o, models);
   const options: EvaluationOptions = {
     featureSets,
     models,
@@ -274,10 +344,12 @@ export async function parseStudy(
     landscapeCandidates,
     diagramOptions: parsed.diagramOptions,
     ...(parsed.workers !== undefined ? { workers: parsed.workers } : {}),
+    ...(Object.keys(model.fixed).length > 0 ? { fixed: model.fixed } : {}),
     record: {
       kind: dataset.kind,
       samples: dataset.samples.length,
       diagrams: diagramRecord(dataset.kind, parsed.diagramOptions),
+      modelOptions: model.record,
     },
   };
   return { dataset, options, featureSets, models, parsed };
@@ -352,20 +424,22 @@ Example:
         record: { input, ...study.options.record },
       };
       checkStudy(study.dataset, options);
-      const progress = await startProgress('evaluate', 1, o.quiet === true);
-      let result: Awaited<ReturnType<typeof runEvaluation>>;
+      const progress = await startPhases(parseProgressMode(o.progress), o.quiet === true);
       try {
-        result = await runEvaluation(study.dataset, {
+        const result = await runEvaluation(study.dataset, {
           ...options,
-          onProgress: (done, total) => progress.update(done, total),
+          onPhase: (phase, done, total) => progress.update(phase, done, total),
+        });
+        await writeEvaluation(o.out, result, o.report, async () => {
+          progress.update('report', 0, 1);
+          const { evaluationReportHtml } = await import('../../report/study.js');
+          const html = await evaluationReportHtml(input, study.dataset, result, study.options.landscape);
+          progress.update('report', 1, 1);
+          return html;
         });
       } finally {
         progress.stop();
       }
-      await writeEvaluation(o.out, result, o.report, async () => {
-        const { evaluationReportHtml } = await import('../../report/study.js');
-        return evaluationReportHtml(input, study.dataset, result, study.options.landscape);
-      });
     });
 }
 

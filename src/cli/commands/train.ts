@@ -3,6 +3,7 @@ import { UserError } from '../../core/errors.js';
 import type { FeatureData } from '../../features/combined.js';
 import { sampleShapeOf } from '../../io/dataset.js';
 import { checkOutputPath } from '../../io/output-guard.js';
+import { parseProgressMode } from '../progress.js';
 import { addStudyOptions, diagramsForCommand, parseStudy, type StudyCommandOptions } from './evaluate.js';
 
 interface TrainCommandOptions extends StudyCommandOptions {
@@ -56,7 +57,9 @@ Example:
         });
       const features = study.featureSets[0];
       const diagrams =
-        features === 'raw' ? undefined : await diagramsForCommand(dataset, parsed, o.quiet === true);
+        features === 'raw'
+          ? undefined
+          : await diagramsForCommand(dataset, parsed, o.quiet === true, parseProgressMode(o.progress));
       const data: FeatureData = {
         samples: dataset.samples,
         ...(diagrams ? { diagrams } : {}),
@@ -74,7 +77,8 @@ Example:
         ...(options.seed !== undefined ? { seed: options.seed } : {}),
       });
       try {
-        await pipeline.fit(data, labels);
+        const { defaultModelFactory, withFixed } = await import('../../learn/evaluate.js');
+        await pipeline.fit(data, labels, withFixed(await defaultModelFactory(), options.fixed));
         const { manifest, files } = await pipeline.toFolder({
           ...options.record,
           diagramOptions: dataset.kind === 'diagrams' ? null : parsed.diagramOptions,
