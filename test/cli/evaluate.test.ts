@@ -144,7 +144,7 @@ describe('landform evaluate: fixed model values, PCA variance and progress lines
   it('refuses bad values with one line and exit 2', () => {
     const cases: Array<[string[], RegExp]> = [
       [['--svm-c', '0'], /^landform: --svm-c '0' must be greater than 0\n$/],
-      [['--svm-c', 'ten'], /^landform: --svm-c 'ten' is not a finite number\n$/],
+      [['--svm-c', 'ten'], /^landform: --svm-c 'ten' is not a finite decimal number\n$/],
       [['--svm-gamma', '-1'], /^landform: --svm-gamma '-1' must be greater than 0\n$/],
       [['--svm-kernel', 'poly'], /^landform: --svm-kernel 'poly' is not known; choose from linear, rbf\n$/],
       [['--svm-kernel', 'linear', '--svm-gamma', '0.1'], /^landform: --svm-gamma applies to the rbf kernel/],

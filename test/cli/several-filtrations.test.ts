@@ -47,6 +47,7 @@ describe('several filtrations through evaluate, train, predict, contrast and lan
     expect(e.code).toBe(0);
     const metrics = JSON.parse(readFileSync(join(study, 'metrics.json'), 'utf8'));
     expect(metrics.options.diagrams.filtration).toBe(FILTRATIONS);
+    expect(metrics.options.shape).toEqual([28, 28]);
     // The report's class means have one page per filtration and degree.
     const report = readFileSync(join(study, 'report.html'), 'utf8');
     for (const name of ['height:1:0/H0', 'height:0:1/H1', 'erosion/H0', 'erosion/H1'])

@@ -1,6 +1,7 @@
 import { createRequire } from 'node:module';
 import { describe, expect, it } from 'vitest';
 import type { Dataset, ImageSample } from '../../src/io/dataset.js';
+import type { ModelName } from '../../src/learn/classifier.js';
 import { formatMetricsJson, runEvaluation, serialUnitRunner } from '../../src/learn/evaluate.js';
 import { learningWorkers } from '../../src/learn/parallel.js';
 
@@ -27,6 +28,7 @@ describe('learning on worker threads', () => {
   it('gives the serial study’s metrics, predictions and scores (MNIST digits, every feature set, both models)', async () => {
     const data = digits(50);
     const options = {
+      models: ['pca-svm', 'dense'] as ModelName[],
       folds: 3,
       seed: 11,
       innerFolds: 2,

@@ -347,6 +347,7 @@ export async function parseStudy(
     ...(Object.keys(model.fixed).length > 0 ? { fixed: model.fixed } : {}),
     record: {
       kind: dataset.kind,
+      ...(parsed.shape !== undefined ? { shape: parsed.shape } : {}),
       samples: dataset.samples.length,
       diagrams: diagramRecord(dataset.kind, parsed.diagramOptions),
       modelOptions: model.record,
