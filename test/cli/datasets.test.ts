@@ -1,4 +1,4 @@
-import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { runCli, tempDir } from '../helpers/cli.js';
@@ -49,5 +49,26 @@ describe('landform datasets', () => {
     expect(bad.stderr).toMatch(
       /^landform: --only 'nothing' is not known; choose from lattice, pump, field\n$/,
     );
+  });
+});
+
+describe('landform datasets and demo: outputs', () => {
+  it('refuse a folder holding other files unless --force, before any work', () => {
+    const dir = tempDir();
+    writeFileSync(join(dir, 'thesis.tex'), 'mine');
+    for (const command of [
+      ['datasets', '--only', 'pump'],
+      ['demo', '--quick'],
+    ]) {
+      const r = runCli([...command, '--out', dir]);
+      expect(r.code, command[0]).toBe(2);
+      expect(r.stderr, command[0]).toMatch(/^landform: .*not made by landform|^landform: .*--force/);
+      expect(r.stderr.split('\n')).toHaveLength(2);
+    }
+    expect(readdirSync(dir)).toEqual(['thesis.tex']);
+    const forced = runCli(['datasets', '--only', 'pump', '--out', dir, '--force']);
+    expect(forced.code).toBe(0);
+    expect(readdirSync(dir).sort()).toEqual(['pump.csv', 'thesis.tex']);
+    expect(readFileSync(join(dir, 'thesis.tex'), 'utf8')).toBe('mine');
   });
 });

@@ -88,6 +88,20 @@ describe('landform predict', () => {
     const out = r.stdout.trim().split('\n');
     expect(out[0]).toBe('sample,predicted,score:broken-strut,score:intact,score:merged-cells');
     expect(out).toHaveLength(7);
+    // The shipped model records its sample shape (2-D points) and so refuses 3-D ones.
+    const manifest = JSON.parse(readFileSync(join(root, 'models', 'lattice', 'manifest.json'), 'utf8'));
+    expect(manifest.record.sampleShape).toEqual({ dim: 2 });
+    // A folder saved before the shape was recorded (test/fixtures/model-format-1) still loads and predicts.
+    const old = runCli([
+      'predict',
+      join(root, 'test', 'fixtures', 'model-format-1'),
+      subset,
+      '--workers',
+      '1',
+    ]);
+    expect(old.stderr).toBe('');
+    expect(old.code).toBe(0);
+    expect(old.stdout.trim().split('\n')).toHaveLength(7);
   });
 
   it('refuses 3-D points for a model trained on 2-D points, naming the file', () => {

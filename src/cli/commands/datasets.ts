@@ -3,6 +3,7 @@ import type { Command } from 'commander';
 interface DatasetsOptions {
   out: string;
   only?: string;
+  force?: boolean;
   quiet?: boolean;
 }
 
@@ -16,12 +17,21 @@ export function defineDatasets(program: Command): Command {
     .description('write the synthetic demo datasets (lattice, pump, field) from their seeded generators')
     .option('--out <folder>', 'folder to write them into', 'datasets')
     .option('--only <names>', 'comma-separated dataset names to write (default: all)')
+    .option('--force', 'write into a non-empty folder holding other files than the datasets')
     .action(async (options: DatasetsOptions) => {
       const { join } = await import('node:path');
       const { parseListOption } = await import('../options.js');
       const { SCENARIOS, datasetsReadme } = await import('../../io/scenarios/index.js');
       const { writeFilesAtomic } = await import('../../io/atomic.js');
       const names = SCENARIOS.map((s) => s.name);
+      // The datasets' own top-level names: a folder holding only those (this repository's datasets/) is ours.
+      const { checkOutputPath } = await import('../../io/output-guard.js');
+      const known = SCENARIOS.map((s) => s.path.split('/')[0]);
+      checkOutputPath(options.out, [], {
+        folder: true,
+        force: options.force === true,
+        known: [...known, 'README.md'],
+      });
       const chosen = options.only === undefined ? names : parseListOption(options.only, '--only', names);
       const files: Array<{ path: string; data: string | Uint8Array }> = [];
       const lines: string[] = [];

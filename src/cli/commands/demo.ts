@@ -5,6 +5,7 @@ import { startProgress } from '../progress.js';
 
 interface DemoFlags {
   out: string;
+  force?: boolean;
   quick?: boolean;
   seed: string;
   workers?: string;
@@ -23,6 +24,7 @@ export function defineDemo(program: Command): Command {
     .option('--quick', 'fewer folds, permutations and bootstrap draws, one model: a quick look')
     .option('--seed <n>', 'seed of every split, model, band and permutation', '1')
     .option('--workers <n>', 'worker threads for the diagrams (default: every core)')
+    .option('--force', 'write into a non-empty folder landform did not make')
     .addHelpText(
       'after',
       '\nExample: landform demo --quick --out /tmp/demo   (then open /tmp/demo/report.html)',
@@ -34,6 +36,14 @@ export function defineDemo(program: Command): Command {
           ? undefined
           : parseWorkersOption(flags.workers, flags.quiet === true, 256);
       const quiet = flags.quiet === true;
+      // Refused before the study runs: special files, links, the shipped datasets, a folder of someone else's.
+      const { checkOutputPath } = await import('../../io/output-guard.js');
+      const { packageRoot } = await import('../../core/version.js');
+      checkOutputPath(flags.out, [join(packageRoot(), 'datasets')], {
+        folder: true,
+        force: flags.force === true,
+        known: ['metrics.json', 'report.html'],
+      });
       const started = performance.now();
       const { runDemo, accuracyTable } = await import('../../report/study.js');
       const bar = await startProgress('demo', 100, quiet);
