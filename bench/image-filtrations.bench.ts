@@ -17,7 +17,7 @@ function randomMask(seed: number, n: number, fill: number): Uint8Array {
 }
 
 /** Distance from every pixel to the nearest foreground pixel, by scanning every pixel. */
-function bruteDistance(mask: Uint8Array, rows: number, cols: number): Float64Array {
+function bruteDistance(mask: Uint8Array, cols: number): Float64Array {
   const out = new Float64Array(mask.length).fill(Infinity);
   for (let p = 0; p < mask.length; p++) {
     const py = Math.floor(p / cols);
@@ -39,7 +39,7 @@ function bruteDistance(mask: Uint8Array, rows: number, cols: number): Float64Arr
 export async function run(): Promise<void> {
   const small = randomMask(1, 64 * 64, 0.05);
   const exact = await time(() => distanceTransform(small, [64, 64], 1), 20);
-  const brute = await time(() => bruteDistance(small, 64, 64), 3);
+  const brute = await time(() => bruteDistance(small, 64), 3);
   const large = randomMask(2, 512 * 512, 0.05);
   const exactLarge = await time(() => distanceTransform(large, [512, 512], 1), 5);
 
