@@ -29,6 +29,11 @@ export interface OutputCheckOptions {
   known?: readonly string[];
   /** Other files written beside the output (sidecars): checked for collisions and special files too. */
   sidecars?: readonly string[];
+  /**
+   * The command writes named files into the folder and leaves the rest (`demo`, `datasets`) instead of
+   * replacing the folder as a whole; only the refusal's wording changes.
+   */
+  addsFiles?: boolean;
 }
 
 /** The real path `path` will have: the real path of its nearest existing ancestor plus the rest. */
@@ -141,7 +146,9 @@ export function checkOutputPath(
   if (options.folder && stat?.isDirectory() && !options.force) {
     if (readdirSync(out).length > 0 && !madeByLandform(out, options.known)) {
       throw new UserError(
-        `${option} is a folder that landform did not make and it is not empty; choose a new or empty folder, or add --force to replace it as a whole (its files will be deleted)`,
+        options.addsFiles
+          ? `${option} is a folder that landform did not make and it is not empty; choose a new or empty folder, or add --force to write into it (files of the same names will be replaced)`
+          : `${option} is a folder that landform did not make and it is not empty; choose a new or empty folder, or add --force to replace it as a whole (its files will be deleted)`,
         { file: out },
       );
     }

@@ -24,6 +24,7 @@ export function defineDatasets(program: Command): Command {
       const { SCENARIOS, datasetsReadme } = await import('../../io/scenarios/index.js');
       const { writeFilesAtomic } = await import('../../io/atomic.js');
       const names = SCENARIOS.map((s) => s.name);
+      const chosen = options.only === undefined ? names : parseListOption(options.only, '--only', names);
       // The datasets' own top-level names: a folder holding only those (this repository's datasets/) is ours.
       const { checkOutputPath } = await import('../../io/output-guard.js');
       const known = SCENARIOS.map((s) => s.path.split('/')[0]);
@@ -31,8 +32,8 @@ export function defineDatasets(program: Command): Command {
         folder: true,
         force: options.force === true,
         known: [...known, 'README.md'],
+        addsFiles: true,
       });
-      const chosen = options.only === undefined ? names : parseListOption(options.only, '--only', names);
       const files: Array<{ path: string; data: string | Uint8Array }> = [];
       const lines: string[] = [];
       for (const scenario of SCENARIOS) {

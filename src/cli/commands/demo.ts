@@ -43,6 +43,7 @@ export function defineDemo(program: Command): Command {
         folder: true,
         force: flags.force === true,
         known: ['metrics.json', 'report.html'],
+        addsFiles: true,
       });
       const started = performance.now();
       const { runDemo, accuracyTable } = await import('../../report/study.js');
