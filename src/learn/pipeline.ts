@@ -87,7 +87,12 @@ export class Pipeline {
   }
 
   /** Chooses hyperparameters by inner CV on all of `data`, then fits features and classifier on all of it. */
-  async fit(data: FeatureData, labels: readonly string[], factory?: ModelFactory): Promise<this> {
+  async fit(
+    data: FeatureData,
+    labels: readonly string[],
+    factory?: ModelFactory,
+    onProgress?: (phase: string, done: number, total: number) => void,
+  ): Promise<this> {
     const models = withCandidates(
       factory ?? (await loadFactory()),
       this.modelCandidates ? { [this.model]: this.modelCandidates } : undefined,
@@ -101,12 +106,17 @@ export class Pipeline {
       innerFolds: this.innerFolds,
       seed: this.seed,
       ...(this.landscapeCandidates ? { landscapeCandidates: this.landscapeCandidates } : {}),
+      ...(onProgress
+        ? { onProgress: (done: number, total: number) => onProgress('inner CV', done, total) }
+        : {}),
     });
+    onProgress?.('final fit', 0, 1);
     const extractor = base.withLandscape(selection.landscape ?? {}).fit(data, all);
     const classifier = models.create(this.model, selection.model, this.seed);
     await classifier.fit(extractor.transform(data, all), y, classes.length);
     this.state?.classifier.dispose();
     this.state = { classes, extractor, classifier, selection };
+    onProgress?.('final fit', 1, 1);
     return this;
   }
 

@@ -53,6 +53,8 @@ export interface SelectionOptions {
    * Default true; false refits them per candidate (the plain path, kept for tests and benchmarks).
    */
   reuse?: boolean;
+  /** Called after each candidate is scored: (scored, candidates to score). The total can grow once (stage 2). */
+  onProgress?: (done: number, total: number) => void;
 }
 
 export const DEFAULT_SELECTION_OPTIONS = { innerFolds: 3, seed: 1 } as const;
@@ -176,6 +178,11 @@ export async function selectHyperparameters(
     return cached;
   };
   const shared = options.reuse === false ? undefined : new ProjectionCache();
+  const firstKey = JSON.stringify(modelCandidates[0]);
+  const others = (list: readonly Hyperparameters[]) =>
+    list.filter((h) => JSON.stringify(h) !== firstKey).length;
+  let scored = 0;
+  let toScore = Math.max(1, landscapeCandidates.length) + others(modelCandidates);
   const score = async (
     landscape: LandscapeCandidate | undefined,
     hyper: Hyperparameters,
@@ -194,6 +201,7 @@ export async function selectHyperparameters(
     }
     const s = sum / folds.length;
     tried.push({ ...(landscape ? { landscape } : {}), model: hyper, score: s });
+    options.onProgress?.(++scored, toScore);
     return s;
   };
 
@@ -215,9 +223,9 @@ export async function selectHyperparameters(
   if (bestLandscape && bestLandscape !== landscapeCandidates[0]) {
     const features = base.withLandscape(bestLandscape).fit(data, train).featureNames().length;
     secondStage = factory.candidates(model, { samples: shape.samples, features });
+    toScore = scored + others(secondStage);
   }
   let bestModel = modelCandidates[0];
-  const firstKey = JSON.stringify(modelCandidates[0]);
   for (let m = 0; m < secondStage.length; m++) {
     if (JSON.stringify(secondStage[m]) === firstKey) continue;
     const s = await score(bestLandscape, secondStage[m]);

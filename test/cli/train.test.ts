@@ -57,11 +57,20 @@ describe('landform train', () => {
       '3',
       '--pca-variance',
       'all',
+      '--progress',
+      'lines',
       '--save',
       save,
     ]);
-    expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
+    // --progress lines, in a pipe: every value is fixed, so no inner search runs; the phases say so.
+    expect(r.stderr.split('\n').map((l) => l.replace(/, .*$/, ''))).toEqual([
+      'landform: diagrams 0/10 (0%)',
+      'landform: diagrams 10/10 (100%)',
+      'landform: final fit 0/1 (0%)',
+      'landform: final fit 1/1 (100%)',
+      '',
+    ]);
     expect(r.stdout).toMatch(/chosen depth=2 gridSize=8 C=3 kernel=linear varianceKept=1\n/);
     const manifest = JSON.parse(readFileSync(join(save, 'manifest.json'), 'utf8'));
     expect(manifest.record.modelOptions).toEqual({

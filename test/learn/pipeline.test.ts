@@ -48,10 +48,18 @@ describe('Pipeline and the study on Fisher’s Iris (outside data)', () => {
   it('fits on all samples, saves, loads and predicts the same scores', async () => {
     const data = iris();
     const pipeline = new Pipeline({ features: 'raw', model: 'pca-svm', seed: 3, modelCandidates: full });
+    const ticks: string[] = [];
     await pipeline.fit(
       { samples: data.samples, columns: data.columns! },
       data.samples.map((s) => s.label),
+      undefined,
+      (phase, done, total) => ticks.push(`${phase} ${done}/${total}`),
     );
+    // One tick per candidate scored by the inner CV, ending at its total, then the final fit.
+    const tried = pipeline.state?.selection.tried.length ?? 0;
+    expect(tried).toBeGreaterThan(1);
+    expect(ticks.filter((t) => t.startsWith('inner CV'))).toHaveLength(tried);
+    expect(ticks.slice(-3)).toEqual([`inner CV ${tried}/${tried}`, 'final fit 0/1', 'final fit 1/1']);
     const before = await pipeline.predict({ samples: data.samples });
     expect(before.classes).toEqual(['setosa', 'versicolor', 'virginica']);
     // Training-set agreement of a fitted SVM on Iris is high (common practice, no source).

@@ -3,7 +3,7 @@ import { UserError } from '../../core/errors.js';
 import type { FeatureData } from '../../features/combined.js';
 import { sampleShapeOf } from '../../io/dataset.js';
 import { checkOutputPath } from '../../io/output-guard.js';
-import { parseProgressMode } from '../progress.js';
+import { parseProgressMode, startPhases } from '../progress.js';
 import { addStudyOptions, diagramsForCommand, parseStudy, type StudyCommandOptions } from './evaluate.js';
 
 interface TrainCommandOptions extends StudyCommandOptions {
@@ -78,7 +78,17 @@ Example:
       });
       try {
         const { defaultModelFactory, withFixed } = await import('../../learn/evaluate.js');
-        await pipeline.fit(data, labels, withFixed(await defaultModelFactory(), options.fixed));
+        const progress = await startPhases(parseProgressMode(o.progress), o.quiet === true);
+        try {
+          await pipeline.fit(
+            data,
+            labels,
+            withFixed(await defaultModelFactory(), options.fixed),
+            (phase, done, total) => progress.update(phase, done, total),
+          );
+        } finally {
+          progress.stop();
+        }
         const { manifest, files } = await pipeline.toFolder({
           ...options.record,
           diagramOptions: dataset.kind === 'diagrams' ? null : parsed.diagramOptions,
