@@ -22,6 +22,9 @@ import type { ContrastTest } from './permutation.js';
  * values) goes through `escapeHtml`.
  */
 
+/** Rows of the contrast table shown at most (the smallest p values first). */
+export const CONTRAST_ROWS_SHOWN = 60;
+
 /** What one dataset's part of the report shows; every field is plain data. */
 export interface DatasetReport {
   name: string;
@@ -234,7 +237,19 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
 
   // Contrasts.
   if (ds.contrasts.length > 0) {
-    const rows = ds.contrasts
+    // A long family (many classes × filtrations × degrees) is shown by its smallest p values first, capped, so
+    // the table stays readable; metrics and `landform contrast` keep every test.
+    const shown =
+      ds.contrasts.length > CONTRAST_ROWS_SHOWN
+        ? [...ds.contrasts]
+            .sort((x, y) => x.p - y.p || x.statistic - y.statistic)
+            .slice(0, CONTRAST_ROWS_SHOWN)
+        : ds.contrasts;
+    const cut =
+      shown.length < ds.contrasts.length
+        ? ` The table shows the ${shown.length} smallest p values of ${ds.contrasts.length} tests, ${ds.contrasts.filter((t) => t.pAdjusted <= 0.05).length} of which differ at 5% after Holm; with a family this large, test a few chosen filtrations and classes with landform contrast.`
+        : '';
+    const rows = shown
       .map(
         (t) =>
           `<tr${t.pAdjusted <= 0.05 ? ' class="sig"' : ''}><td>${escapeHtml(channelName(t))}</td><td>${escapeHtml(t.a)}</td><td>${escapeHtml(t.b)}</td>` +
@@ -247,8 +262,8 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
         `${id}-contrasts`,
         'contrasts',
         'Do the class means differ?',
-        `Permutation tests of equal mean landscapes for every pair of classes and degree (Robinson and Turner, 2017), with Holm's correction over the whole table (Holm, 1979). ${escapeHtml(ds.contrastNote ?? '')}`,
-        `<table class="grid"><tr><th>degree</th><th>class a</th><th>class b</th><th class="num">samples</th><th class="num">distance of means</th><th class="num">p</th><th class="num">p (Holm)</th><th>at 5%</th></tr>${rows}</table>`,
+        `Permutation tests of equal mean landscapes for every pair of classes and degree (Robinson and Turner, 2017), with Holm's correction over the whole family (Holm, 1979). ${escapeHtml(ds.contrastNote ?? '')}${cut}`,
+        `<table class="grid"><tr><th>${ds.contrasts.some((t) => t.filtration !== undefined) ? 'filtration / degree' : 'degree'}</th><th>class a</th><th>class b</th><th class="num">samples</th><th class="num">distance of means</th><th class="num">p</th><th class="num">p (Holm)</th><th>at 5%</th></tr>${rows}</table>`,
       ),
     );
   }

@@ -5,7 +5,14 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
 import { makeDiagram } from '../../src/homology/diagram.js';
 import { multiplierBand } from '../../src/report/bands.js';
-import { CAUTION_TEXT, type DatasetReport, escapeHtml, renderReport, slug } from '../../src/report/html.js';
+import {
+  CAUTION_TEXT,
+  CONTRAST_ROWS_SHOWN,
+  type DatasetReport,
+  escapeHtml,
+  renderReport,
+  slug,
+} from '../../src/report/html.js';
 import { contrastAll } from '../../src/report/permutation.js';
 import { type GridSpec, stackLandscapes } from '../../src/report/stack.js';
 import { tempDir, testOutput } from '../helpers/cli.js';
@@ -222,4 +229,36 @@ describe('renderReport', () => {
     expect(foreign).toEqual([]);
     expect(errors).toEqual([]);
   }, 90_000);
+});
+
+describe('renderReport: a long contrast family', () => {
+  it('shows the smallest p values first, at most CONTRAST_ROWS_SHOWN rows, and says how many tests there were', async () => {
+    const { dataset } = await buildReport();
+    const tests = Array.from({ length: 70 }, (_, i) => ({
+      a: 'x',
+      b: 'y',
+      degree: i % 2,
+      filtration: `height:${i}:1`,
+      statistic: 1 / (i + 1),
+      p: (70 - i) / 1000,
+      pAdjusted: Math.min(1, ((70 - i) / 1000) * 70),
+      sizes: [10, 10] as [number, number],
+    }));
+    const html = await renderReport({
+      title: 'Long family',
+      lead: 'Contrasts only.',
+      version: '0.0.0',
+      command: 'test',
+      seed: 1,
+      datasets: [{ ...dataset, means: [], maps: undefined, examples: [], confusions: [], contrasts: tests }],
+    });
+    const table = html.slice(html.indexOf('Do the class means differ?'));
+    const rows = table.match(/<tr[^>]*><td>height:/g) ?? [];
+    expect(rows).toHaveLength(CONTRAST_ROWS_SHOWN);
+    // The smallest p (test 69, p = 0.001) comes first; the largest ten (tests 0–9) are left out.
+    expect(table.indexOf('height:69:1/H1')).toBeLessThan(table.indexOf('height:68:1/H0'));
+    expect(table).not.toContain('height:0:1/H0');
+    expect(table).toContain('The table shows the 60 smallest p values of 70 tests');
+    expect(table).toContain('<th>filtration / degree</th>');
+  }, 60_000);
 });
