@@ -1,4 +1,6 @@
 import { performance } from 'node:perf_hooks';
+import { Random } from '../src/core/random.js';
+import type { DiagramSet } from '../src/homology/diagram.js';
 
 /**
  * Small helpers shared by the benchmarks. Each benchmark file `bench/<name>.bench.ts` exports
@@ -40,4 +42,20 @@ export function report(title: string, figures: Figure[]): void {
     const v = Math.abs(f.value) >= 100 ? f.value.toFixed(0) : f.value.toPrecision(3);
     console.log(`  ${f.name.padEnd(58)} ${v.padStart(10)} ${f.unit}${goal}`);
   }
+}
+
+/** `count` invented H1 diagrams of `pairs` bars each (births in [0, 1), lifetimes in [0, 0.6)), seeded. */
+export function randomDiagrams(count: number, pairs: number, seed: number): DiagramSet[] {
+  const r = new Random(seed);
+  const out: DiagramSet[] = [];
+  for (let s = 0; s < count; s++) {
+    const births = new Float64Array(pairs);
+    const deaths = new Float64Array(pairs);
+    for (let i = 0; i < pairs; i++) {
+      births[i] = r.uniform(0, 1);
+      deaths[i] = births[i] + r.uniform(0, 0.6);
+    }
+    out.push({ sample: `d${s}`, label: 'x', diagrams: [{ degree: 1, births, deaths }] });
+  }
+  return out;
 }

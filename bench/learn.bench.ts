@@ -6,7 +6,7 @@ import { computeDiagramsParallel } from '../src/homology/parallel.js';
 import type { Dataset, PointSample } from '../src/io/dataset.js';
 import { drawShape, SHAPE_LABELS } from '../src/io/scenarios/shapes.js';
 import { runEvaluation } from '../src/learn/evaluate.js';
-import { type Figure, report, time } from './harness.js';
+import { randomDiagrams, report, time } from './harness.js';
 
 /**
  * Two figures of issue 5.
@@ -27,21 +27,6 @@ function clouds(count: number, points: number, seed: number): Dataset<PointSampl
     samples.push({ kind: 'points', id: `c${s}`, label, dim: 2, count: points, coords });
   }
   return { kind: 'points', source: 'bench', samples };
-}
-
-function randomDiagrams(count: number, pairs: number, seed: number): DiagramSet[] {
-  const r = new Random(seed);
-  const out: DiagramSet[] = [];
-  for (let s = 0; s < count; s++) {
-    const births = new Float64Array(pairs);
-    const deaths = new Float64Array(pairs);
-    for (let i = 0; i < pairs; i++) {
-      births[i] = r.uniform(0, 1);
-      deaths[i] = births[i] + r.uniform(0, 0.6);
-    }
-    out.push({ sample: `d${s}`, label: 'x', diagrams: [{ degree: 1, births, deaths }] });
-  }
-  return out;
 }
 
 /** The naive baseline: every tent value at every grid point, sorted, top `depth` kept. */

@@ -1,25 +1,9 @@
-import { Random } from '../src/core/random.js';
 import { BettiCurveVectorizer } from '../src/features/betti-curve.js';
 import { LandscapeVectorizer } from '../src/features/landscape-vectorizer.js';
 import { PersistenceImageVectorizer } from '../src/features/persistence-image.js';
 import { PersistenceStatistics } from '../src/features/persistence-statistics.js';
 import type { DiagramSet } from '../src/homology/diagram.js';
-import { type Figure, report, time } from './harness.js';
-
-function randomDiagrams(count: number, pairs: number, seed: number): DiagramSet[] {
-  const r = new Random(seed);
-  const out: DiagramSet[] = [];
-  for (let s = 0; s < count; s++) {
-    const births = new Float64Array(pairs);
-    const deaths = new Float64Array(pairs);
-    for (let i = 0; i < pairs; i++) {
-      births[i] = r.uniform(0, 1);
-      deaths[i] = births[i] + r.uniform(0, 0.6);
-    }
-    out.push({ sample: `d${s}`, label: 'x', diagrams: [{ degree: 1, births, deaths }] });
-  }
-  return out;
-}
+import { type Figure, randomDiagrams, report, time } from './harness.js';
 
 /** The naive Betti curve: every pair tested at every grid point. */
 function naiveBetti(sets: readonly DiagramSet[], t: Float64Array): Float64Array {

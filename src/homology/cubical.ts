@@ -30,16 +30,7 @@ export function cubicalPersistence(
   shape: number[],
   options: CubicalOptions = {},
 ): Diagram[] {
-  if (shape.length < 1 || shape.length > 3)
-    throw new UserError(`an image has 1 to 3 axes, got shape [${shape.join(', ')}]`);
-  let total = 1;
-  for (const s of shape) {
-    if (!Number.isInteger(s) || s < 1)
-      throw new UserError(`image shape [${shape.join(', ')}] must be whole numbers ≥ 1`);
-    total *= s;
-  }
-  if (values.length !== total)
-    throw new UserError(`image shape [${shape.join(', ')}] needs ${total} values, got ${values.length}`);
+  const total = imageSize(values, shape);
   const f = options.superlevel ? values.map((v) => 0 - v) : Float64Array.from(values);
   for (let p = 0; p < total; p++) {
     if (!Number.isFinite(f[p]))
@@ -61,6 +52,21 @@ export function cubicalPersistence(
     }
   }
   return out;
+}
+
+/** Checks an image's shape (1 to 3 axes of whole sizes ≥ 1) against its values; returns the pixel count. */
+export function imageSize(values: ArrayLike<number>, shape: readonly number[]): number {
+  if (shape.length < 1 || shape.length > 3)
+    throw new UserError(`an image has 1 to 3 axes, got shape [${shape.join(', ')}]`);
+  let total = 1;
+  for (const s of shape) {
+    if (!Number.isInteger(s) || s < 1)
+      throw new UserError(`image shape [${shape.join(', ')}] must be whole numbers ≥ 1`);
+    total *= s;
+  }
+  if (values.length !== total)
+    throw new UserError(`image shape [${shape.join(', ')}] needs ${total} values, got ${values.length}`);
+  return total;
 }
 
 class Grid {

@@ -35,6 +35,7 @@
  * diagonal length + 1: above every distance the grid holds.
  */
 import { UserError } from '../core/errors.js';
+import { imageSize } from './cubical.js';
 
 export type ImageFiltration =
   | { kind: 'grey' }
@@ -219,16 +220,7 @@ export function filteredImage(
 }
 
 function checkShape(values: Float64Array, shape: readonly number[]): number {
-  if (shape.length < 1 || shape.length > 3)
-    throw new UserError(`an image has 1 to 3 axes, got shape [${shape.join(', ')}]`);
-  let total = 1;
-  for (const s of shape) {
-    if (!Number.isInteger(s) || s < 1)
-      throw new UserError(`image shape [${shape.join(', ')}] must be whole numbers ≥ 1`);
-    total *= s;
-  }
-  if (values.length !== total)
-    throw new UserError(`image shape [${shape.join(', ')}] needs ${total} values, got ${values.length}`);
+  const total = imageSize(values, shape);
   for (let p = 0; p < total; p++) {
     if (!Number.isFinite(values[p]))
       throw new UserError(`pixel ${p + 1} is ${values[p]}; pixel values must be finite numbers`);

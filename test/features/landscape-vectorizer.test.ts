@@ -1,32 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { Random } from '../../src/core/random.js';
 import {
   LandscapeVectorizer,
   learnGrid,
   parseLandscapeFeatureName,
 } from '../../src/features/landscape-vectorizer.js';
 import { type DiagramSet, makeDiagram } from '../../src/homology/diagram.js';
-
-function set(id: string, h0: Array<[number, number]>, h1: Array<[number, number]>): DiagramSet {
-  return { sample: id, label: 'x', diagrams: [makeDiagram(0, h0), makeDiagram(1, h1)] };
-}
-
-function randomSets(n: number, seed: number, scale = 1): DiagramSet[] {
-  const r = new Random(seed);
-  const out: DiagramSet[] = [];
-  for (let s = 0; s < n; s++) {
-    const h0: Array<[number, number]> = [];
-    const h1: Array<[number, number]> = [];
-    for (let i = 0; i < 20; i++) h0.push([0, scale * r.uniform(0.05, 1)]);
-    h0.push([0, Infinity]);
-    for (let i = 0; i < 5; i++) {
-      const b = scale * r.uniform(0.2, 1);
-      h1.push([b, b + scale * r.uniform(0, 0.8)]);
-    }
-    out.push(set(`s${s}`, h0, h1));
-  }
-  return out;
-}
+import { randomSets, set } from './diagram-fixtures.js';
 
 describe('LandscapeVectorizer', () => {
   it('samples layers by the landscape definition on an explicit grid', () => {
