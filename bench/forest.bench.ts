@@ -1,5 +1,5 @@
+import type { Matrix } from '../src/core/matrix.js';
 import { Random } from '../src/core/random.js';
-import type { Matrix } from '../src/learn/matrix.js';
 import { createClassifier } from '../src/learn/models.js';
 import { type Figure, report, time } from './harness.js';
 

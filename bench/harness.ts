@@ -1,6 +1,6 @@
 import { performance } from 'node:perf_hooks';
+import type { DiagramSet } from '../src/core/diagram.js';
 import { Random } from '../src/core/random.js';
-import type { DiagramSet } from '../src/homology/diagram.js';
 
 /**
  * Small helpers shared by the benchmarks. Each benchmark file `bench/<name>.bench.ts` exports

@@ -1,9 +1,9 @@
 import { createRequire } from 'node:module';
 import { Random } from '../src/core/random.js';
+import type { ImageSample } from '../src/core/sample.js';
 import { computeDiagrams } from '../src/homology/compute.js';
 import { parseFiltrationList } from '../src/homology/filtration.js';
 import { distanceTransform } from '../src/homology/image-filtration.js';
-import type { ImageSample } from '../src/io/dataset.js';
 import { report, time } from './harness.js';
 
 /**

@@ -1,5 +1,5 @@
+import type { Diagram } from '../src/core/diagram.js';
 import { Random } from '../src/core/random.js';
-import type { Diagram } from '../src/homology/diagram.js';
 import { exactLandscape } from '../src/landscape/exact-landscape.js';
 import { type Grid, gridPoints } from '../src/landscape/grid.js';
 import { sampleLandscapeInto } from '../src/landscape/sampled-landscape.js';

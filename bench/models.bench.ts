@@ -1,7 +1,7 @@
+import type { Matrix } from '../src/core/matrix.js';
 import { Random } from '../src/core/random.js';
 import { DenseNetwork } from '../src/learn/dense.js';
 import { loadLibsvm } from '../src/learn/libsvm.js';
-import type { Matrix } from '../src/learn/matrix.js';
 import { createClassifier } from '../src/learn/models.js';
 import { StandardScaler } from '../src/learn/scaler.js';
 import { SvmModel } from '../src/learn/svm.js';

@@ -1,12 +1,13 @@
 import { mkdtempSync, readFileSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import type { DiagramSet } from '../src/core/diagram.js';
 import { Random } from '../src/core/random.js';
+import type { DiagramSample } from '../src/core/sample.js';
 import { provenance } from '../src/core/version.js';
-import type { DiagramSet } from '../src/homology/diagram.js';
-import type { DiagramSample } from '../src/io/dataset.js';
 import { formatDiagramCsv, parseDiagramCsv } from '../src/io/diagram-csv.js';
-import { mergeShards, writeDiagramsOutput } from '../src/io/merge.js';
+import { mergeShards } from '../src/io/merge.js';
+import { writeDiagramsOutput } from '../src/io/outputs.js';
 import { writeWithProvenance } from '../src/io/provenance-file.js';
 import { planShard, resolveShard, shardOf } from '../src/io/shard.js';
 import { report, time } from './harness.js';

@@ -1,8 +1,8 @@
+import type { DiagramSet } from '../src/core/diagram.js';
 import { BettiCurveVectorizer } from '../src/features/betti-curve.js';
 import { LandscapeVectorizer } from '../src/features/landscape-vectorizer.js';
 import { PersistenceImageVectorizer } from '../src/features/persistence-image.js';
 import { PersistenceStatistics } from '../src/features/persistence-statistics.js';
-import type { DiagramSet } from '../src/homology/diagram.js';
 import { type Figure, randomDiagrams, report, time } from './harness.js';
 
 /** The naive Betti curve: every pair tested at every grid point. */

@@ -1,4 +1,4 @@
-import type { Dataset, SampleKind } from '../io/dataset.js';
+import type { Dataset, SampleKind } from '../core/sample.js';
 import { startProgress } from './progress.js';
 
 /**

@@ -1,6 +1,6 @@
 import { coreCount } from '../core/budgets.js';
+import { type InfinitePolicy, parseInfinitePolicy } from '../core/diagram.js';
 import { UserError } from '../core/errors.js';
-import { type InfinitePolicy, parseInfinitePolicy } from '../homology/diagram.js';
 import { isDecimalText } from '../io/csv.js';
 
 /** Parsers for option values; each throws the one-line user error naming the option. */

@@ -1,13 +1,13 @@
-import { UserError } from '../core/errors.js';
 import {
   type Channel,
   channelName,
   DEFAULT_INFINITE_POLICY,
   type DiagramSet,
   type InfinitePolicy,
-} from '../homology/diagram.js';
+} from '../core/diagram.js';
+import { UserError } from '../core/errors.js';
+import type { Matrix } from '../core/matrix.js';
 import type { Grid } from '../landscape/grid.js';
-import type { Matrix } from '../learn/matrix.js';
 import {
   allIndices,
   channelRange,

@@ -1,7 +1,7 @@
+import type { DiagramSet } from '../core/diagram.js';
 import { UserError } from '../core/errors.js';
-import type { DiagramSet } from '../homology/diagram.js';
-import type { Sample, SampleKind } from '../io/dataset.js';
-import { concatColumns, type Matrix } from '../learn/matrix.js';
+import { concatColumns, type Matrix } from '../core/matrix.js';
+import type { Sample, SampleKind } from '../core/sample.js';
 import { type BettiCurveJSON, type BettiCurveOptions, BettiCurveVectorizer } from './betti-curve.js';
 import {
   LandscapeVectorizer,

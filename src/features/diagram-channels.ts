@@ -1,4 +1,3 @@
-import { UserError } from '../core/errors.js';
 import {
   type Channel,
   channelsOf,
@@ -7,7 +6,8 @@ import {
   diagramOfChannel,
   finitePairs,
   type InfinitePolicy,
-} from '../homology/diagram.js';
+} from '../core/diagram.js';
+import { UserError } from '../core/errors.js';
 import { quantileSorted } from './landscape-vectorizer.js';
 
 /**

@@ -1,4 +1,3 @@
-import { UserError } from '../core/errors.js';
 import {
   type Channel,
   channelName,
@@ -8,10 +7,11 @@ import {
   diagramOfChannel,
   finitePairs,
   type InfinitePolicy,
-} from '../homology/diagram.js';
+} from '../core/diagram.js';
+import { UserError } from '../core/errors.js';
+import type { Matrix } from '../core/matrix.js';
 import type { Grid } from '../landscape/grid.js';
 import { sampleLandscape } from '../landscape/sampled-landscape.js';
-import type { Matrix } from '../learn/matrix.js';
 
 /**
  * The landscape vectoriser: for each chosen homology degree, layers 1..K of the persistence landscape

@@ -1,12 +1,12 @@
-import { UserError } from '../core/errors.js';
 import {
   type Channel,
   channelName,
   DEFAULT_INFINITE_POLICY,
   type DiagramSet,
   type InfinitePolicy,
-} from '../homology/diagram.js';
-import type { Matrix } from '../learn/matrix.js';
+} from '../core/diagram.js';
+import { UserError } from '../core/errors.js';
+import type { Matrix } from '../core/matrix.js';
 import {
   allIndices,
   channelValues,

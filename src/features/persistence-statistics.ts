@@ -4,8 +4,8 @@ import {
   DEFAULT_INFINITE_POLICY,
   type DiagramSet,
   type InfinitePolicy,
-} from '../homology/diagram.js';
-import type { Matrix } from '../learn/matrix.js';
+} from '../core/diagram.js';
+import type { Matrix } from '../core/matrix.js';
 import {
   allIndices,
   checkChannelOptions,

@@ -1,6 +1,6 @@
 import { UserError } from '../core/errors.js';
-import type { Sample, SampleKind } from '../io/dataset.js';
-import type { Matrix } from '../learn/matrix.js';
+import type { Matrix } from '../core/matrix.js';
+import type { Sample, SampleKind } from '../core/sample.js';
 import { quantileSorted } from './landscape-vectorizer.js';
 
 /**

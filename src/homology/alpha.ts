@@ -31,8 +31,8 @@
  * index) resolves, and the tie-broken triangulation has the same diagrams.
  */
 import Delaunator from 'delaunator';
+import { type Diagram, makeDiagram } from '../core/diagram.js';
 import { UserError } from '../core/errors.js';
-import { type Diagram, makeDiagram } from './diagram.js';
 import { argsortValues } from './order.js';
 
 /** The alpha complex of a planar cloud: Delaunay edges and triangles with their values (radii). */

@@ -1,7 +1,7 @@
+import { type Diagram, type DiagramSet, emptyDiagram } from '../core/diagram.js';
 import { UserError } from '../core/errors.js';
-import type { Sample } from '../io/dataset.js';
+import type { Sample } from '../core/sample.js';
 import { cubicalPersistence } from './cubical.js';
-import { type Diagram, type DiagramSet, emptyDiagram } from './diagram.js';
 import {
   checkFiltrationApplies,
   cloudFiltrationDiagrams,

@@ -1,5 +1,5 @@
+import type { Diagram } from '../core/diagram.js';
 import { maximumMatching, solveAssignment } from './assignment.js';
-import type { Diagram } from './diagram.js';
 
 /**
  * Distances between persistence diagrams of one degree. Points off the diagonal may be matched to each

@@ -15,7 +15,7 @@
  * diagram is on half the scale of a plain Rips diagram on distances. Outliers get large f and enter late:
  * their H0 bars start late and are short instead of long.
  */
-import type { Diagram } from './diagram.js';
+import type { Diagram } from '../core/diagram.js';
 import { condenseMatrix, type Metric, pairwiseDistances } from './metric.js';
 import { nearestNeighbours, nearestNeighboursFromMatrix } from './nearest.js';
 import { checkRipsFloor, type RipsOptions, ripsPersistence } from './rips.js';

@@ -8,7 +8,7 @@
  * (value, dimension, position in the input), so a face always comes before its cofaces when values are
  * monotone (a face's value ≤ its coface's).
  */
-import { type Diagram, makeDiagram } from './diagram.js';
+import { type Diagram, makeDiagram } from '../core/diagram.js';
 
 export interface FilteredComplex {
   /** `simplices[d]` holds the d-simplices as sorted vertex lists, flattened (d + 1 entries each). */

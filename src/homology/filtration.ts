@@ -9,10 +9,11 @@
  * either family (`SampleFiltration`); with several, each sample's diagrams are computed once per filtration
  * and tagged with its canonical text (`describeSampleFiltration`).
  */
+
+import { type Diagram, emptyDiagram } from '../core/diagram.js';
 import { UserError } from '../core/errors.js';
-import type { DistanceSample, PointSample } from '../io/dataset.js';
+import type { DistanceSample, PointSample } from '../core/sample.js';
 import { alphaDimensionError, alphaPersistence } from './alpha.js';
-import { type Diagram, emptyDiagram } from './diagram.js';
 import { dtmPersistence, dtmPersistenceFromMatrix, dtmProblem } from './dtm.js';
 import {
   describeImageFiltration,

@@ -2,7 +2,6 @@ export { type AlphaComplex, type AlphaOptions, alphaComplex, alphaPersistence } 
 export { type Assignment, solveAssignment } from './assignment.js';
 export { computeDiagrams, type DiagramOptions } from './compute.js';
 export { type CubicalOptions, cubicalPersistence } from './cubical.js';
-export * from './diagram.js';
 export {
   bottleneckDistance,
   type DiagramMetric,

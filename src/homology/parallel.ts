@@ -3,10 +3,10 @@ import { availableParallelism } from 'node:os';
 import { dirname, join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
+import type { DiagramSet } from '../core/diagram.js';
 import { isUserError, UserError } from '../core/errors.js';
-import type { Sample } from '../io/dataset.js';
+import type { Sample } from '../core/sample.js';
 import { computeDiagrams, type DiagramOptions } from './compute.js';
-import type { DiagramSet } from './diagram.js';
 import { kernelModule } from './rips-kernel.js';
 import type { WorkerReply, WorkerStart, WorkerTask } from './worker.js';
 

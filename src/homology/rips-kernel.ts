@@ -1,5 +1,5 @@
 import { setFlagsFromString } from 'node:v8';
-import type { Diagram } from './diagram.js';
+import type { Diagram } from '../core/diagram.js';
 import type { Metric } from './metric.js';
 import { RIPS_KERNEL_BASE64 } from './rips-kernel-bytes.js';
 

@@ -1,6 +1,6 @@
 import { checkMemory, fitsMemory, formatBytes, memoryBudget } from '../core/budgets.js';
+import type { Diagram } from '../core/diagram.js';
 import { UserError } from '../core/errors.js';
-import type { Diagram } from './diagram.js';
 import { collapseFiltration } from './edge-collapse.js';
 import { type Metric, pairwiseDistances } from './metric.js';
 import { firstAtLeast, type NeighbourLists, NO_EDGE, neighbourLists, setEdge } from './neighbour-lists.js';

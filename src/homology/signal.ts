@@ -1,5 +1,5 @@
+import type { Diagram } from '../core/diagram.js';
 import { UserError } from '../core/errors.js';
-import type { Diagram } from './diagram.js';
 import { argsortValues } from './order.js';
 import { UnionFind } from './union-find.js';
 

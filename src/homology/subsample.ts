@@ -9,7 +9,7 @@
  * in bottleneck distance (and the Čech/alpha diagrams on radii by at most ε).
  */
 import { Random } from '../core/random.js';
-import type { DistanceSample, PointSample } from '../io/dataset.js';
+import type { DistanceSample, PointSample } from '../core/sample.js';
 
 export type SubsampleMethod = 'maxmin' | 'random';
 

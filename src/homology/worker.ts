@@ -1,6 +1,6 @@
 import { parentPort, workerData } from 'node:worker_threads';
 import { isUserError } from '../core/errors.js';
-import type { Sample } from '../io/dataset.js';
+import type { Sample } from '../core/sample.js';
 import { computeDiagrams, type DiagramOptions } from './compute.js';
 import { adoptKernelModule, type KernelModule, warmKernel } from './rips-kernel.js';
 

@@ -1,6 +1,6 @@
 import { existsSync } from 'node:fs';
 import { UserError } from '../core/errors.js';
-import type { Dataset, Sample, SampleKind } from './dataset.js';
+import type { Dataset, Sample, SampleKind } from '../core/sample.js';
 import {
   columnsSidecarPath,
   defaultColumnNames,

@@ -1,8 +1,8 @@
 import { readFileSync } from 'node:fs';
+import type { DiagramSet } from '../core/diagram.js';
 import { UserError } from '../core/errors.js';
+import type { Dataset, DiagramSample, TableSample } from '../core/sample.js';
 import type { Provenance } from '../core/version.js';
-import type { DiagramSet } from '../homology/diagram.js';
-import type { Dataset, DiagramSample, TableSample } from './dataset.js';
 import {
   DiagramCollector,
   diagramsInFileOrder,

@@ -1,5 +1,5 @@
+import type { Diagram, DiagramSet } from '../core/diagram.js';
 import { UserError } from '../core/errors.js';
-import type { Diagram, DiagramSet } from '../homology/diagram.js';
 import { writeFileAtomic } from './atomic.js';
 import { csvField, csvNumber, parseCsv, parseNumberField, readTextFile, shown } from './csv.js';
 

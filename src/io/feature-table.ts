@@ -1,7 +1,7 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { UserError } from '../core/errors.js';
+import type { Matrix } from '../core/matrix.js';
 import type { Provenance } from '../core/version.js';
-import type { Matrix } from '../learn/matrix.js';
 import { csvField, csvNumber, parseCsv, shown } from './csv.js';
 import { formatNpy, readNpy } from './npy.js';
 import { writeWithProvenance } from './provenance-file.js';

@@ -1,8 +1,8 @@
 import { readFileSync } from 'node:fs';
 import { extname } from 'node:path';
 import { UserError } from '../core/errors.js';
+import type { Dataset, Sample, SampleKind } from '../core/sample.js';
 import { parseCsv, parseNumberField, readTextFile, shown } from './csv.js';
-import type { Dataset, Sample, SampleKind } from './dataset.js';
 import { parsePgm, parsePng } from './image-file.js';
 import { LABELS_FILE, type LabelledFile, readLabelsFile } from './labels-file.js';
 import { parseNpy } from './npy.js';

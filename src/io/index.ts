@@ -18,7 +18,6 @@ export {
   writeFolderAtomic,
 } from './atomic.js';
 export { type CsvRow, csvField, csvNumber, parseCsv } from './csv.js';
-export * from './dataset.js';
 export {
   DIAGRAM_CSV_HEADER,
   DiagramCollector,
@@ -44,19 +43,18 @@ export { formatPgm, formatPng, type GrayImage, parsePgm, parsePng } from './imag
 export { formatJsonOutput, writeJsonOutput } from './json-output.js';
 export { checkInsidePath, LABELS_FILE, type LabelledFile, readLabelsFile } from './labels-file.js';
 export { expectKind, kindFromHeader, type LoadOptions, loadDataset, parseKind, parseShape } from './load.js';
+export { type MergeSummary, mergeShards } from './merge.js';
+export { formatNpy, type NpyArray, npyHeaderText, parseNpy, readNpy, writeNpy } from './npy.js';
+export { checkFileOutput, checkOutputPath, type OutputCheckOptions } from './output-guard.js';
 export {
   chooseFormat,
   formatFromPath,
-  type MergeSummary,
-  mergeShards,
   type OutputFormat,
   readDiagramsOutput,
   readFeaturesOutput,
   writeDiagramsOutput,
   writeFeaturesOutput,
-} from './merge.js';
-export { formatNpy, type NpyArray, npyHeaderText, parseNpy, readNpy, writeNpy } from './npy.js';
-export { checkFileOutput, checkOutputPath, type OutputCheckOptions } from './output-guard.js';
+} from './outputs.js';
 export { provenancePath, readProvenance, writeWithProvenance } from './provenance-file.js';
 export {
   defaultCoordinateNames,

@@ -1,8 +1,6 @@
 import { statSync } from 'node:fs';
 import { extname } from 'node:path';
 import { UserError } from '../core/errors.js';
-import { loadArrayFile } from './array-file.js';
-import { readTextFile, shown } from './csv.js';
 import type {
   Dataset,
   DiagramSample,
@@ -12,8 +10,10 @@ import type {
   SampleKind,
   SignalSample,
   TableSample,
-} from './dataset.js';
-import { SAMPLE_KINDS } from './dataset.js';
+} from '../core/sample.js';
+import { SAMPLE_KINDS } from '../core/sample.js';
+import { loadArrayFile } from './array-file.js';
+import { readTextFile, shown } from './csv.js';
 import { DIAGRAM_CSV_HEADER, parseDiagramCsv } from './diagram-csv.js';
 import { readCsvHeader, readSampleCsv, type SampleCsv } from './sample-csv.js';
 

@@ -1,5 +1,5 @@
+import type { PointSample, SignalSample, TableSample } from '../core/sample.js';
 import { csvField, csvNumber } from './csv.js';
-import type { PointSample, SignalSample, TableSample } from './dataset.js';
 
 /**
  * Text writers for the CSV sample layouts `loadDataset` reads; each reads back to the same samples.

@@ -2,8 +2,8 @@ import { createHash } from 'node:crypto';
 import { existsSync, readFileSync } from 'node:fs';
 import { basename, dirname, extname, join } from 'node:path';
 import { UserError } from '../core/errors.js';
+import type { Sample } from '../core/sample.js';
 import { type Provenance, version } from '../core/version.js';
-import type { Sample } from './dataset.js';
 import { columnsSidecarPath, samplesSidecarPath } from './feature-table.js';
 import { provenancePath, readProvenance } from './provenance-file.js';
 

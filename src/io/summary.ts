@@ -1,4 +1,4 @@
-import { classesOf, type Dataset } from './dataset.js';
+import { classesOf, type Dataset } from '../core/sample.js';
 
 /**
  * What `landform inspect` prints: the kind, the number of samples, the classes with their counts, and the

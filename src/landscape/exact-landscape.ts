@@ -1,4 +1,4 @@
-import type { Diagram } from '../homology/diagram.js';
+import type { Diagram } from '../core/diagram.js';
 import { sortPairs } from './pair-order.js';
 
 /**

@@ -1,4 +1,4 @@
-import type { Diagram } from '../homology/diagram.js';
+import type { Diagram } from '../core/diagram.js';
 
 /** An evenly spaced grid of `count` points from `start` to `stop`, both included. */
 export interface Grid {

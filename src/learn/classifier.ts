@@ -1,4 +1,4 @@
-import type { Matrix } from './matrix.js';
+import type { Matrix } from '../core/matrix.js';
 
 /**
  * The contract between the models (pca-svm, dense, forest) and the evaluation loop.

@@ -1,4 +1,7 @@
+import { type DiagramSet, describeInfinitePolicy } from '../core/diagram.js';
 import { UserError } from '../core/errors.js';
+import type { Matrix } from '../core/matrix.js';
+import { classesOf, type Dataset } from '../core/sample.js';
 import { version } from '../core/version.js';
 import {
   checkFeatureSet,
@@ -12,12 +15,9 @@ import {
 import { LandscapeVectorizer, type LandscapeVectorizerOptions } from '../features/landscape-vectorizer.js';
 import { RawFeatures, type RawFeaturesOptions } from '../features/raw-features.js';
 import type { DiagramOptions } from '../homology/compute.js';
-import { type DiagramSet, describeInfinitePolicy } from '../homology/diagram.js';
-import { classesOf, type Dataset } from '../io/dataset.js';
 import type { Grid } from '../landscape/grid.js';
-import { DEFAULT_MODEL_NAMES, type Hyperparameters, MODEL_NAMES, type ModelName } from './classifier.js';
+import { DEFAULT_MODEL_NAMES, type Hyperparameters, type ModelName } from './classifier.js';
 import { checkFoldable, encodeLabels, type Fold, stratifiedFolds } from './folds.js';
-import type { Matrix } from './matrix.js';
 import {
   accuracy,
   addConfusion,

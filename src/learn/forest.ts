@@ -1,7 +1,7 @@
 import { UserError } from '../core/errors.js';
+import type { Matrix } from '../core/matrix.js';
 import { Random } from '../core/random.js';
 import type { Classifier, Hyperparameters } from './classifier.js';
-import type { Matrix } from './matrix.js';
 
 /**
  * The `forest` classifier: a random forest (Breiman, "Random forests", Machine Learning 45, 2001) of CART

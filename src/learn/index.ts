@@ -30,7 +30,6 @@ export {
   type ForestTrees,
   featuresPerSplit,
 } from './forest.js';
-export * from './matrix.js';
 export {
   accuracy,
   argmaxRows,

@@ -1,6 +1,6 @@
 import { UserError } from '../core/errors.js';
+import type { Matrix } from '../core/matrix.js';
 import type { Classifier, Hyperparameters } from './classifier.js';
-import type { Matrix } from './matrix.js';
 import { Pca } from './pca.js';
 import type { ProjectionCache } from './projection-cache.js';
 import { StandardScaler } from './scaler.js';

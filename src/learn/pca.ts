@@ -1,7 +1,7 @@
 import { EVD, Matrix as MlMatrix } from 'ml-matrix';
 import { PCA as MlPca } from 'ml-pca';
 import { UserError } from '../core/errors.js';
-import type { Matrix } from './matrix.js';
+import type { Matrix } from '../core/matrix.js';
 
 /** Hyperparameters of the principal component analysis. */
 export interface PcaOptions {

@@ -1,4 +1,5 @@
 import { UserError } from '../core/errors.js';
+import type { Matrix } from '../core/matrix.js';
 import { version } from '../core/version.js';
 import {
   type FeatureData,
@@ -9,7 +10,6 @@ import {
 import type { Classifier, Hyperparameters, ModelName } from './classifier.js';
 import { withCandidates } from './evaluate.js';
 import { checkFoldable, encodeLabels } from './folds.js';
-import type { Matrix } from './matrix.js';
 import { argmaxRows } from './metrics.js';
 import {
   type LandscapeCandidate,

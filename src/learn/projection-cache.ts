@@ -1,4 +1,4 @@
-import type { Matrix } from './matrix.js';
+import type { Matrix } from '../core/matrix.js';
 import type { Pca } from './pca.js';
 import type { StandardScaler } from './scaler.js';
 

@@ -1,5 +1,5 @@
 import { UserError } from '../core/errors.js';
-import type { Matrix } from './matrix.js';
+import type { Matrix } from '../core/matrix.js';
 
 /** Hyperparameters of the scaler. */
 export interface StandardScalerOptions {

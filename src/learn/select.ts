@@ -1,8 +1,8 @@
+import type { Matrix } from '../core/matrix.js';
 import { Random } from '../core/random.js';
 import { type FeatureData, type FeatureExtractor, usesLandscape } from '../features/combined.js';
 import type { Classifier, Hyperparameters, ModelName } from './classifier.js';
 import { classCounts, stratifiedFolds } from './folds.js';
-import type { Matrix } from './matrix.js';
 import { argmaxRows, balancedAccuracy, confusionMatrix } from './metrics.js';
 import { ProjectionCache } from './projection-cache.js';
 

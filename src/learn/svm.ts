@@ -1,8 +1,8 @@
 import { UserError } from '../core/errors.js';
+import type { Matrix } from '../core/matrix.js';
 import { Random } from '../core/random.js';
 import { decodeFloat64, type EncodedArray, encodeFloat64 } from './binary.js';
 import { type LibsvmClass, type LibsvmInstance, libsvmHeap, loadLibsvm } from './libsvm.js';
-import type { Matrix } from './matrix.js';
 
 export type SvmKernel = 'linear' | 'rbf';
 

@@ -1,5 +1,5 @@
 import type { TopLevelSpec } from 'vega-lite';
-import { asChannel, type Channel, type Diagram } from '../homology/diagram.js';
+import { asChannel, type Channel, type Diagram } from '../core/diagram.js';
 import type { SampledBand } from './bands.js';
 import {
   CATEGORY_COLOURS,

@@ -1,5 +1,5 @@
-import { channelName, channelsOf, type DiagramSet, type InfinitePolicy } from '../homology/diagram.js';
-import { classesOf } from '../io/dataset.js';
+import { channelName, channelsOf, type DiagramSet, type InfinitePolicy } from '../core/diagram.js';
+import { classesOf } from '../core/sample.js';
 import { classStacks, sharedGrid } from './means.js';
 import { type ContrastTest, contrastAll, DEFAULT_PERMUTATION_OPTIONS } from './permutation.js';
 

@@ -1,4 +1,4 @@
-import { type Channel, channelName, type Diagram } from '../homology/diagram.js';
+import { type Channel, channelName, type Diagram } from '../core/diagram.js';
 import type { SampledBand } from './bands.js';
 import {
   type AccuracyRow,

@@ -1,6 +1,6 @@
+import { channelName } from '../core/diagram.js';
+import type { Matrix } from '../core/matrix.js';
 import { Random } from '../core/random.js';
-import { channelName } from '../homology/diagram.js';
-import type { Matrix } from '../learn/matrix.js';
 import type { WeightCurve } from './charts.js';
 
 /**

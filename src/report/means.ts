@@ -6,8 +6,8 @@ import {
   diagramOfChannel,
   finitePairs,
   type InfinitePolicy,
-} from '../homology/diagram.js';
-import { classesOf } from '../io/dataset.js';
+} from '../core/diagram.js';
+import { classesOf } from '../core/sample.js';
 import {
   coveringGrid,
   type ExactLandscape,

@@ -1,4 +1,7 @@
 import { resolve } from 'node:path';
+import { channelName, type DiagramSet, type InfinitePolicy } from '../core/diagram.js';
+import type { Matrix } from '../core/matrix.js';
+import { classesOf, type Dataset, type SampleKind } from '../core/sample.js';
 import { packageRoot, version } from '../core/version.js';
 import { FeatureExtractor } from '../features/combined.js';
 import {
@@ -7,11 +10,8 @@ import {
 } from '../features/landscape-vectorizer.js';
 import type { RawFeaturesOptions } from '../features/raw-features.js';
 import type { DiagramOptions } from '../homology/compute.js';
-import { channelName, type DiagramSet, type InfinitePolicy } from '../homology/diagram.js';
-import { classesOf, type Dataset, type SampleKind } from '../io/dataset.js';
 import type { Hyperparameters, ModelName } from '../learn/classifier.js';
 import type { EvaluationResult, StudyResult } from '../learn/evaluate.js';
-import type { Matrix } from '../learn/matrix.js';
 import type { ModelFactory } from '../learn/select.js';
 import type { WeightCurve } from './charts.js';
 import { contrastDiagrams } from './contrast.js';

@@ -4,9 +4,9 @@ import { join } from 'node:path';
 import { describe, expect, it, vi } from 'vitest';
 import { main } from '../../src/cli/main.js';
 import { Random } from '../../src/core/random.js';
+import type { DiagramSample } from '../../src/core/sample.js';
 import { provenance } from '../../src/core/version.js';
-import type { DiagramSample } from '../../src/io/dataset.js';
-import { writeDiagramsOutput } from '../../src/io/merge.js';
+import { writeDiagramsOutput } from '../../src/io/outputs.js';
 import { planShard, resolveShard } from '../../src/io/shard.js';
 import { runCli, tempDir } from '../helpers/cli.js';
 

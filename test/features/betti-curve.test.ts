@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
+import { makeDiagram } from '../../src/core/diagram.js';
 import { BettiCurveVectorizer, bettiCurveInto, gridPoints } from '../../src/features/betti-curve.js';
-import { makeDiagram } from '../../src/homology/diagram.js';
 import { leaked, randomSets, set, TRAIN, twoFiltrations } from './diagram-fixtures.js';
 
 describe('BettiCurveVectorizer', () => {

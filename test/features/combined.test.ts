@@ -1,12 +1,12 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
+import type { Sample } from '../../src/core/sample.js';
 import {
   checkFeatureSet,
   FEATURE_SET_NAMES,
   FeatureExtractor,
   featureSetsFor,
 } from '../../src/features/combined.js';
-import type { Sample } from '../../src/io/dataset.js';
 import { randomSets, TRAIN, twoFiltrations } from './diagram-fixtures.js';
 
 const root = new URL('../../', import.meta.url).pathname;

@@ -1,6 +1,7 @@
 // Shared invented diagram sets for the vectoriser tests (leak and round-trip checks). Not a test file itself.
+
+import { type DiagramSet, makeDiagram } from '../../src/core/diagram.js';
 import { Random } from '../../src/core/random.js';
-import { type DiagramSet, makeDiagram } from '../../src/homology/diagram.js';
 
 export function set(id: string, h0: Array<[number, number]>, h1: Array<[number, number]>): DiagramSet {
   return { sample: id, label: 'x', diagrams: [makeDiagram(0, h0), makeDiagram(1, h1)] };

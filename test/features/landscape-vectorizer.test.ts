@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
+import type { DiagramSet } from '../../src/core/diagram.js';
 import {
   LandscapeVectorizer,
   learnGrid,
   parseLandscapeFeatureName,
 } from '../../src/features/landscape-vectorizer.js';
-import { type DiagramSet, makeDiagram } from '../../src/homology/diagram.js';
 import { randomSets, set } from './diagram-fixtures.js';
 
 describe('LandscapeVectorizer', () => {

@@ -1,11 +1,11 @@
 import { describe, expect, it } from 'vitest';
+import { makeDiagram } from '../../src/core/diagram.js';
 import {
   erfc,
   normalCdf,
   PersistenceImageVectorizer,
   persistenceImageInto,
 } from '../../src/features/persistence-image.js';
-import { makeDiagram } from '../../src/homology/diagram.js';
 import { leaked, randomSets, set, TRAIN, twoFiltrations } from './diagram-fixtures.js';
 
 describe('PersistenceImageVectorizer', () => {

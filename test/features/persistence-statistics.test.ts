@@ -1,12 +1,12 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
+import { makeDiagram } from '../../src/core/diagram.js';
 import {
   PersistenceStatistics,
   persistentEntropy,
   STATISTIC_NAMES,
   statisticsInto,
 } from '../../src/features/persistence-statistics.js';
-import { makeDiagram } from '../../src/homology/diagram.js';
 import { leaked, randomSets, set, TRAIN, twoFiltrations } from './diagram-fixtures.js';
 
 function statsOf(pairs: Array<[number, number]>): Record<string, number> {

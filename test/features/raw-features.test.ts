@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import type { DistanceSample, ImageSample, PointSample, SignalSample } from '../../src/core/sample.js';
 import { covarianceEigenvalues, downsample, RawFeatures, resample } from '../../src/features/raw-features.js';
-import type { DistanceSample, ImageSample, PointSample, SignalSample } from '../../src/io/dataset.js';
 
 function points(id: string, coords: number[], dim = 2): PointSample {
   return {

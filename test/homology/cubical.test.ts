@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
+import type { Diagram } from '../../src/core/diagram.js';
 import { Random } from '../../src/core/random.js';
 import { cubicalPersistence } from '../../src/homology/cubical.js';
-import type { Diagram } from '../../src/homology/diagram.js';
 import { type NaiveCell, naiveReduce } from './naive-reduction.js';
 
 function finiteOf(d: Diagram): Array<[number, number]> {

@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { type Diagram, makeDiagram } from '../../src/homology/diagram.js';
+import { type Diagram, makeDiagram } from '../../src/core/diagram.js';
 import { bottleneckDistance, distanceMatrix, wassersteinDistance } from '../../src/homology/distance.js';
 
 /**

@@ -1,8 +1,10 @@
 import { describe, expect, it } from 'vitest';
+import type { Diagram, DiagramSet } from '../../src/core/diagram.js';
+import type { Matrix } from '../../src/core/matrix.js';
 import { Random } from '../../src/core/random.js';
+import { classesOf } from '../../src/core/sample.js';
 import { LandscapeVectorizer } from '../../src/features/landscape-vectorizer.js';
 import { RawFeatures } from '../../src/features/raw-features.js';
-import type { Diagram, DiagramSet } from '../../src/homology/diagram.js';
 import {
   dtmEdgeValue,
   dtmEdgeValues,
@@ -16,10 +18,8 @@ import {
 import { complexPersistence } from '../../src/homology/filtered-complex.js';
 import { pairwiseDistances } from '../../src/homology/metric.js';
 import { ripsPersistence } from '../../src/homology/rips.js';
-import { classesOf } from '../../src/io/dataset.js';
 import { generateRings } from '../../src/io/scenarios/rings.js';
 import { encodeLabels, stratifiedFolds } from '../../src/learn/folds.js';
-import type { Matrix } from '../../src/learn/matrix.js';
 
 function rows(d: Diagram): Array<[number, number]> {
   const out: Array<[number, number]> = [];

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import type { Diagram } from '../../src/core/diagram.js';
 import { Random } from '../../src/core/random.js';
-import type { Diagram } from '../../src/homology/diagram.js';
 import { collapseEdges, collapseFiltration } from '../../src/homology/edge-collapse.js';
 import { pairwiseDistances } from '../../src/homology/metric.js';
 import { NO_EDGE, tableEdges } from '../../src/homology/neighbour-lists.js';

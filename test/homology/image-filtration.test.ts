@@ -1,9 +1,9 @@
 import { createRequire } from 'node:module';
 import { describe, expect, it } from 'vitest';
+import type { Diagram } from '../../src/core/diagram.js';
 import { Random } from '../../src/core/random.js';
 import { computeDiagrams } from '../../src/homology/compute.js';
 import { cubicalPersistence } from '../../src/homology/cubical.js';
-import type { Diagram } from '../../src/homology/diagram.js';
 import { parseFiltrationList } from '../../src/homology/filtration.js';
 import {
   binarise,

@@ -4,7 +4,7 @@
  * algorithm. Edelsbrunner & Harer, "Computational Topology", 2010, §III.2 (Čech complexes) and §VII.1
  * (the reduction). Deliberately naive: n³ triangles, meant for n ≤ 12 or so.
  */
-import type { Diagram } from '../../src/homology/diagram.js';
+import type { Diagram } from '../../src/core/diagram.js';
 import { complexPersistence } from '../../src/homology/filtered-complex.js';
 
 /** Radius of the smallest disc enclosing points a, b, c (row-major x y). */

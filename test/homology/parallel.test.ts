@@ -2,10 +2,10 @@ import { spawnSync } from 'node:child_process';
 import { createRequire } from 'node:module';
 import { afterAll, describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
+import type { ImageSample, PointSample } from '../../src/core/sample.js';
 import { computeDiagrams } from '../../src/homology/compute.js';
 import { parseFiltrationList } from '../../src/homology/filtration.js';
 import { computeDiagramsParallel, stopDiagramWorkers } from '../../src/homology/parallel.js';
-import type { ImageSample, PointSample } from '../../src/io/dataset.js';
 import { spherePoints } from './sphere-points.js';
 
 function clouds(count: number): PointSample[] {

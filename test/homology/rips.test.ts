@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import type { Diagram } from '../../src/core/diagram.js';
 import { Random } from '../../src/core/random.js';
-import type { Diagram } from '../../src/homology/diagram.js';
 import { pairwiseDistances } from '../../src/homology/metric.js';
 import { enclosingRadius, ripsPersistence, sortEdges } from '../../src/homology/rips.js';
 import { condensedIndex } from '../../src/homology/simplex-index.js';

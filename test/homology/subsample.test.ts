@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
+import type { PointSample } from '../../src/core/sample.js';
 import { alphaPersistence } from '../../src/homology/alpha.js';
 import { bottleneckDistance } from '../../src/homology/distance.js';
 import { pairwiseDistances } from '../../src/homology/metric.js';
@@ -13,7 +14,6 @@ import {
   selectLandmarks,
   subsampleSample,
 } from '../../src/homology/subsample.js';
-import type { PointSample } from '../../src/io/dataset.js';
 
 function noisyCircle(seed: number, n: number): Float64Array {
   const r = new Random(seed);

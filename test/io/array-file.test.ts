@@ -1,7 +1,7 @@
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import type { DistanceSample, ImageSample, PointSample, SignalSample } from '../../src/io/dataset.js';
+import type { DistanceSample, ImageSample, PointSample, SignalSample } from '../../src/core/sample.js';
 import { formatSamplesCsv } from '../../src/io/feature-table.js';
 import { loadDataset } from '../../src/io/load.js';
 import { formatNpy } from '../../src/io/npy.js';

@@ -1,9 +1,9 @@
 import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import type { DiagramSet } from '../../src/core/diagram.js';
 import { UserError } from '../../src/core/errors.js';
 import { provenance } from '../../src/core/version.js';
-import type { DiagramSet } from '../../src/homology/diagram.js';
 import {
   ARROW_KIND_KEY,
   ARROW_PROVENANCE_KEY,

@@ -4,7 +4,7 @@ import {
   recordedSampleShape,
   sampleShapeOf,
   sampleShapeProblem,
-} from '../../src/io/dataset.js';
+} from '../../src/core/sample.js';
 
 const points = (dim: number): Dataset => ({
   kind: 'points',

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import { makeDiagram } from '../../src/core/diagram.js';
 import { UserError } from '../../src/core/errors.js';
-import { makeDiagram } from '../../src/homology/diagram.js';
 import { formatDiagramCsv, parseDiagramCsv } from '../../src/io/diagram-csv.js';
 
 describe('diagram CSV', () => {

@@ -3,7 +3,7 @@ import { join } from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/core/errors.js';
-import type { DistanceSample, ImageSample, PointSample, SignalSample } from '../../src/io/dataset.js';
+import type { DistanceSample, ImageSample, PointSample, SignalSample } from '../../src/core/sample.js';
 import { distanceFault, readMatrixCsv } from '../../src/io/folder.js';
 import { formatPgm, formatPng } from '../../src/io/image-file.js';
 import { loadDataset } from '../../src/io/load.js';

@@ -1,20 +1,20 @@
 import { copyFileSync, existsSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import type { DiagramSet } from '../../src/core/diagram.js';
 import { UserError } from '../../src/core/errors.js';
 import { Random } from '../../src/core/random.js';
+import type { DiagramSample } from '../../src/core/sample.js';
 import { type Provenance, provenance } from '../../src/core/version.js';
-import type { DiagramSet } from '../../src/homology/diagram.js';
-import type { DiagramSample } from '../../src/io/dataset.js';
 import { loadDataset } from '../../src/io/load.js';
+import { mergeShards } from '../../src/io/merge.js';
 import {
   chooseFormat,
   formatFromPath,
-  mergeShards,
   readDiagramsOutput,
   writeDiagramsOutput,
   writeFeaturesOutput,
-} from '../../src/io/merge.js';
+} from '../../src/io/outputs.js';
 import { provenancePath } from '../../src/io/provenance-file.js';
 import { planShard, resolveShard } from '../../src/io/shard.js';
 import { tempDir } from '../helpers/cli.js';

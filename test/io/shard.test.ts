@@ -3,8 +3,8 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/core/errors.js';
 import { Random } from '../../src/core/random.js';
+import type { PointSample } from '../../src/core/sample.js';
 import { provenance } from '../../src/core/version.js';
-import type { PointSample } from '../../src/io/dataset.js';
 import { writeWithProvenance } from '../../src/io/provenance-file.js';
 import {
   datasetDigest,

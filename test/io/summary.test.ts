@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { makeDiagram } from '../../src/homology/diagram.js';
-import type { Dataset } from '../../src/io/dataset.js';
+import { makeDiagram } from '../../src/core/diagram.js';
+import type { Dataset } from '../../src/core/sample.js';
 import { formatSummary, summarizeDataset } from '../../src/io/summary.js';
 
 describe('dataset summary', () => {

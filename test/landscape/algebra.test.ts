@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { makeDiagram } from '../../src/homology/diagram.js';
+import { makeDiagram } from '../../src/core/diagram.js';
 import { bottleneckDistance } from '../../src/homology/distance.js';
 import {
   evaluate,

@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { makeDiagram } from '../../src/homology/diagram.js';
+import { makeDiagram } from '../../src/core/diagram.js';
 import { evaluate, evaluateLayer } from '../../src/landscape/algebra.js';
 import { exactLandscape } from '../../src/landscape/exact-landscape.js';
 import { anyDiagram, definitionValue } from './reference.js';

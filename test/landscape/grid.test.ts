@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { makeDiagram } from '../../src/homology/diagram.js';
+import { makeDiagram } from '../../src/core/diagram.js';
 import { coveringGrid, gridPoints, gridStep } from '../../src/landscape/grid.js';
 
 describe('grid', () => {

@@ -1,5 +1,5 @@
 import fc from 'fast-check';
-import { type Diagram, makeDiagram } from '../../src/homology/diagram.js';
+import { type Diagram, makeDiagram } from '../../src/core/diagram.js';
 
 /**
  * Test helpers: the definition of a landscape layer, evaluated directly, and random diagrams. The

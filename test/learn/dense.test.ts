@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
+import type { Matrix } from '../../src/core/matrix.js';
 import { Random } from '../../src/core/random.js';
 import { DenseClassifier, DenseNetwork } from '../../src/learn/dense.js';
-import type { Matrix } from '../../src/learn/matrix.js';
 import { classifierFromJSON, createClassifier } from '../../src/learn/models.js';
 import { loadTf } from '../../src/learn/tf-backend.js';
 

@@ -1,14 +1,14 @@
 import { describe, expect, it } from 'vitest';
+import type { DiagramSet } from '../../src/core/diagram.js';
+import type { Matrix } from '../../src/core/matrix.js';
 import { Random } from '../../src/core/random.js';
+import type { Dataset, PointSample } from '../../src/core/sample.js';
 import { learnGrid } from '../../src/features/landscape-vectorizer.js';
-import type { DiagramSet } from '../../src/homology/diagram.js';
 import { pairwiseDistances } from '../../src/homology/metric.js';
 import { ripsPersistence } from '../../src/homology/rips.js';
-import type { Dataset, PointSample } from '../../src/io/dataset.js';
 import { drawShape, SHAPE_LABELS } from '../../src/io/scenarios/shapes.js';
 import type { Classifier, Hyperparameters, ModelName } from '../../src/learn/classifier.js';
 import { formatMetricsJson, mostFrequent, runEvaluation } from '../../src/learn/evaluate.js';
-import type { Matrix } from '../../src/learn/matrix.js';
 import type { ModelFactory } from '../../src/learn/select.js';
 
 /** A test-only classifier: nearest class centroid, scores by softmax of negative distances. Not a shipped model. */

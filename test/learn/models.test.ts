@@ -1,8 +1,8 @@
 import { createRequire } from 'node:module';
 import { describe, expect, it } from 'vitest';
+import { type Matrix, takeRows } from '../../src/core/matrix.js';
 import { Random } from '../../src/core/random.js';
 import type { Classifier } from '../../src/learn/classifier.js';
-import { type Matrix, takeRows } from '../../src/learn/matrix.js';
 import { candidateHyperparameters, classifierFromJSON, createClassifier } from '../../src/learn/models.js';
 import { PcaSvmClassifier } from '../../src/learn/pca-svm.js';
 import { iris, stratifiedFolds } from './models-fixtures.js';

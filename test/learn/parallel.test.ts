@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { Dataset, ImageSample } from '../../src/io/dataset.js';
+import type { Dataset, ImageSample } from '../../src/core/sample.js';
 import type { ModelName } from '../../src/learn/classifier.js';
 import { formatMetricsJson, runEvaluation, serialUnitRunner } from '../../src/learn/evaluate.js';
 import { learningWorkers } from '../../src/learn/parallel.js';

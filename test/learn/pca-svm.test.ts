@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
+import type { Matrix } from '../../src/core/matrix.js';
+import type { Dataset, ImageSample } from '../../src/core/sample.js';
 import { FeatureExtractor } from '../../src/features/combined.js';
-import type { Dataset, ImageSample, TableSample } from '../../src/io/dataset.js';
 import { applyFixed, formatMetricsJson, runEvaluation } from '../../src/learn/evaluate.js';
 import { encodeLabels, stratifiedFolds } from '../../src/learn/folds.js';
-import type { Matrix } from '../../src/learn/matrix.js';
 import { candidateHyperparameters, createClassifier } from '../../src/learn/models.js';
 import { PcaSvmClassifier } from '../../src/learn/pca-svm.js';
 import { ProjectionCache } from '../../src/learn/projection-cache.js';

@@ -1,8 +1,8 @@
 import { Matrix as MlMatrix, SVD } from 'ml-matrix';
 import { PCA as MlPca } from 'ml-pca';
 import { describe, expect, it } from 'vitest';
+import { fromRows } from '../../src/core/matrix.js';
 import { Random } from '../../src/core/random.js';
-import { fromRows } from '../../src/learn/matrix.js';
 import { Pca } from '../../src/learn/pca.js';
 import { StandardScaler } from '../../src/learn/scaler.js';
 import { iris } from './models-fixtures.js';

@@ -1,6 +1,5 @@
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import type { Dataset, TableSample } from '../../src/io/dataset.js';
 import { runEvaluation } from '../../src/learn/evaluate.js';
 import { loadModelFolder, saveModelFolder } from '../../src/learn/model-folder.js';
 import { Pipeline } from '../../src/learn/pipeline.js';

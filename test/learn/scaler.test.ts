@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { fromRows } from '../../src/learn/matrix.js';
+import { fromRows } from '../../src/core/matrix.js';
 import { StandardScaler } from '../../src/learn/scaler.js';
 import { iris } from './models-fixtures.js';
 

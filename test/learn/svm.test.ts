@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
+import { type Matrix, takeRows } from '../../src/core/matrix.js';
 import { Random } from '../../src/core/random.js';
 import { loadLibsvm } from '../../src/learn/libsvm.js';
-import { type Matrix, takeRows } from '../../src/learn/matrix.js';
 import { StandardScaler } from '../../src/learn/scaler.js';
 import {
   coupleProbabilities,

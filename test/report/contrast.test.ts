@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import { type DiagramSet, makeDiagram } from '../../src/core/diagram.js';
 import { Random } from '../../src/core/random.js';
-import { type DiagramSet, makeDiagram } from '../../src/homology/diagram.js';
 import { contrastDiagrams, contrastJson, contrastText } from '../../src/report/contrast.js';
 
 /** Diagram sets made here: class `wide` has H1 bars twice as long as class `narrow`; H0 is the same law. */

@@ -2,8 +2,8 @@ import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { makeDiagram } from '../../src/core/diagram.js';
 import { Random } from '../../src/core/random.js';
-import { makeDiagram } from '../../src/homology/diagram.js';
 import { multiplierBand } from '../../src/report/bands.js';
 import {
   CAUTION_TEXT,

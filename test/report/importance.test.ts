@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import type { Matrix } from '../../src/core/matrix.js';
 import { Random } from '../../src/core/random.js';
-import type { Matrix } from '../../src/learn/matrix.js';
 import {
   combinePairWeights,
   groupsByDegreeLayer,

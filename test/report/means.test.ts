@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import { type DiagramSet, makeDiagram } from '../../src/core/diagram.js';
 import { Random } from '../../src/core/random.js';
-import { type DiagramSet, makeDiagram } from '../../src/homology/diagram.js';
 import { evaluate, gridPoints } from '../../src/landscape/index.js';
 import { classMeans, classStacks, sharedGrid } from '../../src/report/means.js';
 

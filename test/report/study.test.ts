@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
+import type { Dataset, PointSample } from '../../src/core/sample.js';
 import { computeDiagrams } from '../../src/homology/compute.js';
-import type { Dataset, PointSample } from '../../src/io/dataset.js';
 import { runEvaluation } from '../../src/learn/evaluate.js';
 import { accuracyTable, buildDatasetReport, demoMetricsJson, findingsOf } from '../../src/report/study.js';
 

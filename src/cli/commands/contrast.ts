@@ -1,10 +1,10 @@
 import type { Command } from 'commander';
+import type { DiagramSet } from '../../core/diagram.js';
 import { UserError } from '../../core/errors.js';
+import type { Dataset } from '../../core/sample.js';
 import { provenance } from '../../core/version.js';
 import type { DiagramOptions } from '../../homology/compute.js';
-import type { DiagramSet } from '../../homology/diagram.js';
 import type { Metric } from '../../homology/metric.js';
-import type { Dataset } from '../../io/dataset.js';
 import { checkOutputPath } from '../../io/output-guard.js';
 import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
 import {
@@ -144,7 +144,7 @@ export function defineContrast(program: Command): Command {
         ...(flags.superlevel ? { superlevel: true } : {}),
       };
       const { loadInput } = await import('../dataset-input.js');
-      const { classesOf } = await import('../../io/dataset.js');
+      const { classesOf } = await import('../../core/sample.js');
       const dataset = await loadInput(path, {
         kind: flags.kind,
         ...(flags.shape !== undefined ? { shape: flags.shape } : {}),

@@ -1,12 +1,12 @@
 import { availableParallelism } from 'node:os';
 import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
+import type { SampleKind } from '../../core/sample.js';
 import { provenance } from '../../core/version.js';
 import type { DiagramOptions } from '../../homology/compute.js';
 import { METRICS, type Metric } from '../../homology/metric.js';
 import { computeDiagramsParallel, startDiagramWorkers } from '../../homology/parallel.js';
 import type { DelayEmbedding } from '../../homology/signal.js';
-import type { SampleKind } from '../../io/dataset.js';
 import { expectKind, loadDataset, parseKind, parseShape } from '../../io/load.js';
 import { checkFileOutput } from '../../io/output-guard.js';
 import { noteOption } from '../dataset-input.js';
@@ -156,7 +156,7 @@ Example:
       if (maxScale !== undefined) computeOptions.maxScale = maxScale;
       if (embed !== undefined) computeOptions.embed = embed;
       if (options.superlevel) computeOptions.superlevel = true;
-      const { chooseFormat, writeDiagramsOutput } = await import('../../io/merge.js');
+      const { chooseFormat, writeDiagramsOutput } = await import('../../io/outputs.js');
       const { planShard, resolveShard } = await import('../../io/shard.js');
       const format = chooseFormat(options.out, options.format, ['csv', 'arrow']);
       const settings = {

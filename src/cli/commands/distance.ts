@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
+import { type Diagram, diagramOfChannel, finitePairs, parseInfinitePolicy } from '../../core/diagram.js';
 import { UserError } from '../../core/errors.js';
 import { provenance } from '../../core/version.js';
-import { type Diagram, diagramOfChannel, finitePairs, parseInfinitePolicy } from '../../homology/diagram.js';
 import { type DiagramMetric, distanceMatrix } from '../../homology/distance.js';
 import { csvField, csvNumber } from '../../io/csv.js';
 import { readDiagramCsv } from '../../io/diagram-csv.js';

@@ -2,7 +2,9 @@ import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Command } from 'commander';
 import { checkFeatureColumns } from '../../core/budgets.js';
+import type { DiagramSet } from '../../core/diagram.js';
 import { UserError } from '../../core/errors.js';
+import type { Dataset, SampleKind } from '../../core/sample.js';
 import {
   checkFeatureSet,
   FEATURE_SET_NAMES,
@@ -11,11 +13,9 @@ import {
 } from '../../features/combined.js';
 import type { LandscapeVectorizerOptions } from '../../features/landscape-vectorizer.js';
 import type { DiagramOptions } from '../../homology/compute.js';
-import type { DiagramSet } from '../../homology/diagram.js';
 import { filtrationList } from '../../homology/filtration.js';
 import { METRICS, type Metric } from '../../homology/metric.js';
 import { acquireOutputLock, writeFileAtomic, writeFolderAtomic } from '../../io/atomic.js';
-import type { Dataset, SampleKind } from '../../io/dataset.js';
 import { loadDataset, parseKind, parseShape } from '../../io/load.js';
 import { checkOutputPath } from '../../io/output-guard.js';
 import {

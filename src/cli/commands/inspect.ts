@@ -1,5 +1,5 @@
 import type { Command } from 'commander';
-import { SAMPLE_KINDS } from '../../io/dataset.js';
+import { SAMPLE_KINDS } from '../../core/sample.js';
 
 interface InspectOptions {
   kind?: string;

@@ -1,7 +1,5 @@
 import type { Command } from 'commander';
 import { checkLandscapeValues } from '../../core/budgets.js';
-import { UserError } from '../../core/errors.js';
-import { provenance } from '../../core/version.js';
 import {
   type Channel,
   type Diagram,
@@ -10,7 +8,9 @@ import {
   diagramOfChannel,
   finitePairs,
   type InfinitePolicy,
-} from '../../homology/diagram.js';
+} from '../../core/diagram.js';
+import { UserError } from '../../core/errors.js';
+import { provenance } from '../../core/version.js';
 import { writeFileAtomic } from '../../io/atomic.js';
 import { MAX_DIAGRAM_DEGREE, readDiagramCsv } from '../../io/diagram-csv.js';
 import { checkFileOutput, checkOutputPath } from '../../io/output-guard.js';

@@ -37,7 +37,8 @@ Example:
     .action(async (files: string[], options: MergeOptions) => {
       if (options.out === undefined)
         throw new UserError('--out FILE is required: where to write the merged file');
-      const { mergeShards, formatFromPath } = await import('../../io/merge.js');
+      const { mergeShards } = await import('../../io/merge.js');
+      const { formatFromPath } = await import('../../io/outputs.js');
       const { checkFileOutput } = await import('../../io/output-guard.js');
       const format = options.format ?? formatFromPath(options.out);
       checkFileOutput(options.out, files, format === 'npy' ? 'npy' : undefined);

@@ -1,15 +1,15 @@
 import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
-import { provenance } from '../../core/version.js';
-import type { FeatureData } from '../../features/combined.js';
-import type { DiagramOptions } from '../../homology/compute.js';
-import { csvField, csvNumber } from '../../io/csv.js';
 import {
   recordedSampleShape,
   type SampleKind,
   type SampleShape,
   sampleShapeProblem,
-} from '../../io/dataset.js';
+} from '../../core/sample.js';
+import { provenance } from '../../core/version.js';
+import type { FeatureData } from '../../features/combined.js';
+import type { DiagramOptions } from '../../homology/compute.js';
+import { csvField, csvNumber } from '../../io/csv.js';
 import { parseKind, parseShape } from '../../io/load.js';
 import { checkFileOutput } from '../../io/output-guard.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';

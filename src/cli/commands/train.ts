@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
+import { sampleShapeOf } from '../../core/sample.js';
 import type { FeatureData } from '../../features/combined.js';
-import { sampleShapeOf } from '../../io/dataset.js';
 import { checkOutputPath } from '../../io/output-guard.js';
 import { parseProgressMode, startPhases } from '../progress.js';
 import { addStudyOptions, diagramsForCommand, parseStudy, type StudyCommandOptions } from './evaluate.js';

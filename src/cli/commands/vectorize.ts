@@ -1,6 +1,13 @@
 import type { Command } from 'commander';
 import { checkFeatureColumns } from '../../core/budgets.js';
+import { describeInfinitePolicy } from '../../core/diagram.js';
 import { UserError } from '../../core/errors.js';
+import {
+  recordedSampleShape,
+  type SampleKind,
+  type SampleShape,
+  sampleShapeProblem,
+} from '../../core/sample.js';
 import { provenance } from '../../core/version.js';
 import {
   checkFeatureSet,
@@ -10,13 +17,6 @@ import {
   type FeatureSetName,
 } from '../../features/combined.js';
 import type { DiagramOptions } from '../../homology/compute.js';
-import { describeInfinitePolicy } from '../../homology/diagram.js';
-import {
-  recordedSampleShape,
-  type SampleKind,
-  type SampleShape,
-  sampleShapeProblem,
-} from '../../io/dataset.js';
 import { parseShape } from '../../io/load.js';
 import { checkFileOutput } from '../../io/output-guard.js';
 import {
@@ -115,7 +115,7 @@ Example:
     .action(async (input: string, o: VectorizeCommandOptions) => {
       if (o.out === undefined)
         throw new UserError('no --out FILE given; name the .csv or .npy file to write');
-      const { chooseFormat, writeFeaturesOutput } = await import('../../io/merge.js');
+      const { chooseFormat, writeFeaturesOutput } = await import('../../io/outputs.js');
       const { planShard, resolveShard } = await import('../../io/shard.js');
       const format = chooseFormat(o.out, o.format, ['csv', 'npy', 'arrow']);
       checkFileOutput(o.out, [input, o.model], format);

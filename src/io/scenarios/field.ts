@@ -1,5 +1,5 @@
 import { Random } from '../../core/random.js';
-import type { ImageSample } from '../dataset.js';
+import type { ImageSample } from '../../core/sample.js';
 
 /**
  * Scenario (invented, synthetic): a thermal camera looks down on a field of buried heating sensors; each

@@ -1,5 +1,5 @@
 import { join } from 'node:path';
-import type { Sample, SampleKind } from '../dataset.js';
+import type { Sample, SampleKind } from '../../core/sample.js';
 import { formatPgm } from '../image-file.js';
 import { formatLabelsCsv, formatPointsCsv, formatSignalCsv } from '../sample-writers.js';
 import { FIELD_CLASSES, generateField } from './field.js';

@@ -1,5 +1,5 @@
 import { Random } from '../../core/random.js';
-import type { PointSample } from '../dataset.js';
+import type { PointSample } from '../../core/sample.js';
 
 /**
  * Scenario (invented, synthetic): an inspection camera on a line that prints lattice panels photographs a

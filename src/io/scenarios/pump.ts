@@ -1,5 +1,5 @@
 import { Random } from '../../core/random.js';
-import type { SignalSample } from '../dataset.js';
+import type { SignalSample } from '../../core/sample.js';
 
 /**
  * Scenario (invented, synthetic): an accelerometer on the bearing housing of a circulation pump, sampled so

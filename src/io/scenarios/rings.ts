@@ -1,5 +1,5 @@
 import { Random } from '../../core/random.js';
-import type { PointSample } from '../dataset.js';
+import type { PointSample } from '../../core/sample.js';
 
 /**
  * Scenario (invented, synthetic): a vision station on a gasket press traces the outline of each stamped part as

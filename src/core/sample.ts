@@ -1,5 +1,5 @@
-import type { Diagram } from '../homology/diagram.js';
-import { shown } from './csv.js';
+import type { Diagram } from './diagram.js';
+import { shown } from './text.js';
 
 /**
  * A dataset is a list of labelled samples of one kind. Samples are plain records over typed arrays;
