@@ -6,10 +6,10 @@ import { fileURLToPath, pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { Random } from '../src/core/random.js';
 import type { PointSample } from '../src/core/sample.js';
+import { drawSphere } from '../src/demo/scenarios/shapes.js';
 import { cubicalPersistence } from '../src/homology/cubical.js';
 import { pairwiseDistances } from '../src/homology/metric.js';
 import { ripsPersistence } from '../src/homology/rips.js';
-import { drawSphere } from '../src/io/scenarios/shapes.js';
 import { report, time } from './harness.js';
 
 /**

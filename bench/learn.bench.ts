@@ -2,9 +2,9 @@ import { performance } from 'node:perf_hooks';
 import type { DiagramSet } from '../src/core/diagram.js';
 import { Random } from '../src/core/random.js';
 import type { Dataset, PointSample } from '../src/core/sample.js';
+import { drawShape, SHAPE_LABELS } from '../src/demo/scenarios/shapes.js';
 import { LandscapeVectorizer } from '../src/features/landscape-vectorizer.js';
 import { computeDiagramsParallel } from '../src/homology/parallel.js';
-import { drawShape, SHAPE_LABELS } from '../src/io/scenarios/shapes.js';
 import { runEvaluation } from '../src/learn/evaluate.js';
 import { randomDiagrams, report, time } from './harness.js';
 

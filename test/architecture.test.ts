@@ -8,7 +8,7 @@ import { describe, expect, it } from 'vitest';
  * stage reaches up for a type. The order is the one DEVELOPERS.md draws (common practice, no source: a
  * layered architecture with downward dependencies only).
  */
-const FLOORS = ['core', 'io', 'homology', 'landscape', 'features', 'learn', 'report', 'cli'] as const;
+const FLOORS = ['core', 'io', 'homology', 'landscape', 'features', 'learn', 'report', 'demo', 'cli'] as const;
 
 const SRC = resolve(__dirname, '../src');
 

@@ -63,7 +63,6 @@ export {
   formatSignalCsv,
   formatTableCsv,
 } from './sample-writers.js';
-export { datasetFiles, datasetsReadme, SCENARIOS, type Scenario, scenarioNamed } from './scenarios/index.js';
 export {
   fnv1a32,
   formatShard,

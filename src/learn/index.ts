@@ -15,6 +15,7 @@ export {
   type UnitRunner,
   withFixed,
 } from './evaluate.js';
+export { bestResult, type DiscriminativeMaps, discriminativeMaps } from './explain.js';
 export {
   checkFoldable,
   classCounts,
@@ -30,6 +31,15 @@ export {
   type ForestTrees,
   featuresPerSplit,
 } from './forest.js';
+export {
+  combinePairWeights,
+  type FeatureGroup,
+  type GroupImportance,
+  groupsByDegreeLayer,
+  permutationImportance,
+  type WeightCurve,
+  weightCurves,
+} from './importance.js';
 export {
   accuracy,
   argmaxRows,

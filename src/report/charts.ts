@@ -1,5 +1,6 @@
 import type { TopLevelSpec } from 'vega-lite';
 import { asChannel, type Channel, type Diagram } from '../core/diagram.js';
+import type { WeightCurve } from '../learn/importance.js';
 import type { SampledBand } from './bands.js';
 import {
   CATEGORY_COLOURS,
@@ -11,6 +12,8 @@ import {
   SEQUENTIAL_RAMP,
 } from './palette.js';
 import { findActiveContent } from './svg-check.js';
+
+export type { WeightCurve };
 
 /**
  * The report's charts: each is a vega-lite spec built from plain data, compiled to vega and rendered to an
@@ -309,15 +312,6 @@ export function meanBandChart(
       ],
     },
   } as ChartSpec;
-}
-
-export interface WeightCurve {
-  degree: number;
-  /** The filtration of the curve's channel, when samples were filtered several ways. */
-  filtration?: string;
-  layer: number;
-  t: ArrayLike<number>;
-  value: ArrayLike<number>;
 }
 
 /** A discriminative map for one degree: signed curves on the landscape's own axis, one per layer. */

@@ -1,4 +1,5 @@
 import { type Channel, channelName, type Diagram } from '../core/diagram.js';
+import type { DiscriminativeMaps } from '../learn/explain.js';
 import type { SampledBand } from './bands.js';
 import {
   type AccuracyRow,
@@ -6,11 +7,9 @@ import {
   confusionChart,
   DEGREE_COLOURS,
   diagramChart,
-  type ImportanceRow,
   importanceChart,
   meanBandChart,
   renderSvg,
-  type WeightCurve,
   weightMapChart,
 } from './charts.js';
 import { FONT_STACK, INK, MONO_STACK, MUTED_INK, RULE } from './palette.js';
@@ -56,11 +55,7 @@ export interface DatasetReport {
   contrasts: readonly ContrastTest[];
   /** Contrast settings for the caption. */
   contrastNote?: string;
-  maps?: {
-    /** Linear weights on the landscape axis (degree, layer, t), when a linear model was fitted. */
-    weights?: { curves: readonly WeightCurve[]; note: string };
-    importance?: { rows: readonly ImportanceRow[]; note: string };
-  };
+  maps?: DiscriminativeMaps;
   /** One sample per class; with several filtrations, its diagrams under the first one (named in `filtration`). */
   examples: ReadonlyArray<{
     label: string;

@@ -1,4 +1,5 @@
-/** Readable features: class means with bands, permutation tests, discriminative maps, the HTML report, the demo study. */
+/** Readable features: class means with bands, permutation tests, findings, the layout of a dataset's part and the HTML report. */
+
 export {
   type BandOptions,
   bandCovers,
@@ -14,16 +15,16 @@ export {
   contrastJson,
   contrastText,
 } from './contrast.js';
+export { findingsOf } from './findings.js';
 export { holmAdjust, holmRejects } from './holm.js';
 export { CAUTION_TEXT, type DatasetReport, escapeHtml, type ReportInput, renderReport } from './html.js';
 export {
-  combinePairWeights,
-  type FeatureGroup,
-  type GroupImportance,
-  groupsByDegreeLayer,
-  permutationImportance,
-  weightCurves,
-} from './importance.js';
+  buildDatasetReport,
+  DEFAULT_REPORT_OPTIONS,
+  evaluationReportHtml,
+  type ReportOptions,
+  type ReportPieces,
+} from './layout.js';
 export {
   type ClassMean,
   type ClassMeansOptions,
@@ -48,14 +49,4 @@ export {
   stackLandscapes,
   stackMean,
 } from './stack.js';
-export {
-  buildDatasetReport,
-  DEMO_DATASETS,
-  type DemoDataset,
-  type DemoOptions,
-  type DemoResult,
-  findingsOf,
-  type ReportOptions,
-  runDemo,
-} from './study.js';
 export { findActiveContent } from './svg-check.js';

@@ -6,7 +6,7 @@ import { writeShapes } from './shapes-fixture.js';
 
 // The report renderer, broken on purpose: whatever fails while the report is made must not cost the
 // cross-validation already done.
-vi.mock('../../src/report/study.js', () => ({
+vi.mock('../../src/report/layout.js', () => ({
   evaluationReportHtml: async () => {
     throw new Error('renderer broke');
   },

@@ -3,6 +3,7 @@ import type { Diagram, DiagramSet } from '../../src/core/diagram.js';
 import type { Matrix } from '../../src/core/matrix.js';
 import { Random } from '../../src/core/random.js';
 import { classesOf } from '../../src/core/sample.js';
+import { generateRings } from '../../src/demo/scenarios/rings.js';
 import { LandscapeVectorizer } from '../../src/features/landscape-vectorizer.js';
 import { RawFeatures } from '../../src/features/raw-features.js';
 import {
@@ -18,7 +19,6 @@ import {
 import { complexPersistence } from '../../src/homology/filtered-complex.js';
 import { pairwiseDistances } from '../../src/homology/metric.js';
 import { ripsPersistence } from '../../src/homology/rips.js';
-import { generateRings } from '../../src/io/scenarios/rings.js';
 import { encodeLabels, stratifiedFolds } from '../../src/learn/folds.js';
 
 function rows(d: Diagram): Array<[number, number]> {

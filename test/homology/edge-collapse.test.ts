@@ -1,12 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import type { Diagram } from '../../src/core/diagram.js';
 import { Random } from '../../src/core/random.js';
+import { drawSphere } from '../../src/demo/scenarios/shapes.js';
 import { collapseEdges, collapseFiltration } from '../../src/homology/edge-collapse.js';
 import { pairwiseDistances } from '../../src/homology/metric.js';
 import { NO_EDGE, tableEdges } from '../../src/homology/neighbour-lists.js';
 import { ripsPersistence } from '../../src/homology/rips.js';
 import { UnionFind } from '../../src/homology/union-find.js';
-import { drawSphere } from '../../src/io/scenarios/shapes.js';
 
 /** A dense rank table of n vertices with the given edges at the given ranks (NO_EDGE elsewhere). */
 function table(n: number, edges: Array<[number, number, number]>): Int32Array {

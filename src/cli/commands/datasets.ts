@@ -21,7 +21,7 @@ export function defineDatasets(program: Command): Command {
     .action(async (options: DatasetsOptions) => {
       const { join } = await import('node:path');
       const { parseListOption } = await import('../options.js');
-      const { SCENARIOS, datasetsReadme } = await import('../../io/scenarios/index.js');
+      const { SCENARIOS, datasetsReadme } = await import('../../demo/scenarios/index.js');
       const { writeFilesAtomic } = await import('../../io/atomic.js');
       const names = SCENARIOS.map((s) => s.name);
       const chosen = options.only === undefined ? names : parseListOption(options.only, '--only', names);

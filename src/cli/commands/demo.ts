@@ -46,7 +46,7 @@ export function defineDemo(program: Command): Command {
         addsFiles: true,
       });
       const started = performance.now();
-      const { runDemo, accuracyTable } = await import('../../report/study.js');
+      const { runDemo, accuracyTable } = await import('../../demo/study.js');
       const bar = await startProgress('demo', 100, quiet);
       let result: Awaited<ReturnType<typeof runDemo>>;
       try {

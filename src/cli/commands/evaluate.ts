@@ -433,7 +433,7 @@ Example:
         });
         await writeEvaluation(o.out, result, o.report, async () => {
           progress.update('report', 0, 1);
-          const { evaluationReportHtml } = await import('../../report/study.js');
+          const { evaluationReportHtml } = await import('../../report/layout.js');
           const html = await evaluationReportHtml(input, study.dataset, result, study.options.landscape);
           progress.update('report', 1, 1);
           return html;

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../../src/core/random.js';
-import { drawShape, drawSphere } from '../../../src/io/scenarios/shapes.js';
+import { drawShape, drawSphere } from '../../../src/demo/scenarios/shapes.js';
 
 describe('drawSphere', () => {
   it('puts points near the unit sphere, spread over it, the same for the same seed', () => {

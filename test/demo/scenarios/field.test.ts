@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { FIELD_CLASSES, generateField } from '../../../src/io/scenarios/field.js';
+import { FIELD_CLASSES, generateField } from '../../../src/demo/scenarios/field.js';
 import { sameSamples } from './same-samples.js';
 
 /**

@@ -3,7 +3,7 @@ import { Random } from '../../src/core/random.js';
 import type { Dataset, PointSample } from '../../src/core/sample.js';
 import { computeDiagrams } from '../../src/homology/compute.js';
 import { runEvaluation } from '../../src/learn/evaluate.js';
-import { accuracyTable, buildDatasetReport, demoMetricsJson, findingsOf } from '../../src/report/study.js';
+import { buildDatasetReport } from '../../src/report/layout.js';
 
 /** Noisy circles (one loop) against filled discs (no loop) of the same size, made here with a seeded generator. */
 function rings(): Dataset<PointSample> {
@@ -72,62 +72,3 @@ describe('buildDatasetReport', () => {
     expect(report.findings?.some((f) => /contrasts show different mean landscapes/.test(f))).toBe(true);
   }, 60_000);
 });
-
-describe('findingsOf', () => {
-  const summary = (mean: number, std: number) => ({ mean, std, values: [] as number[] });
-  const result = (features: string, mean: number, std = 0.05) =>
-    ({
-      features,
-      model: 'pca-svm',
-      accuracy: summary(mean, std),
-      balancedAccuracy: summary(mean, std),
-      macroF1: summary(mean, std),
-      folds: [],
-    }) as never;
-  const evaluation = (land: number, raw: number) =>
-    ({ results: [result('landscape', land), result('raw', raw)] }) as never;
-  it('says plainly when the raw baseline wins and when shape clearly helps', () => {
-    expect(findingsOf(evaluation(0.6, 0.8), [])[0]).toMatch(/^The raw baseline wins on this set/);
-    expect(findingsOf(evaluation(0.95, 0.6), [])[0]).toMatch(/^Shape helps here/);
-    expect(findingsOf(evaluation(0.81, 0.8), [])[0]).toMatch(/^No gain from shape/);
-  });
-  it('speaks of the best feature set built from diagrams, whichever vectoriser it is', () => {
-    const mixed = {
-      results: [result('landscape', 0.7), result('betti', 0.9), result('stats', 0.8), result('raw', 0.6)],
-    } as never;
-    expect(findingsOf(mixed, [])[0]).toMatch(/^Shape helps here: Betti-curve features \(pca-svm\) reach 90%/);
-    const only = { results: [result('stats', 0.75)] } as never;
-    expect(findingsOf(only, [])[0]).toBe('Persistence statistics (pca-svm) reach 75% ± 5%.');
-  });
-});
-
-describe('demoMetricsJson and accuracyTable', () => {
-  it('keep one entry per dataset holding the evaluate layout', () => {
-    const outcome = {
-      spec: { name: 'set-a', path: 'datasets/a.csv' },
-      evaluation: { results: [result2('landscape', 0.9), result2('raw', 0.5)] },
-      pieces: {
-        contrasts: [
-          { a: 'x', b: 'y', degree: 1, statistic: 0.123456789, p: 0.001, pAdjusted: 0.003, sizes: [5, 5] },
-        ],
-      },
-    } as never;
-    const json = JSON.parse(demoMetricsJson([outcome], 7, true, () => '{"classes":["x","y"]}')) as {
-      seed: number;
-      datasets: Array<{ name: string; metrics: unknown; contrasts: Array<{ statistic: number }> }>;
-    };
-    expect(json.seed).toBe(7);
-    expect(json.datasets[0].name).toBe('set-a');
-    expect(json.datasets[0].metrics).toEqual({ classes: ['x', 'y'] });
-    expect(json.datasets[0].contrasts[0].statistic).toBe(0.123457);
-    const table = accuracyTable([outcome]).split('\n');
-    expect(table[0]).toMatch(
-      /^dataset\s+landscape \(best model\)\s+raw \(best model\)\s+combined \(best model\)$/,
-    );
-    expect(table[1]).toMatch(/^set-a\s+0\.90 ± 0\.05 pca-svm\s+0\.50 ± 0\.05 pca-svm\s+—$/);
-  });
-});
-
-function result2(features: string, mean: number) {
-  return { features, model: 'pca-svm', accuracy: { mean, std: 0.05 } };
-}

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { generatePump, PUMP_CLASSES } from '../../../src/io/scenarios/pump.js';
+import { generatePump, PUMP_CLASSES } from '../../../src/demo/scenarios/pump.js';
 import { sameSamples } from './same-samples.js';
 
 /** Power of the discrete Fourier transform at frequency bins 1 … n/2. */

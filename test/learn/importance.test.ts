@@ -6,7 +6,7 @@ import {
   groupsByDegreeLayer,
   permutationImportance,
   weightCurves,
-} from '../../src/report/importance.js';
+} from '../../src/learn/importance.js';
 
 const locations = [
   { degree: 1, layer: 1, t: 0.5 },

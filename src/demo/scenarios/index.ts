@@ -1,7 +1,10 @@
 import { join } from 'node:path';
 import type { Sample, SampleKind } from '../../core/sample.js';
-import { formatPgm } from '../image-file.js';
-import { formatLabelsCsv, formatPointsCsv, formatSignalCsv } from '../sample-writers.js';
+import type { LandscapeVectorizerOptions } from '../../features/landscape-vectorizer.js';
+import type { RawFeaturesOptions } from '../../features/raw-features.js';
+import type { DiagramOptions } from '../../homology/compute.js';
+import { formatPgm } from '../../io/image-file.js';
+import { formatLabelsCsv, formatPointsCsv, formatSignalCsv } from '../../io/sample-writers.js';
 import { FIELD_CLASSES, generateField } from './field.js';
 import { generateLattice, LATTICE_CLASSES } from './lattice.js';
 import { generatePump, PUMP_CLASSES } from './pump.js';
@@ -12,8 +15,10 @@ export type { PumpOptions } from './pump.js';
 export { FIELD_CLASSES, generateField, generateLattice, generatePump, LATTICE_CLASSES, PUMP_CLASSES };
 
 /**
- * The shipped demo datasets: each a scenario of our own, made by a seeded generator. `landform datasets`
- * writes every one of them (and `datasets/README.md`) byte for byte from these seeds.
+ * The one catalogue of the shipped demo datasets: each a scenario of our own, made by a seeded generator.
+ * `landform datasets` writes every one of them (and `datasets/README.md`) byte for byte from these seeds;
+ * `landform demo` runs the study below on each and describes it in the report with the same `summary` and
+ * `advice`, so the README, the report and the generator cannot tell different stories.
  */
 export interface Scenario {
   name: string;
@@ -29,6 +34,17 @@ export interface Scenario {
   samples(): Sample[];
   /** The files of the dataset, relative to the datasets folder. */
   files(): Array<{ path: string; data: string | Uint8Array }>;
+  /** The options the demo study uses on this dataset. */
+  study: ScenarioStudy;
+}
+
+/** How the demo studies one scenario: the pipeline that its `advice` describes, as options. */
+export interface ScenarioStudy {
+  diagram: DiagramOptions;
+  landscape: LandscapeVectorizerOptions;
+  /** The (K, G) candidates of the inner cross-validation for this set. */
+  landscapeCandidates: ReadonlyArray<{ depth: number; gridSize: number }>;
+  raw?: RawFeaturesOptions;
 }
 
 export const SCENARIOS: readonly Scenario[] = [
@@ -44,6 +60,13 @@ export const SCENARIOS: readonly Scenario[] = [
       'Vietoris–Rips on the points, degrees 0 and 1; the classes differ in the number and size of H1 loops (4 cells, 3 and a short-lived one, 1 twice as wide).',
     samples: () => generateLattice(4101),
     files: () => [{ path: 'lattice.csv', data: formatPointsCsv(generateLattice(4101)) }],
+    study: {
+      diagram: { degrees: [0, 1] },
+      // The classes differ in H1 only (4, 3 or 1 loops). H0 would add 150+ short bars of point spacing and
+      // stray points, i.e. noise features. Depth 6 keeps every cell's loop plus short loops of stray points.
+      landscape: { degrees: [1] },
+      landscapeCandidates: [{ depth: 6, gridSize: 20 }],
+    },
   },
   {
     name: 'pump',
@@ -57,6 +80,12 @@ export const SCENARIOS: readonly Scenario[] = [
       'Delay embedding of dimension 4 with delay 8 (a quarter revolution), stride 2 to thin the points; degrees 0 and 1. A healthy run traces one loop, a misaligned run a torus.',
     samples: () => generatePump(4102),
     files: () => [{ path: 'pump.csv', data: formatSignalCsv(generatePump(4102), 'long') }],
+    study: {
+      diagram: { degrees: [0, 1], embed: { dimension: 4, delay: 8, stride: 2 } },
+      landscape: { degrees: [0, 1] },
+      landscapeCandidates: [{ depth: 3, gridSize: 20 }],
+      raw: { signalLength: 64 },
+    },
   },
   {
     name: 'field',
@@ -84,6 +113,12 @@ export const SCENARIOS: readonly Scenario[] = [
       });
       return files;
     },
+    study: {
+      diagram: { degrees: [0, 1], superlevel: true },
+      landscape: { degrees: [0, 1] },
+      landscapeCandidates: [{ depth: 3, gridSize: 15 }],
+      raw: { imageSize: 10 },
+    },
   },
 ];
 
@@ -96,7 +131,7 @@ export function datasetsReadme(): string {
   const lines = [
     '# Demo datasets',
     '',
-    'Every dataset here is **synthetic**: made by a seeded generator in `src/io/scenarios/` from a scenario we',
+    'Every dataset here is **synthetic**: made by a seeded generator in `src/demo/scenarios/` from a scenario we',
     'invented. None of it is measured data. `npm run datasets` (or `landform datasets --out datasets`) writes',
     'all of them again, byte for byte. They are for trying landform out, not for drawing conclusions: a',
     'cross-validated accuracy on them says nothing about real lattices, pumps or sensors.',

@@ -1,7 +1,7 @@
 import { channelName } from '../core/diagram.js';
 import type { Matrix } from '../core/matrix.js';
 import { Random } from '../core/random.js';
-import type { WeightCurve } from './charts.js';
+import type { FeatureLocation } from '../features/landscape-vectorizer.js';
 
 /**
  * Discriminative maps: where along the landscape a model looks.
@@ -13,13 +13,14 @@ import type { WeightCurve } from './charts.js';
  *   (one degree and layer) are shuffled together across samples (Breiman, "Random forests", 2001, section 10;
  *   model-agnostic form in Fisher, Rudin and Dominici, "All models are wrong, but many are useful", 2019).
  */
-export interface FeatureLocation {
+/** A linear model's weights along one (channel, layer) of the landscape axis. */
+export interface WeightCurve {
   degree: number;
-  /** The filtration of the feature's channel, when samples were filtered several ways. */
+  /** The filtration of the curve's channel, when samples were filtered several ways. */
   filtration?: string;
-  /** 1-based layer. */
   layer: number;
-  t: number;
+  t: ArrayLike<number>;
+  value: ArrayLike<number>;
 }
 
 /**

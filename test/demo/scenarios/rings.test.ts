@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { generateRings, RINGS_CLASSES } from '../../../src/io/scenarios/rings.js';
+import { generateRings, RINGS_CLASSES } from '../../../src/demo/scenarios/rings.js';
 
 describe('gasket-press scenario (invented demo data)', () => {
   it('is reproducible from its seed and balanced over five classes', () => {

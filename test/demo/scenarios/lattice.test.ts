@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { Random } from '../../../src/core/random.js';
-import { generateLattice, LATTICE_CLASSES, panelStruts } from '../../../src/io/scenarios/lattice.js';
+import { generateLattice, LATTICE_CLASSES, panelStruts } from '../../../src/demo/scenarios/lattice.js';
 import { sameSamples } from './same-samples.js';
 
 /** First Betti number of the graph the strut pieces form: edges − vertices + components. */
