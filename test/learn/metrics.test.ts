@@ -96,9 +96,14 @@ describe('scoreLabels (predict on labelled samples), worked by hand from the def
   });
 
   it('prints the matrix with the class names, columns aligned', () => {
-    expect(formatConfusionText(['a', 'bb'], [
-      [10, 0],
-      [2, 7],
-    ])).toEqual(['true \\ predicted   a  bb', 'a                 10   0', 'bb                 2   7']);
+    expect(
+      formatConfusionText(
+        ['a', 'bb'],
+        [
+          [10, 0],
+          [2, 7],
+        ],
+      ),
+    ).toEqual(['true \\ predicted   a  bb', 'a                 10   0', 'bb                 2   7']);
   });
 });
