@@ -13,6 +13,7 @@ import {
   type WeightCurve,
   weightMapChart,
 } from './charts.js';
+import { type PairedRow, pairedTableHtml } from './paired.js';
 import { FONT_STACK, INK, MONO_STACK, MUTED_INK, RULE } from './palette.js';
 import type { ContrastTest } from './permutation.js';
 
@@ -40,6 +41,8 @@ export interface DatasetReport {
   /** The options of the analysis, as shown to the reader. */
   options: Record<string, unknown>;
   accuracy: ReadonlyArray<AccuracyRow & { balancedAccuracy?: number; macroF1?: number }>;
+  /** Paired differences against the raw baseline on the same outer folds (shown under the accuracy chart). */
+  paired?: readonly PairedRow[];
   confusions: ReadonlyArray<{
     features: string;
     model: string;
@@ -184,7 +187,8 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
         'Accuracy of every feature set and model',
         `Outer cross-validation folds: the dot is the mean accuracy, the bar ± one standard deviation over folds; the dashed line is chance (${fixed(chance, 2)}). Raw-feature baselines sit beside the landscape features so the gain (or its absence) is visible.`,
         figure(svg, 'Cross-validated accuracy by feature set and model.', 'accuracy') +
-          `<table class="grid"><tr><th>features</th><th>model</th><th class="num">accuracy (mean ± sd)</th><th class="num">balanced accuracy</th><th class="num">macro F1</th></tr>${rows}</table>`,
+          `<table class="grid"><tr><th>features</th><th>model</th><th class="num">accuracy (mean ± sd)</th><th class="num">balanced accuracy</th><th class="num">macro F1</th></tr>${rows}</table>` +
+          pairedTableHtml(ds.paired ?? []),
       ),
     );
   }
