@@ -412,9 +412,10 @@ landscape depth and grid size (--depths × --grid-sizes); nothing is learned fro
 The defaults keep the search small (3 inner folds, 4 landscape candidates, tried first with the model's
 default hyperparameters, then each model candidate with the best landscape): F + M − 1 inner runs per fold.
 
-The folder is written as a whole: metrics.json first (so a failing report loses no work), then
-report.html; files of an earlier run in it are replaced, and a folder landform did not make is refused
-unless --force.
+The folder is written as a whole: metrics.json (with per-fold scores and, per model, each feature set's
+paired difference against raw with a corrected resampled t interval), predictions.csv (out-of-fold
+predictions) and folds.csv first (so a failing report loses no work), then report.html; files of an earlier
+run in it are replaced, and a folder landform did not make is refused unless --force.
 
 Cross-validated accuracy is an estimate: validate on independent data before it feeds a decision.
 
