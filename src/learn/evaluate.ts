@@ -28,6 +28,7 @@ import {
   type Summary,
   summarize,
 } from './metrics.js';
+import { correctedResampledInterval, PAIRED_LEVEL, PAIRED_METHOD, type PairedComparison } from './paired.js';
 import {
   DEFAULT_LANDSCAPE_CANDIDATES,
   derivedSeed,
@@ -248,6 +249,7 @@ export async function fitUnit(
       test: f.test,
       predicted,
       scores,
+      correct: confusion.reduce((sum, row, k) => sum + row[k], 0),
       accuracy: accuracy(confusion),
       balancedAccuracy: balancedAccuracy(confusion),
       macroF1: macroF1(confusion),
@@ -322,6 +324,8 @@ export interface FoldOutcome {
   predicted: Int32Array;
   /** Class probabilities of each held-out sample (rows follow `test`). */
   scores: Matrix;
+  /** Held-out samples predicted as their own class (the fold's confusion diagonal). */
+  correct: number;
   accuracy: number;
   balancedAccuracy: number;
   macroF1: number;
@@ -361,6 +365,11 @@ export interface EvaluationResult {
   options: Record<string, unknown>;
   version: string;
   results: StudyResult[];
+  /**
+   * Per model, every other feature set against the raw baseline on the same outer folds (empty when the
+   * study has no `raw` set): see paired.ts.
+   */
+  paired: PairedComparison[];
   /** Sample ids and class indices, in dataset order. */
   sampleIds: string[];
   labels: Int32Array;
@@ -601,6 +610,8 @@ export async function runEvaluation(
     }
   }
 
+  const paired = pairedComparisons(results, outer);
+
   const recorded: Record<string, unknown> = {
     features: featureSets,
     models,
@@ -622,10 +633,63 @@ export async function runEvaluation(
     options: recorded,
     version: version(),
     results,
+    paired,
     sampleIds: dataset.samples.map((s) => s.id),
     labels: y,
     ...(diagrams ? { diagrams } : {}),
   };
+}
+
+/** The feature set every other one is compared with, fold by fold. */
+export const PAIRED_BASELINE: FeatureSetName = 'raw';
+
+/**
+ * For each model, each feature set other than the raw baseline against the baseline on the same outer folds:
+ * differences of the fold accuracies (fold order of the study), their mean and the corrected resampled t
+ * interval with n_test/n_train = Σ test rows / Σ training rows over the folds (1/(k − 1) for k-fold CV).
+ */
+export function pairedComparisons(
+  results: readonly StudyResult[],
+  outer: readonly Fold[],
+  level = PAIRED_LEVEL,
+): PairedComparison[] {
+  let test = 0;
+  let train = 0;
+  for (const f of outer) {
+    test += f.test.length;
+    train += f.train.length;
+  }
+  const ratio = test / train;
+  const out: PairedComparison[] = [];
+  for (const base of results) {
+    if (base.features !== PAIRED_BASELINE) continue;
+    for (const r of results) {
+      if (r.model !== base.model || r.features === PAIRED_BASELINE) continue;
+      if (r.folds.length !== base.folds.length || r.folds.length < 2) continue;
+      const differences = r.folds.map((f, j) => {
+        const b = base.folds[j];
+        if (b.repeat !== f.repeat || b.fold !== f.fold)
+          throw new Error('pairedComparisons: the two results list their folds in different orders');
+        return f.accuracy - b.accuracy;
+      });
+      const interval = correctedResampledInterval(differences, ratio, level);
+      out.push({
+        features: r.features,
+        baseline: base.features,
+        model: r.model,
+        pairs: differences.length,
+        differences,
+        mean: interval.mean,
+        std: interval.std,
+        testTrainRatio: ratio,
+        lower: interval.lower,
+        upper: interval.upper,
+        level,
+        method: PAIRED_METHOD,
+      });
+    }
+  }
+  return out;
 }
 
 /** The options of the `betti`, `stats` and `pimage` vectorisers in the study, by set name. */
@@ -751,6 +815,27 @@ function roundSummary(s: Summary): { mean: number | null; std: number | null } {
   return { mean: roundMetric(s.mean), std: roundMetric(s.std) };
 }
 
+/** One outer fold's scores as metrics.json and folds.csv give them (repeat and fold numbered from 1). */
+export function foldScore(o: FoldOutcome): {
+  repeat: number;
+  fold: number;
+  samples: number;
+  correct: number;
+  accuracy: number | null;
+  balancedAccuracy: number | null;
+  macroF1: number | null;
+} {
+  return {
+    repeat: o.repeat + 1,
+    fold: o.fold + 1,
+    samples: o.test.length,
+    correct: o.correct,
+    accuracy: roundMetric(o.accuracy),
+    balancedAccuracy: roundMetric(o.balancedAccuracy),
+    macroF1: roundMetric(o.macroF1),
+  };
+}
+
 /**
  * The metrics.json text (a contract other tools read): fixed key order, metrics rounded to 6 decimals, no
  * timestamps, so the same seed gives the same bytes.
@@ -771,6 +856,19 @@ export function formatMetricsJson(result: EvaluationResult): string {
       macroF1: roundSummary(r.macroF1),
       confusion: r.confusion,
       chosen: r.chosen,
+      foldScores: r.folds.map(foldScore),
+    })),
+    paired: result.paired.map((p) => ({
+      features: p.features,
+      baseline: p.baseline,
+      model: p.model,
+      pairs: p.pairs,
+      differences: p.differences.map(roundMetric),
+      mean: roundMetric(p.mean),
+      std: roundMetric(p.std),
+      interval: { lower: roundMetric(p.lower), upper: roundMetric(p.upper), level: p.level },
+      testTrainRatio: roundMetric(p.testTrainRatio),
+      method: p.method,
     })),
   };
   return JSON.stringify(doc, null, 2) + '\n';

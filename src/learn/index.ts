@@ -6,8 +6,11 @@ export {
   type EvaluationOptions,
   type EvaluationResult,
   type FoldOutcome,
+  foldScore,
   formatMetricsJson,
   type LinearWeights,
+  PAIRED_BASELINE,
+  pairedComparisons,
   runEvaluation,
   type StudyPhase,
   type StudyResult,
@@ -46,9 +49,13 @@ export {
   balancedAccuracy,
   type Confusion,
   confusionMatrix,
+  formatConfusionText,
+  type LabelledScores,
   macroF1,
   type Summary,
+  scoreLabels,
   summarize,
+  type UnknownLabel,
 } from './metrics.js';
 export {
   loadClassifierFolder,
@@ -59,6 +66,17 @@ export {
   saveModelFolder,
 } from './model-folder.js';
 export { candidateHyperparameters, classifierFromJSON, createClassifier } from './models.js';
+export {
+  type CorrectedInterval,
+  correctedResampledInterval,
+  incompleteBeta,
+  logGamma,
+  PAIRED_LEVEL,
+  PAIRED_METHOD,
+  type PairedComparison,
+  studentTCdf,
+  studentTQuantile,
+} from './paired.js';
 export { learningWorkers } from './parallel.js';
 export { Pca, type PcaOptions, type PcaState } from './pca.js';
 export { PcaSvmClassifier } from './pca-svm.js';
@@ -72,4 +90,10 @@ export {
   type SelectionOptions,
   selectHyperparameters,
 } from './select.js';
+export {
+  FOLDS_FILE,
+  formatFoldsCsv,
+  formatStudyPredictionsCsv,
+  PREDICTIONS_FILE,
+} from './study-files.js';
 export { type SvmKernel, SvmModel, type SvmOptions, type SvmState } from './svm.js';

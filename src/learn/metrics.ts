@@ -1,3 +1,5 @@
+import { shown } from '../core/text.js';
+
 /**
  * Classification metrics from a confusion matrix whose rows are the true classes and columns the predicted
  * ones: accuracy, balanced accuracy (mean recall over the classes present) and macro-F1 (mean of the per-class
@@ -105,4 +107,102 @@ export function argmaxRows(scores: { rows: number; cols: number; data: Float64Ar
     out[i] = best;
   }
   return out;
+}
+
+/** A label met among the samples that is none of the model's classes, with what those samples got. */
+export interface UnknownLabel {
+  label: string;
+  count: number;
+  /** How many of them were predicted as each class (columns in `classes` order). */
+  predicted: number[];
+}
+
+/** Predictions scored against the samples' own labels (`landform predict` on labelled samples). */
+export interface LabelledScores {
+  classes: string[];
+  /** Samples whose label is one of `classes`: the ones scored. */
+  scored: number;
+  /** Scored samples whose prediction equals their label (the confusion matrix's diagonal). */
+  correct: number;
+  /** correct / scored; NaN when nothing was scored. */
+  accuracy: number;
+  balancedAccuracy: number;
+  macroF1: number;
+  /** Rows true class, columns predicted class, both in `classes` order; sums to `scored`. */
+  confusion: Confusion;
+  /** Labels that are none of the classes (sorted), not scored. */
+  unknown: UnknownLabel[];
+  /** Samples with an empty label (samples to predict), not scored. */
+  unlabelled: number;
+}
+
+/**
+ * Scores predicted labels against the samples' labels: a sample counts when its label is one of `classes`;
+ * an empty label is a sample to predict (counted in `unlabelled`); any other label is counted under
+ * `unknown`. `predicted[i]` must be one of `classes`.
+ */
+export function scoreLabels(
+  labels: readonly string[],
+  predicted: readonly string[],
+  classes: readonly string[],
+): LabelledScores {
+  if (labels.length !== predicted.length)
+    throw new Error(`scoreLabels: ${labels.length} labels vs ${predicted.length} predictions`);
+  const index = new Map(classes.map((c, i) => [c, i]));
+  const k = classes.length;
+  const confusion: Confusion = Array.from({ length: k }, () => new Array<number>(k).fill(0));
+  const unknown = new Map<string, UnknownLabel>();
+  let unlabelled = 0;
+  let scored = 0;
+  for (let i = 0; i < labels.length; i++) {
+    const p = index.get(predicted[i]);
+    if (p === undefined) throw new Error(`scoreLabels: '${predicted[i]}' is not a class`);
+    if (labels[i] === '') {
+      unlabelled++;
+      continue;
+    }
+    const t = index.get(labels[i]);
+    if (t === undefined) {
+      let u = unknown.get(labels[i]);
+      if (!u) {
+        u = { label: labels[i], count: 0, predicted: new Array<number>(k).fill(0) };
+        unknown.set(labels[i], u);
+      }
+      u.count++;
+      u.predicted[p]++;
+      continue;
+    }
+    confusion[t][p]++;
+    scored++;
+  }
+  let correct = 0;
+  for (let i = 0; i < k; i++) correct += confusion[i][i];
+  return {
+    classes: [...classes],
+    scored,
+    correct,
+    accuracy: accuracy(confusion),
+    balancedAccuracy: balancedAccuracy(confusion),
+    macroF1: macroF1(confusion),
+    confusion,
+    unknown: [...unknown.values()].sort((a, b) => (a.label < b.label ? -1 : a.label > b.label ? 1 : 0)),
+    unlabelled,
+  };
+}
+
+/**
+ * A confusion matrix as aligned text lines (rows true, columns predicted, with the class names), for a
+ * terminal: a header line `true \ predicted`, then one line per class.
+ */
+export function formatConfusionText(names: readonly string[], confusion: Confusion): string[] {
+  const classes = names.map(shown);
+  const corner = 'true \\ predicted';
+  const first = Math.max(corner.length, ...classes.map((c) => c.length));
+  const widths = classes.map((c, j) => Math.max(c.length, ...confusion.map((r) => String(r[j]).length)));
+  const lines = [[corner.padEnd(first), ...classes.map((c, j) => c.padStart(widths[j]))].join('  ')];
+  for (let i = 0; i < classes.length; i++) {
+    const cells = confusion[i].map((v, j) => String(v).padStart(widths[j]));
+    lines.push([classes[i].padEnd(first), ...cells].join('  '));
+  }
+  return lines.map((l) => l.trimEnd());
 }

@@ -12,8 +12,12 @@ import {
   renderSvg,
   weightMapChart,
 } from './charts.js';
+import { escapeHtml } from './escape.js';
+import { type PairedRow, pairedTableHtml } from './paired.js';
 import { FONT_STACK, INK, MONO_STACK, MUTED_INK, RULE } from './palette.js';
 import type { ContrastTest } from './permutation.js';
+
+export { escapeHtml };
 
 /**
  * The self-contained HTML report: one page, inline CSS, inline SVG charts, no scripts, no fonts or images
@@ -39,6 +43,8 @@ export interface DatasetReport {
   /** The options of the analysis, as shown to the reader. */
   options: Record<string, unknown>;
   accuracy: ReadonlyArray<AccuracyRow & { balancedAccuracy?: number; macroF1?: number }>;
+  /** Paired differences against the raw baseline on the same outer folds (shown under the accuracy chart). */
+  paired?: readonly PairedRow[];
   confusions: ReadonlyArray<{
     features: string;
     model: string;
@@ -81,19 +87,6 @@ export const CAUTION_TEXT =
   'Cross-validated accuracy is an estimate from the samples at hand, not a guarantee: it can be optimistic when samples are not independent ' +
   '(repeated measurements of one part, one patient, one run). Before these results feed a clinical, safety or quality decision, validate on ' +
   'independent data collected for that purpose and defer to the standards of your field.';
-
-const ESCAPES: Record<string, string> = {
-  '&': '&amp;',
-  '<': '&lt;',
-  '>': '&gt;',
-  '"': '&quot;',
-  "'": '&#39;',
-};
-
-/** Escapes text for HTML element content and quoted attribute values. */
-export function escapeHtml(text: unknown): string {
-  return String(text).replace(/[&<>"']/g, (c) => ESCAPES[c]);
-}
 
 /** A safe fragment id from any text. */
 export function slug(text: string): string {
@@ -179,7 +172,8 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
         'Accuracy of every feature set and model',
         `Outer cross-validation folds: the dot is the mean accuracy, the bar ± one standard deviation over folds; the dashed line is chance (${fixed(chance, 2)}). Raw-feature baselines sit beside the landscape features so the gain (or its absence) is visible.`,
         figure(svg, 'Cross-validated accuracy by feature set and model.', 'accuracy') +
-          `<table class="grid"><tr><th>features</th><th>model</th><th class="num">accuracy (mean ± sd)</th><th class="num">balanced accuracy</th><th class="num">macro F1</th></tr>${rows}</table>`,
+          `<table class="grid"><tr><th>features</th><th>model</th><th class="num">accuracy (mean ± sd)</th><th class="num">balanced accuracy</th><th class="num">macro F1</th></tr>${rows}</table>` +
+          pairedTableHtml(ds.paired ?? []),
       ),
     );
   }

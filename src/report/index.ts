@@ -33,6 +33,7 @@ export {
   type DegreeMeans,
   sharedGrid,
 } from './means.js';
+export { type PairedRow, pairedTableHtml, signedDifference } from './paired.js';
 export {
   type ContrastTest,
   contrastAll,

@@ -186,6 +186,7 @@ export async function buildDatasetReport(
       balancedAccuracy: r.balancedAccuracy.mean,
       macroF1: r.macroF1.mean,
     })),
+    paired: evaluation.paired,
     confusions: evaluation.results.map((r) => ({
       features: r.features,
       model: r.model,

@@ -56,7 +56,14 @@ describe('landform evaluate when the report fails', () => {
     expect(stderr).toContain(
       `the report failed after ${join(out, 'metrics.json')} was written (rerun with --no-report to skip it): renderer broke`,
     );
-    expect(readdirSync(out).sort()).toEqual(['.landform-output.json', 'metrics.json']);
+    expect(readdirSync(out).sort()).toEqual([
+      '.landform-output.json',
+      'folds.csv',
+      'folds.csv.provenance.json',
+      'metrics.json',
+      'predictions.csv',
+      'predictions.csv.provenance.json',
+    ]);
     expect(JSON.parse(readFileSync(join(out, 'metrics.json'), 'utf8')).classes).toEqual(['disc', 'loop']);
     expect(readdirSync(dir).filter((n) => n.startsWith('.landform'))).toEqual([]);
   }, 120_000);

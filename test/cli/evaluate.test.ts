@@ -50,6 +50,7 @@ describe('landform evaluate', () => {
       'options',
       'version',
       'results',
+      'paired',
     ]);
     expect(doc.classes).toEqual(['disc', 'loop']);
     expect(doc.folds).toBe(3);
@@ -67,12 +68,46 @@ describe('landform evaluate', () => {
       'macroF1',
       'confusion',
       'chosen',
+      'foldScores',
     ]);
     expect(r0.confusion.flat().reduce((s: number, v: number) => s + v, 0)).toBe(12);
     expect(r0.chosen.perFold).toHaveLength(3);
     expect(r0.chosen.mostFrequent.depth).toBe(2);
     expect(r0.accuracy.mean).toBeGreaterThanOrEqual(0);
     expect(r0.accuracy.mean).toBeLessThanOrEqual(1);
+
+    // Beside metrics.json: out-of-fold predictions and per-fold scores, byte-identical for the same seed,
+    // each with a provenance sidecar; the paired landscape − raw difference in metrics.json, on stdout and
+    // under the report's accuracy chart.
+    for (const name of ['predictions.csv', 'folds.csv']) {
+      const text = readFileSync(join(dir, 'a', name), 'utf8');
+      expect(readFileSync(join(dir, 'b', name), 'utf8')).toBe(text);
+      const sidecar = JSON.parse(readFileSync(join(dir, 'a', `${name}.provenance.json`), 'utf8'));
+      expect(sidecar.command).toBe('evaluate');
+      expect(sidecar.seed).toBe(3);
+      expect(sidecar.options.features).toEqual(['landscape', 'raw']);
+    }
+    const predictions = readFileSync(join(dir, 'a', 'predictions.csv'), 'utf8')
+      .trim()
+      .split('\n');
+    expect(predictions[0]).toBe('sample,label,features,model,repeat,fold,predicted,score:disc,score:loop');
+    expect(predictions).toHaveLength(1 + 2 * 12);
+    const folds = readFileSync(join(dir, 'a', 'folds.csv'), 'utf8')
+      .trim()
+      .split('\n');
+    expect(folds).toHaveLength(1 + 2 * 3);
+    expect(doc.paired).toHaveLength(1);
+    const p = doc.paired[0];
+    expect([p.features, p.baseline, p.model, p.pairs]).toEqual(['landscape', 'raw', 'pca-svm', 3]);
+    expect(p.mean).toBeCloseTo(r0.accuracy.mean - doc.results[1].accuracy.mean, 5);
+    expect(p.interval.lower).toBeLessThanOrEqual(p.mean);
+    expect(p.interval.upper).toBeGreaterThanOrEqual(p.mean);
+    expect(a.stdout).toMatch(
+      /\nlandscape − raw +pca-svm +[+-]?\d\.\d{3} \[[+-]?\d\.\d{3}, [+-]?\d\.\d{3}\] {2}95% interval over 3 paired folds/,
+    );
+    const html = readFileSync(join(dir, 'a', 'report.html'), 'utf8');
+    expect(html).toContain('<tr data-paired="landscape/pca-svm"><td>landscape − raw</td><td>pca-svm</td>');
+    expect(html).toContain('corrected resampled t interval (Nadeau &amp; Bengio, 2003)');
   });
 
   it('refuses a class smaller than the folds in one line and writes nothing', () => {

@@ -74,7 +74,7 @@ describe('feature sets betti, stats, pimage and the forest model through the com
     expect(manifest.model).toBe('forest');
     expect(manifest.extractor.stats.kind).toBe('landform.persistence-statistics');
     const out = join(dir, 'predictions.csv');
-    const p = runCli(['predict', model, fresh, '--workers', '1', '--out', out]);
+    const p = runCli(['predict', model, fresh, '--workers', '1', '--quiet', '--out', out]);
     expect(p.stderr).toBe('');
     expect(p.code).toBe(0);
     const lines = readFileSync(out, 'utf8').trim().split('\n');
@@ -93,7 +93,7 @@ describe('feature sets betti, stats, pimage and the forest model through the com
       const t = runCli(['train', input, '--features', set, '--workers', '1', '--quiet', '--save', model]);
       expect(t.stderr).toBe('');
       expect(t.code).toBe(0);
-      const p = runCli(['predict', model, fresh, '--workers', '1']);
+      const p = runCli(['predict', model, fresh, '--workers', '1', '--quiet']);
       expect(p.stderr).toBe('');
       expect(p.code).toBe(0);
       expect(p.stdout.trim().split('\n')).toHaveLength(7);

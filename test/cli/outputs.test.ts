@@ -146,7 +146,15 @@ describe('outputs never destroy data', () => {
     const r = runCli(['evaluate', labelled, ...STUDY, '--out', out]);
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
-    expect(readdirSync(out).sort()).toEqual(['.landform-output.json', 'metrics.json', 'report.html']);
+    expect(readdirSync(out).sort()).toEqual([
+      '.landform-output.json',
+      'folds.csv',
+      'folds.csv.provenance.json',
+      'metrics.json',
+      'predictions.csv',
+      'predictions.csv.provenance.json',
+      'report.html',
+    ]);
     expect(JSON.parse(readFileSync(join(out, 'metrics.json'), 'utf8')).classes).toEqual([
       'batch one=7',
       'x onload=1',
@@ -156,9 +164,16 @@ describe('outputs never destroy data', () => {
     const n = runCli(['evaluate', labelled, ...STUDY, '--seed', '2', '--no-report', '--out', out]);
     expect(n.code).toBe(0);
     expect(n.stdout).toMatch(
-      /wrote .*metrics\.json \(cross-validated estimates; validate on independent data\)\n$/,
+      /wrote .*metrics\.json, predictions\.csv and folds\.csv beside it \(cross-validated estimates; validate on independent data\)\n$/,
     );
-    expect(readdirSync(out).sort()).toEqual(['.landform-output.json', 'metrics.json']);
+    expect(readdirSync(out).sort()).toEqual([
+      '.landform-output.json',
+      'folds.csv',
+      'folds.csv.provenance.json',
+      'metrics.json',
+      'predictions.csv',
+      'predictions.csv.provenance.json',
+    ]);
     expect(JSON.parse(readFileSync(join(out, 'metrics.json'), 'utf8')).seed).toBe(2);
   });
 

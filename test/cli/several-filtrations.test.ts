@@ -69,7 +69,18 @@ describe('several filtrations through evaluate, train, predict, contrast and lan
     const fresh = join(dir, 'fresh.csv');
     writeFileSync(fresh, digitTable(8, 4));
     const out = join(dir, 'predictions.csv');
-    const p = runCli(['predict', model, fresh, '--shape', '28x28', '--workers', '1', '--out', out]);
+    const p = runCli([
+      'predict',
+      model,
+      fresh,
+      '--shape',
+      '28x28',
+      '--workers',
+      '1',
+      '--quiet',
+      '--out',
+      out,
+    ]);
     expect(p.stderr).toBe('');
     expect(p.code).toBe(0);
     const rows = readFileSync(out, 'utf8').trim().split('\n').slice(1);

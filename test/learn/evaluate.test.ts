@@ -9,7 +9,9 @@ import { pairwiseDistances } from '../../src/homology/metric.js';
 import { ripsPersistence } from '../../src/homology/rips.js';
 import type { Classifier, Hyperparameters, ModelName } from '../../src/learn/classifier.js';
 import { formatMetricsJson, mostFrequent, runEvaluation } from '../../src/learn/evaluate.js';
+import { correctedResampledInterval } from '../../src/learn/paired.js';
 import type { ModelFactory } from '../../src/learn/select.js';
+import { formatFoldsCsv, formatStudyPredictionsCsv } from '../../src/learn/study-files.js';
 
 /** A test-only classifier: nearest class centroid, scores by softmax of negative distances. Not a shipped model. */
 class NearestCentroid implements Classifier {
@@ -156,6 +158,7 @@ describe('runEvaluation', () => {
       'options',
       'version',
       'results',
+      'paired',
     ]);
     expect(Object.keys(doc.results[0])).toEqual([
       'features',
@@ -165,6 +168,7 @@ describe('runEvaluation', () => {
       'macroF1',
       'confusion',
       'chosen',
+      'foldScores',
     ]);
     expect(doc.results.map((r: { features: string }) => r.features)).toEqual([
       'landscape',
@@ -209,6 +213,138 @@ describe('runEvaluation', () => {
     // The raw D2 baseline is reported beside it; it is a strong baseline (Osada et al. 2002), so it is only
     // required to beat chance here, not to lose.
     expect(raw.accuracy.mean).toBeGreaterThan(1 / 3);
+  });
+});
+
+describe('out-of-fold predictions, fold scores and paired differences', () => {
+  const data = shapes(8, 40, 5);
+  const diagrams = ripsDiagrams(data);
+  const options = {
+    diagrams,
+    folds: 4,
+    seed: 3,
+    models: ['pca-svm', 'dense'] as ModelName[],
+    featureSets: ['landscape', 'raw', 'combined'] as const,
+    modelFactory: centroidFactory(),
+    landscapeCandidates: [{ depth: 2, gridSize: 10 }],
+  };
+
+  it('lists every sample once per (feature set, model), predictions that give metrics.json’s confusion', async () => {
+    const result = await runEvaluation(data, { ...options, featureSets: [...options.featureSets] });
+    const doc = JSON.parse(formatMetricsJson(result));
+    const rows = formatStudyPredictionsCsv(result).trim().split('\n');
+    expect(rows[0]).toBe(
+      'sample,label,features,model,repeat,fold,predicted,score:disc,score:eight,score:loop',
+    );
+    const classes: string[] = doc.classes;
+    const seen = new Map<string, Set<string>>();
+    const confusion = new Map<string, number[][]>();
+    for (const line of rows.slice(1)) {
+      const [sample, label, features, model, repeat, fold, predicted, ...scores] = line.split(',');
+      const key = `${features}/${model}`;
+      const ids = seen.get(key) ?? new Set<string>();
+      expect(ids.has(sample)).toBe(false);
+      ids.add(sample);
+      seen.set(key, ids);
+      expect(repeat).toBe('1');
+      expect(Number(fold)).toBeGreaterThanOrEqual(1);
+      expect(Number(fold)).toBeLessThanOrEqual(4);
+      expect(label).toBe(data.samples.find((s) => s.id === sample)!.label);
+      expect(scores.map(Number).reduce((a, b) => a + b, 0)).toBeCloseTo(1, 12);
+      const m = confusion.get(key) ?? classes.map(() => classes.map(() => 0));
+      m[classes.indexOf(label)][classes.indexOf(predicted)]++;
+      confusion.set(key, m);
+    }
+    expect([...seen.keys()]).toEqual(
+      doc.results.map((r: { features: string; model: string }) => `${r.features}/${r.model}`),
+    );
+    for (const ids of seen.values()) expect(ids.size).toBe(data.samples.length);
+    for (const r of doc.results) expect(confusion.get(`${r.features}/${r.model}`)).toEqual(r.confusion);
+  });
+
+  it('gives per-fold scores whose plain mean is the reported mean (metrics.json and folds.csv agree)', async () => {
+    const result = await runEvaluation(data, {
+      ...options,
+      featureSets: [...options.featureSets],
+      repeats: 2,
+    });
+    const doc = JSON.parse(formatMetricsJson(result));
+    const csv = formatFoldsCsv(result).trim().split('\n');
+    expect(csv[0]).toBe('features,model,repeat,fold,samples,correct,accuracy,balanced_accuracy,macro_f1');
+    expect(csv).toHaveLength(1 + doc.results.length * 8);
+    let line = 1;
+    for (const r of doc.results) {
+      const folds = r.foldScores as Array<{
+        repeat: number;
+        fold: number;
+        samples: number;
+        correct: number;
+        accuracy: number;
+      }>;
+      expect(folds).toHaveLength(8);
+      // The study's mean is the unweighted mean over the outer folds of all repeats (evaluate.ts, summarize).
+      const mean = folds.reduce((a, f) => a + f.accuracy, 0) / folds.length;
+      expect(Math.abs(mean - r.accuracy.mean)).toBeLessThanOrEqual(1e-6);
+      for (const f of folds) expect(f.accuracy).toBeCloseTo(f.correct / f.samples, 6);
+      // Each repeat holds every sample out once; the correct counts of all folds are the pooled diagonal.
+      for (const repeat of [1, 2])
+        expect(folds.filter((f) => f.repeat === repeat).reduce((a, f) => a + f.samples, 0)).toBe(24);
+      const diagonal = r.confusion.reduce((a: number, row: number[], k: number) => a + row[k], 0);
+      expect(folds.reduce((a, f) => a + f.correct, 0)).toBe(diagonal);
+      for (const f of folds) {
+        expect(csv[line++]).toBe(
+          `${r.features},${r.model},${f.repeat},${f.fold},${f.samples},${f.correct},${f.accuracy},${(f as unknown as { balancedAccuracy: number }).balancedAccuracy},${(f as unknown as { macroF1: number }).macroF1}`,
+        );
+      }
+    }
+    // With repeats, each sample appears once per (feature set, model, repeat).
+    const rows = formatStudyPredictionsCsv(result).trim().split('\n').slice(1);
+    expect(rows).toHaveLength(doc.results.length * 2 * 24);
+  });
+
+  it('pairs every other feature set with the raw baseline per model on the same folds', async () => {
+    const result = await runEvaluation(data, { ...options, featureSets: [...options.featureSets] });
+    expect(result.paired.map((p) => `${p.features}-${p.baseline}/${p.model}`)).toEqual([
+      'landscape-raw/pca-svm',
+      'combined-raw/pca-svm',
+      'landscape-raw/dense',
+      'combined-raw/dense',
+    ]);
+    for (const p of result.paired) {
+      const a = result.results.find((r) => r.features === p.features && r.model === p.model)!;
+      const b = result.results.find((r) => r.features === 'raw' && r.model === p.model)!;
+      // Same held-out samples in fold j for both sets.
+      for (let j = 0; j < a.folds.length; j++)
+        expect(Array.from(a.folds[j].test)).toEqual(Array.from(b.folds[j].test));
+      expect(p.differences).toEqual(a.folds.map((f, j) => f.accuracy - b.folds[j].accuracy));
+      expect(p.pairs).toBe(4);
+      // 4-fold CV: n_test / n_train = 1/3.
+      expect(p.testTrainRatio).toBeCloseTo(1 / 3, 15);
+      const reference = correctedResampledInterval(p.differences, 1 / 3, 0.95);
+      expect(p.mean).toBeCloseTo(a.accuracy.mean - b.accuracy.mean, 12);
+      expect(p.lower).toBeCloseTo(reference.lower, 12);
+      expect(p.upper).toBeCloseTo(reference.upper, 12);
+      expect(p.lower).toBeLessThanOrEqual(p.mean);
+      expect(p.upper).toBeGreaterThanOrEqual(p.mean);
+    }
+    const doc = JSON.parse(formatMetricsJson(result));
+    expect(Object.keys(doc.paired[0])).toEqual([
+      'features',
+      'baseline',
+      'model',
+      'pairs',
+      'differences',
+      'mean',
+      'std',
+      'interval',
+      'testTrainRatio',
+      'method',
+    ]);
+    expect(doc.paired[0].interval.level).toBe(0.95);
+    expect(doc.paired[0].method).toMatch(/Nadeau & Bengio 2003/);
+    // No raw baseline in the study: nothing to pair.
+    const alone = await runEvaluation(data, { ...options, featureSets: ['landscape'] });
+    expect(alone.paired).toEqual([]);
   });
 });
 

@@ -4,7 +4,9 @@ import {
   argmaxRows,
   balancedAccuracy,
   confusionMatrix,
+  formatConfusionText,
   macroF1,
+  scoreLabels,
   summarize,
 } from '../../src/learn/metrics.js';
 
@@ -57,5 +59,51 @@ describe('metrics on hand-worked confusion matrices', () => {
   it('argmaxRows breaks ties towards the lower class', () => {
     const p = argmaxRows({ rows: 2, cols: 3, data: Float64Array.from([0.2, 0.5, 0.3, 0.4, 0.2, 0.4]) });
     expect([...p]).toEqual([1, 0]);
+  });
+});
+
+describe('scoreLabels (predict on labelled samples), worked by hand from the definitions above', () => {
+  // Classes a, b, c. Scored samples (label among the classes):
+  //   a→a, a→b, b→b, b→b, c→a          → 3 of 5 correct
+  // plus one empty label (a sample to predict) and two labels the model does not know (z→c, z→c).
+  const labels = ['a', 'a', 'b', 'b', 'c', '', 'z', 'z'];
+  const predicted = ['a', 'b', 'b', 'b', 'a', 'c', 'c', 'c'];
+  const s = scoreLabels(labels, predicted, ['a', 'b', 'c']);
+
+  it('counts only labels among the classes, rows true and columns predicted', () => {
+    expect(s.confusion).toEqual([
+      [1, 1, 0],
+      [0, 2, 0],
+      [1, 0, 0],
+    ]);
+    expect(s.scored).toBe(5);
+    expect(s.correct).toBe(3);
+    expect(s.accuracy).toBe(3 / 5);
+    // recalls 1/2, 2/2, 0/1
+    expect(s.balancedAccuracy).toBeCloseTo((0.5 + 1 + 0) / 3, 12);
+  });
+
+  it('keeps unknown labels and unlabelled samples apart', () => {
+    expect(s.unlabelled).toBe(1);
+    expect(s.unknown).toEqual([{ label: 'z', count: 2, predicted: [0, 0, 2] }]);
+  });
+
+  it('gives no accuracy when nothing is labelled', () => {
+    const none = scoreLabels(['', ''], ['a', 'b'], ['a', 'b']);
+    expect(none.scored).toBe(0);
+    expect(Number.isNaN(none.accuracy)).toBe(true);
+    expect(none.unlabelled).toBe(2);
+  });
+
+  it('prints the matrix with the class names, columns aligned', () => {
+    expect(
+      formatConfusionText(
+        ['a', 'bb'],
+        [
+          [10, 0],
+          [2, 7],
+        ],
+      ),
+    ).toEqual(['true \\ predicted   a  bb', 'a                 10   0', 'bb                 2   7']);
   });
 });

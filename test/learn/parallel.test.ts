@@ -3,6 +3,7 @@ import type { Dataset, ImageSample } from '../../src/core/sample.js';
 import type { ModelName } from '../../src/learn/classifier.js';
 import { formatMetricsJson, runEvaluation, serialUnitRunner } from '../../src/learn/evaluate.js';
 import { learningWorkers } from '../../src/learn/parallel.js';
+import { formatFoldsCsv, formatStudyPredictionsCsv } from '../../src/learn/study-files.js';
 import { mnistDigits } from '../helpers/mnist.js';
 
 /** `count` digits of MNIST in a fixed order (count / 10 of each digit; see test/helpers/mnist.ts). */
@@ -40,6 +41,10 @@ describe('learning on worker threads', () => {
       onPhase: (phase, done, total) => ticks.push(`${phase} ${done}/${total}`),
     });
     expect(formatMetricsJson(threaded)).toBe(formatMetricsJson(serial));
+    // The out-of-fold predictions and fold scores evaluate writes beside metrics.json: the same bytes too.
+    expect(formatStudyPredictionsCsv(threaded)).toBe(formatStudyPredictionsCsv(serial));
+    expect(formatFoldsCsv(threaded)).toBe(formatFoldsCsv(serial));
+    expect(serial.paired.length).toBeGreaterThan(0);
     for (let r = 0; r < serial.results.length; r++) {
       for (let f = 0; f < serial.results[r].folds.length; f++) {
         const a = serial.results[r].folds[f];

@@ -5,6 +5,7 @@ import { checkFeatureColumns } from '../../core/budgets.js';
 import type { DiagramSet } from '../../core/diagram.js';
 import { UserError } from '../../core/errors.js';
 import type { Dataset, SampleKind } from '../../core/sample.js';
+import { provenance } from '../../core/version.js';
 import {
   checkFeatureSet,
   FEATURE_SET_NAMES,
@@ -18,6 +19,7 @@ import { METRICS, type Metric } from '../../homology/metric.js';
 import { acquireOutputLock, writeFileAtomic, writeFolderAtomic } from '../../io/atomic.js';
 import { loadDataset, parseKind, parseShape } from '../../io/load.js';
 import { checkOutputPath } from '../../io/output-guard.js';
+import { provenancePath } from '../../io/provenance-file.js';
 import {
   DEFAULT_MODEL_NAMES,
   type Hyperparameters,
@@ -25,6 +27,7 @@ import {
   type ModelName,
 } from '../../learn/classifier.js';
 import type { EvaluationOptions, EvaluationResult } from '../../learn/evaluate.js';
+import type { PairedComparison } from '../../learn/paired.js';
 import type { LandscapeCandidate } from '../../learn/select.js';
 import { noteOption } from '../dataset-input.js';
 import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
@@ -365,7 +368,14 @@ interface EvaluateCommandOptions extends StudyCommandOptions {
 }
 
 /** What an evaluation folder holds; a folder with only these names was written by an earlier landform. */
-export const EVALUATION_FILES: readonly string[] = ['metrics.json', 'report.html'];
+export const EVALUATION_FILES: readonly string[] = [
+  'metrics.json',
+  'predictions.csv',
+  'predictions.csv.provenance.json',
+  'folds.csv',
+  'folds.csv.provenance.json',
+  'report.html',
+];
 
 /**
  * `landform evaluate <dataset> --out DIR`: the cross-validated study (every feature set × model, inner-CV
@@ -402,9 +412,10 @@ landscape depth and grid size (--depths × --grid-sizes); nothing is learned fro
 The defaults keep the search small (3 inner folds, 4 landscape candidates, tried first with the model's
 default hyperparameters, then each model candidate with the best landscape): F + M − 1 inner runs per fold.
 
-The folder is written as a whole: metrics.json first (so a failing report loses no work), then
-report.html; files of an earlier run in it are replaced, and a folder landform did not make is refused
-unless --force.
+The folder is written as a whole: metrics.json (with per-fold scores and, per model, each feature set's
+paired difference against raw with a corrected resampled t interval), predictions.csv (out-of-fold
+predictions) and folds.csv first (so a failing report loses no work), then report.html; files of an earlier
+run in it are replaced, and a folder landform did not make is refused unless --force.
 
 Cross-validated accuracy is an estimate: validate on independent data before it feeds a decision.
 
@@ -444,6 +455,15 @@ Example:
     });
 }
 
+/** One paired comparison as a line: `landscape − raw  pca-svm  +0.030 [-0.020, 0.080] 95% over 5 folds`. */
+export function pairedLine(p: PairedComparison): string {
+  const signed = (v: number): string => (v > 0 ? '+' : '') + v.toFixed(3);
+  return (
+    `${`${p.features} − ${p.baseline}`.padEnd(19)} ${p.model.padEnd(8)} ${signed(p.mean)} ` +
+    `[${signed(p.lower)}, ${signed(p.upper)}]  ${Math.round(p.level * 100)}% interval over ${p.pairs} paired folds (corrected resampled t)`
+  );
+}
+
 /**
  * Writes an evaluation folder under its lock: the folder with metrics.json is committed first (replacing any
  * earlier one as a whole, so no old report is left beside new metrics), the summary lines are printed, then
@@ -456,23 +476,39 @@ async function writeEvaluation(
   renderReport: () => Promise<string>,
 ): Promise<void> {
   const { formatMetricsJson } = await import('../../learn/evaluate.js');
+  const { FOLDS_FILE, formatFoldsCsv, formatStudyPredictionsCsv, PREDICTIONS_FILE } = await import(
+    '../../learn/study-files.js'
+  );
   const metricsPath = join(out, 'metrics.json');
   const release = acquireOutputLock(out);
   try {
     const metrics = formatMetricsJson(result);
-    await writeFolderAtomic(out, (tmp) => writeFileSync(join(tmp, 'metrics.json'), metrics), {
-      command: 'evaluate',
-      lock: false,
-    });
+    const tables: Array<[string, string]> = [
+      [PREDICTIONS_FILE, formatStudyPredictionsCsv(result)],
+      [FOLDS_FILE, formatFoldsCsv(result)],
+    ];
+    const recorded = `${JSON.stringify(provenance('evaluate', result.options, result.seed), null, 2)}\n`;
+    await writeFolderAtomic(
+      out,
+      (tmp) => {
+        writeFileSync(join(tmp, 'metrics.json'), metrics);
+        for (const [name, text] of tables) {
+          writeFileSync(join(tmp, name), text);
+          writeFileSync(join(tmp, provenancePath(name)), recorded);
+        }
+      },
+      { command: 'evaluate', lock: false },
+    );
     for (const r of result.results) {
       process.stdout.write(
         `${r.features.padEnd(10)} ${r.model.padEnd(8)} accuracy ${r.accuracy.mean.toFixed(3)} ± ${r.accuracy.std.toFixed(3)}` +
           `  balanced ${r.balancedAccuracy.mean.toFixed(3)}  macro-F1 ${r.macroF1.mean.toFixed(3)}\n`,
       );
     }
+    for (const p of result.paired) process.stdout.write(`${pairedLine(p)}\n`);
     if (!withReport) {
       process.stdout.write(
-        `wrote ${metricsPath} (cross-validated estimates; validate on independent data)\n`,
+        `wrote ${metricsPath}, ${PREDICTIONS_FILE} and ${FOLDS_FILE} beside it (cross-validated estimates; validate on independent data)\n`,
       );
       return;
     }
@@ -486,7 +522,7 @@ async function writeEvaluation(
     }
     writeFileAtomic(join(out, 'report.html'), html);
     process.stdout.write(
-      `wrote ${metricsPath} and ${join(out, 'report.html')} (cross-validated estimates; validate on independent data)\n`,
+      `wrote ${metricsPath}, ${PREDICTIONS_FILE}, ${FOLDS_FILE} and report.html beside it (cross-validated estimates; validate on independent data)\n`,
     );
   } finally {
     release();
