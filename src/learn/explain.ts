@@ -214,7 +214,7 @@ export async function discriminativeMaps(
       ? {
           weights: {
             curves,
-            note: `${signed ? 'Signed weight (positive favours the first class)' : 'Weight magnitude (root mean square over the one-vs-one class pairs)'} of a linear pca-svm on the landscape features, carried back through the PCA loadings and the scaler onto (degree, layer, t) and multiplied by each feature's standard deviation; mean of ${weightFolds} refits, one per outer training fold. First four layers shown.`,
+            note: `${signed ? 'Signed weight (positive favours the first class)' : 'Weight magnitude (root mean square over the one-vs-one class pairs)'} of a linear pca-svm on the landscape features, carried back through the PCA loadings and the scaler onto (degree, layer, t) and multiplied by each feature's standard deviation; mean of ${weightFolds} refits, one per outer training fold.`,
           },
         }
       : {}),

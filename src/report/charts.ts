@@ -116,7 +116,28 @@ export interface AccuracyRow {
   std: number;
 }
 
-/** Accuracy of every feature set × model: a dot at the mean and a bar of ± one standard deviation over folds. */
+/**
+ * The rows whose bar (mean ± one sd) reaches past [0, 1] and is drawn cut at the edge: accuracy cannot leave
+ * [0, 1], so the bar is clamped there rather than the axis stretched to values no run can have.
+ */
+export function clippedAccuracyBars(
+  rows: readonly AccuracyRow[],
+): Array<{ features: string; model: string; at: 0 | 1 | 'both' }> {
+  const out: Array<{ features: string; model: string; at: 0 | 1 | 'both' }> = [];
+  for (const r of rows) {
+    const low = r.mean - r.std < 0;
+    const high = r.mean + r.std > 1;
+    if (low || high)
+      out.push({ features: r.features, model: r.model, at: low && high ? 'both' : low ? 0 : 1 });
+  }
+  return out;
+}
+
+/**
+ * Accuracy of every feature set × model: a dot at the mean and a bar of ± one standard deviation over folds.
+ * The axis is exactly [0, 1] (clamped, not rounded outwards); bar ends beyond it are clamped to it, which the
+ * axis title says and `clippedAccuracyBars` lists for the caption.
+ */
 export function accuracyChart(rows: readonly AccuracyRow[], chance: number): ChartSpec {
   const values = rows.map((r) => ({
     features: r.features,
@@ -126,6 +147,7 @@ export function accuracyChart(rows: readonly AccuracyRow[], chance: number): Cha
     high: round(Math.min(1, r.mean + r.std)),
   }));
   const y = { field: 'features', type: 'nominal', title: 'feature set', sort: null } as const;
+  const scale = { domain: [0, 1], clamp: true, nice: false, zero: true };
   return {
     width: 440,
     height: { step: 26 },
@@ -134,7 +156,7 @@ export function accuracyChart(rows: readonly AccuracyRow[], chance: number): Cha
       {
         data: { values: [{ chance: round(chance) }] },
         mark: { type: 'rule', strokeDash: [4, 3], color: '#9aa0a6' },
-        encoding: { x: { field: 'chance', type: 'quantitative' } },
+        encoding: { x: { field: 'chance', type: 'quantitative', scale } },
       },
       {
         mark: { type: 'rule', strokeWidth: 2 },
@@ -144,8 +166,8 @@ export function accuracyChart(rows: readonly AccuracyRow[], chance: number): Cha
           x: {
             field: 'low',
             type: 'quantitative',
-            scale: { domain: [0, 1] },
-            title: 'cross-validated accuracy (mean ± 1 sd over folds; dashed: chance)',
+            scale,
+            title: 'cross-validated accuracy (mean ± 1 sd over folds, clipped to [0, 1]; dashed: chance)',
           },
           x2: { field: 'high' },
           color: { field: 'model', type: 'nominal', title: 'model' },
@@ -156,7 +178,7 @@ export function accuracyChart(rows: readonly AccuracyRow[], chance: number): Cha
         encoding: {
           y,
           yOffset: { field: 'model', type: 'nominal' },
-          x: { field: 'mean', type: 'quantitative' },
+          x: { field: 'mean', type: 'quantitative', scale },
           color: { field: 'model', type: 'nominal', title: 'model' },
           shape: { field: 'model', type: 'nominal', title: 'model' },
         },
@@ -245,26 +267,104 @@ function classColour(classes: readonly string[]): Record<string, unknown> {
   };
 }
 
+/** The generic title of a filtration-scale axis. */
+export const SCALE_TITLE = 'filtration scale t (data units)';
+
+/**
+ * The title of a filtration-scale axis. `superlevelOf` names the quantity when the diagrams come from a
+ * superlevel-set filtration ('grey level', 'signal value'): those are the sublevel sets of the negated values
+ * and are reported on that negated scale, so t = −value and the axis must say so.
+ */
+export function scaleTitle(superlevelOf?: string): string {
+  return superlevelOf === undefined
+    ? SCALE_TITLE
+    : `filtration value t (superlevel sets: t = −${superlevelOf})`;
+}
+
+/** Which layers of a class-means chart hold anything, and which are zero on the whole grid. */
+export interface MeanLayers {
+  /** Layers computed: the largest depth among the classes. */
+  depth: number;
+  /** Layers drawn as panels (1-based, ascending): those of the first `layers` where some class mean is non-zero. */
+  shown: number[];
+  /** Layers of the first `layers` where every class mean is 0 on the whole grid: no panel. */
+  zeroForAll: number[];
+  /** Per shown layer, the classes whose mean is 0 on the whole grid there: no band and no line for them. */
+  zeroFor: Array<{ layer: number; classes: string[] }>;
+}
+
+function layerIsZero(band: SampledBand, k: number): boolean {
+  if (k >= band.depth) return true;
+  const count = band.grid.count;
+  for (let j = k * count; j < (k + 1) * count; j++) if (band.mean[j] !== 0) return false;
+  return true;
+}
+
+/**
+ * Sorts the first `layers` layers of a class-means chart into drawn and empty ones. A mean landscape is 0 at
+ * every grid point only when every sample's landscape is (landscapes are never negative), i.e. when no sample
+ * has k pairs alive at the same scale; such a layer carries nothing to compare, and its band (0 with a
+ * per-layer band; the shared half-width with one band over all layers) says nothing about the classes.
+ */
+export function meanLayers(
+  classes: ReadonlyArray<{ label: string; band: SampledBand }>,
+  layers: number,
+): MeanLayers {
+  const depth = Math.max(0, ...classes.map((c) => c.band.depth));
+  const shown: number[] = [];
+  const zeroForAll: number[] = [];
+  const zeroFor: Array<{ layer: number; classes: string[] }> = [];
+  for (let k = 0; k < Math.min(layers, depth); k++) {
+    const zero = classes.filter((c) => layerIsZero(c.band, k)).map((c) => c.label);
+    if (zero.length === classes.length) zeroForAll.push(k + 1);
+    else {
+      shown.push(k + 1);
+      if (zero.length > 0) zeroFor.push({ layer: k + 1, classes: zero });
+    }
+  }
+  return { depth, shown, zeroForAll, zeroFor };
+}
+
+export interface MeanBandChartOptions {
+  /** Grid points kept per curve (evenly thinned). Default 120. */
+  maxPoints?: number;
+  /** The quantity of a superlevel-set filtration, for the axis title (see `scaleTitle`). */
+  superlevelOf?: string;
+}
+
+/** The facet label of layer k (1-based). */
+function layerLabel(k: number): string {
+  return `λ${k}  (layer ${k})`;
+}
+
 /**
  * Per degree: the mean landscape of every class with its simultaneous band, one panel per layer (the first
  * `layers` layers, side by side), classes told apart by colour (the same colour for a class on the whole page).
+ * All panels share one y scale, so a layer of small values looks small. Layers that are zero for every class
+ * get no panel, and a class whose mean is zero in a layer gets no band or line there (`meanLayers`; the
+ * caption says which). The legend comes from the lines, at full colour; the pale bands have none.
  */
 export function meanBandChart(
   degree: number | Channel,
   classes: ReadonlyArray<{ label: string; band: SampledBand }>,
   layers = 3,
-  maxPoints = 120,
+  options: MeanBandChartOptions = {},
 ): ChartSpec {
+  const maxPoints = options.maxPoints ?? 120;
+  const content = meanLayers(classes, layers);
+  const skip = new Set(content.zeroFor.flatMap((z) => z.classes.map((label) => `${z.layer}\u0000${label}`)));
   const values: Array<Record<string, unknown>> = [];
   for (const { label, band } of classes) {
     const count = band.grid.count;
     const step = count > 1 ? (band.grid.stop - band.grid.start) / (count - 1) : 0;
     const keep = thinned(count, maxPoints);
-    for (let k = 0; k < Math.min(layers, band.depth); k++) {
+    for (const layer of content.shown) {
+      const k = layer - 1;
+      if (k >= band.depth || skip.has(`${layer}\u0000${label}`)) continue;
       for (const j of keep) {
         values.push({
           class: label,
-          layer: `λ${k + 1}  (layer ${k + 1})`,
+          layer: layerLabel(layer),
           t: round(band.grid.start + j * step),
           mean: round(band.mean[k * count + j]),
           lower: round(band.lower[k * count + j]),
@@ -273,8 +373,11 @@ export function meanBandChart(
       }
     }
   }
-  const shown = Math.min(layers, Math.max(1, ...classes.map((c) => c.band.depth)));
+  const shown = Math.max(1, content.shown.length);
   const labels = classes.map((c) => c.label);
+  const colour = classColour(labels);
+  // The scale's title once, under all panels (as the facet's title), not repeated under each narrow panel.
+  const x = { field: 't', type: 'quantitative', title: null } as const;
   return {
     title: { text: degreeName(degree) },
     data: { values },
@@ -282,31 +385,46 @@ export function meanBandChart(
       column: {
         field: 'layer',
         type: 'nominal',
-        title: null,
-        header: { labelAnchor: 'start', labelFontWeight: 600 },
+        title: scaleTitle(options.superlevelOf),
+        sort: content.shown.map(layerLabel),
+        header: {
+          labelAnchor: 'start',
+          labelFontWeight: 600,
+          labelOrient: 'top',
+          titleOrient: 'bottom',
+          titleFontWeight: 600,
+          titleColor: INK,
+        },
       },
     },
-    resolve: { scale: { y: 'independent' } },
+    // One y scale for every panel (shared is vega-lite's default for facets; written out so it stays so).
+    resolve: { scale: { y: 'shared', x: 'shared' } },
     spacing: 18,
     spec: {
       width: shown >= 4 ? 196 : shown === 3 ? 268 : shown === 2 ? 400 : 620,
       height: 180,
       layer: [
         {
-          mark: { type: 'area', opacity: 0.2, interpolate: 'linear' },
+          mark: { type: 'area', fillOpacity: 0.2, strokeWidth: 0, interpolate: 'linear' },
           encoding: {
-            x: { field: 't', type: 'quantitative', title: 'filtration scale t (data units)' },
+            x,
             y: { field: 'lower', type: 'quantitative', title: 'λ(t)' },
             y2: { field: 'upper' },
-            color: { field: 'class', type: 'nominal', title: 'class', scale: classColour(labels) },
+            color: { field: 'class', type: 'nominal', scale: colour },
           },
         },
         {
           mark: { type: 'line', strokeWidth: 1.8 },
           encoding: {
-            x: { field: 't', type: 'quantitative' },
+            x,
             y: { field: 'mean', type: 'quantitative' },
-            color: { field: 'class', type: 'nominal', scale: classColour(labels) },
+            color: {
+              field: 'class',
+              type: 'nominal',
+              title: 'class',
+              scale: colour,
+              legend: { symbolType: 'stroke', symbolStrokeWidth: 3, symbolOpacity: 1 },
+            },
           },
         },
       ],
@@ -314,12 +432,16 @@ export function meanBandChart(
   } as ChartSpec;
 }
 
-/** A discriminative map for one degree: signed curves on the landscape's own axis, one per layer. */
+/**
+ * A discriminative map for one degree: signed curves on the landscape's own axis, one per layer (the chart's
+ * title names the degree; the x axis is the filtration scale, see `scaleTitle`).
+ */
 export function weightMapChart(
   degree: number | Channel,
   curves: readonly WeightCurve[],
   yTitle: string,
   title?: string,
+  options: { superlevelOf?: string } = {},
 ): ChartSpec {
   const channel = asChannel(degree);
   const mine = curves.filter((c) => c.degree === channel.degree && c.filtration === channel.filtration);
@@ -343,7 +465,7 @@ export function weightMapChart(
       {
         mark: { type: 'line', strokeWidth: 1.6 },
         encoding: {
-          x: { field: 't', type: 'quantitative', title: `filtration scale t (data units) — H${degree}` },
+          x: { field: 't', type: 'quantitative', title: scaleTitle(options.superlevelOf) },
           y: { field: 'value', type: 'quantitative', title: yTitle },
           color: { field: 'layer', type: 'nominal', title: 'layer', scale: classColour(layers) },
           strokeDash: {
@@ -372,7 +494,38 @@ export interface ImportanceRow {
   std: number;
 }
 
-/** Permutation importance per group (degree and layer): mean drop in accuracy ± one standard deviation. */
+/** A group name as `groupsByDegreeLayer` (importance.ts) writes it: "H1 λ2", or "erosion/H1 λ2". */
+const GROUP_NAME = /^(?:(.+)\/)?H(\d+) λ(\d+)$/;
+
+/**
+ * The fixed order of the importance chart: filtration (in the order first met, untagged first), then degree,
+ * then layer as numbers (λ10 after λ9), and any other group (the raw features) last, in the order given.
+ * The same order as the class means and weight maps, independent of the fold in which a group first
+ * appeared, and of the noisy importances themselves — the bar lengths show those.
+ */
+export function importanceOrder(groups: readonly string[]): string[] {
+  const filtrations = new Map<string, number>();
+  const keys = groups.map((group, index) => {
+    const m = GROUP_NAME.exec(group);
+    if (!m) return { group, index, key: [1, 0, 0, 0] };
+    let filtration = 0;
+    if (m[1] !== undefined) {
+      if (!filtrations.has(m[1])) filtrations.set(m[1], filtrations.size + 1);
+      filtration = filtrations.get(m[1]) ?? 0;
+    }
+    return { group, index, key: [0, filtration, Number(m[2]), Number(m[3])] };
+  });
+  const compare = (a: (typeof keys)[number], b: (typeof keys)[number]): number => {
+    for (let i = 0; i < a.key.length; i++) if (a.key[i] !== b.key[i]) return a.key[i] - b.key[i];
+    return a.index - b.index;
+  };
+  return [...keys].sort(compare).map((k) => k.group);
+}
+
+/**
+ * Permutation importance per group (degree and layer): mean drop in accuracy ± one standard deviation, in
+ * the fixed order of `importanceOrder`, written into the spec so vega-lite cannot reorder the groups.
+ */
 export function importanceChart(rows: readonly ImportanceRow[], title?: string): ChartSpec {
   const values = rows.map((r) => ({
     group: r.group,
@@ -380,7 +533,12 @@ export function importanceChart(rows: readonly ImportanceRow[], title?: string):
     low: round(r.mean - r.std),
     high: round(r.mean + r.std),
   }));
-  const y = { field: 'group', type: 'nominal', sort: null, title: 'feature group' } as const;
+  const y = {
+    field: 'group',
+    type: 'nominal',
+    sort: importanceOrder(rows.map((r) => r.group)),
+    title: 'feature group',
+  } as const;
   return {
     ...(title ? { title: { text: title } } : {}),
     width: 420,
@@ -404,9 +562,15 @@ export function importanceChart(rows: readonly ImportanceRow[], title?: string):
 
 /**
  * One sample's persistence diagrams (all degrees) as birth–death points above the diagonal. Essential
- * classes (death = ∞) are drawn as triangles on a line above the largest finite death.
+ * classes (death = ∞) are drawn as triangles on a line above the largest finite death. `superlevelOf` names
+ * the negated quantity of a superlevel-set filtration on both axes.
  */
-export function diagramChart(diagrams: readonly Diagram[], title: string): ChartSpec {
+export function diagramChart(
+  diagrams: readonly Diagram[],
+  title: string,
+  options: { superlevelOf?: string } = {},
+): ChartSpec {
+  const negated = options.superlevelOf === undefined ? '' : ` (−${options.superlevelOf})`;
   let top = 0;
   let low = Infinity;
   for (const d of diagrams) {
@@ -454,8 +618,18 @@ export function diagramChart(diagrams: readonly Diagram[], title: string): Chart
         data: { values },
         mark: { type: 'point', filled: true, size: 26, opacity: 0.8 },
         encoding: {
-          x: { field: 'birth', type: 'quantitative', scale: { domain, nice: false }, title: 'birth' },
-          y: { field: 'death', type: 'quantitative', scale: { domain, nice: false }, title: 'death' },
+          x: {
+            field: 'birth',
+            type: 'quantitative',
+            scale: { domain, nice: false },
+            title: `birth${negated}`,
+          },
+          y: {
+            field: 'death',
+            type: 'quantitative',
+            scale: { domain, nice: false },
+            title: `death${negated}`,
+          },
           color: {
             field: 'degree',
             type: 'nominal',

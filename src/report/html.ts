@@ -1,6 +1,7 @@
 import { type Channel, channelName, type Diagram } from '../core/diagram.js';
 import type { DiscriminativeMaps } from '../learn/explain.js';
 import type { SampledBand } from './bands.js';
+import { accuracyCaption, layerList, meanLayersNote, superlevelOf } from './captions.js';
 import {
   type AccuracyRow,
   accuracyChart,
@@ -9,6 +10,7 @@ import {
   diagramChart,
   importanceChart,
   meanBandChart,
+  meanLayers,
   renderSvg,
   weightMapChart,
 } from './charts.js';
@@ -27,6 +29,9 @@ export { escapeHtml };
 
 /** Rows of the contrast table shown at most (the smallest p values first). */
 export const CONTRAST_ROWS_SHOWN = 60;
+
+/** Layers of the class means drawn at most, as panels side by side (more would be too narrow to read). */
+export const MEAN_LAYERS_SHOWN = 4;
 
 /** What one dataset's part of the report shows; every field is plain data. */
 export interface DatasetReport {
@@ -170,8 +175,8 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
         `${id}-accuracy`,
         'accuracy',
         'Accuracy of every feature set and model',
-        `Outer cross-validation folds: the dot is the mean accuracy, the bar ± one standard deviation over folds; the dashed line is chance (${fixed(chance, 2)}). Raw-feature baselines sit beside the landscape features so the gain (or its absence) is visible.`,
-        figure(svg, 'Cross-validated accuracy by feature set and model.', 'accuracy') +
+        `Outer cross-validation folds: the dot is the mean accuracy, the bar ± one standard deviation over folds (clipped to [0, 1]); the dashed line is chance (${fixed(chance, 2)}). Raw-feature baselines sit beside the landscape features so the gain (or its absence) is visible.`,
+        figure(svg, accuracyCaption(ds.accuracy), 'accuracy') +
           `<table class="grid"><tr><th>features</th><th>model</th><th class="num">accuracy (mean ± sd)</th><th class="num">balanced accuracy</th><th class="num">macro F1</th></tr>${rows}</table>` +
           pairedTableHtml(ds.paired ?? []),
       ),
@@ -206,12 +211,22 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
   if (ds.means.length > 0) {
     const charts: string[] = [];
     for (const m of ds.means) {
-      const svg = await renderSvg(meanBandChart(m, m.classes, 4));
+      const name = escapeHtml(channelName(m));
+      if (meanLayers(m.classes, MEAN_LAYERS_SHOWN).shown.length === 0) {
+        charts.push(
+          `<p class="how" data-empty="mean">${name}: the mean landscape of every class is zero on the whole grid (no sample has a finite ${name} pair of positive length); nothing to draw.</p>`,
+        );
+        continue;
+      }
+      const superlevel = superlevelOf(ds.summary.kind, ds.options.diagrams, m.filtration);
+      const svg = await renderSvg(
+        meanBandChart(m, m.classes, MEAN_LAYERS_SHOWN, superlevel ? { superlevelOf: superlevel } : {}),
+      );
       const first = m.classes[0]?.band;
       const caption = first
-        ? `${escapeHtml(channelName(m))}: mean landscape per class with a ${Math.round(first.level * 100)}% simultaneous band (multiplier bootstrap, ${first.draws} draws, ${first.scope === 'layer' ? 'one band per layer' : 'one band over all layers'}).`
-        : escapeHtml(channelName(m));
-      charts.push(figure(svg, caption, 'mean'));
+        ? `${name}: mean landscape per class with a ${Math.round(first.level * 100)}% simultaneous band (multiplier bootstrap, ${first.draws} draws, ${first.scope === 'layer' ? 'one band per layer' : 'one band over all layers'}).`
+        : name;
+      charts.push(figure(svg, `${caption} ${meanLayersNote(name, m.classes, MEAN_LAYERS_SHOWN)}`, 'mean'));
     }
     pieces.push(
       part(
@@ -272,8 +287,24 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
       );
     }
     for (const channel of channels) {
-      const svg = await renderSvg(weightMapChart(channel, ds.maps.weights.curves, 'standardised weight'));
-      maps.push(figure(svg, escapeHtml(ds.maps.weights.note), 'map'));
+      const superlevel = superlevelOf(ds.summary.kind, ds.options.diagrams, channel.filtration);
+      const svg = await renderSvg(
+        weightMapChart(
+          channel,
+          ds.maps.weights.curves,
+          'standardised weight',
+          undefined,
+          superlevel ? { superlevelOf: superlevel } : {},
+        ),
+      );
+      const drawn = [
+        ...new Set(
+          ds.maps.weights.curves
+            .filter((c) => c.degree === channel.degree && c.filtration === channel.filtration)
+            .map((c) => c.layer),
+        ),
+      ].sort((a, b) => a - b);
+      maps.push(figure(svg, `${escapeHtml(ds.maps.weights.note)} Curves drawn: ${layerList(drawn)}.`, 'map'));
     }
   }
   if (ds.maps?.importance && ds.maps.importance.rows.length > 0) {
@@ -296,16 +327,24 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
   if (ds.examples.length > 0) {
     const charts: string[] = [];
     for (const e of ds.examples) {
-      const svg = await renderSvg(diagramChart(e.diagrams, `${e.label}`));
+      const superlevel = superlevelOf(ds.summary.kind, ds.options.diagrams, e.filtration);
+      const svg = await renderSvg(
+        diagramChart(e.diagrams, `${e.label}`, superlevel ? { superlevelOf: superlevel } : {}),
+      );
       const under = e.filtration === undefined ? '' : ` · ${escapeHtml(e.filtration)}`;
       charts.push(figure(svg, `sample ${escapeHtml(e.sample)}${under}`, 'diagram'));
     }
+    // The key names the degrees the example charts hold, and triangles only when some are drawn.
+    const shownDegrees = [...new Set(ds.examples.flatMap((e) => e.diagrams.map((d) => d.degree)))]
+      .filter((d) => d < DEGREE_COLOURS.length)
+      .sort((a, b) => a - b);
+    const essential = ds.examples.some((e) => e.diagrams.some((d) => d.deaths.some((v) => v === Infinity)));
     pieces.push(
       part(
         `${id}-examples`,
         'examples',
         'Example diagrams per class',
-        `One sample per class: each point is a feature born at one scale and dying at another; far from the dashed diagonal means long-lived. Colours: ${DEGREE_COLOURS.map((c, d) => `<span class="key" style="background:${c}"></span>H${d}`).join(' ')}; triangles on top are classes that never die.`,
+        `One sample per class: each point is a feature born at one scale and dying at another; far from the dashed diagonal means long-lived. Colours: ${shownDegrees.map((d) => `<span class="key" style="background:${DEGREE_COLOURS[d]}"></span>H${d}`).join(' ')}${essential ? '; triangles on top are classes that never die' : ''}.`,
         `<div class="tiles">${charts.join('')}</div>`,
       ),
     );

@@ -2,7 +2,7 @@ import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { makeDiagram } from '../../src/core/diagram.js';
+import { type DiagramSet, makeDiagram } from '../../src/core/diagram.js';
 import { Random } from '../../src/core/random.js';
 import { multiplierBand } from '../../src/report/bands.js';
 import {
@@ -10,9 +10,11 @@ import {
   CONTRAST_ROWS_SHOWN,
   type DatasetReport,
   escapeHtml,
+  MEAN_LAYERS_SHOWN,
   renderReport,
   slug,
 } from '../../src/report/html.js';
+import { classMeans } from '../../src/report/means.js';
 import { contrastAll } from '../../src/report/permutation.js';
 import { type GridSpec, stackLandscapes } from '../../src/report/stack.js';
 import { tempDir, testOutput } from '../helpers/cli.js';
@@ -260,5 +262,149 @@ describe('renderReport: a long contrast family', () => {
     expect(table).not.toContain('height:0:1/H0');
     expect(table).toContain('The table shows the 60 smallest p values of 70 tests');
     expect(table).toContain('<th>filtration / degree</th>');
+  }, 60_000);
+});
+
+/** Samples with `pairs` nested H1 pairs each (so `pairs` are alive at once) and one finite H0 pair. */
+function nestedSets(label: string, pairs: number, n: number): DiagramSet[] {
+  return Array.from({ length: n }, (_, i) => ({
+    sample: `${label}-${i}`,
+    label,
+    diagrams: [
+      makeDiagram(0, [[0, 0.5 + 0.05 * i]]),
+      makeDiagram(
+        1,
+        Array.from({ length: pairs }, (_, p): [number, number] => [
+          p * 0.1 + 0.02 * i,
+          2 - p * 0.1 + 0.02 * i,
+        ]),
+      ),
+    ],
+  }));
+}
+
+describe('renderReport: counts in captions come from the data shown', () => {
+  /** A depth-3 report of images filtered by superlevel sets: two H1 pairs per 'pair' sample, one per 'disc'. */
+  async function depthThree(): Promise<string> {
+    const { dataset } = await buildReport();
+    const sets = [...nestedSets('pair', 2, 6), ...nestedSets('disc', 1, 6)];
+    const means = classMeans(sets, {
+      degrees: [0, 1],
+      depth: 3,
+      gridCount: 40,
+      exact: false,
+      band: { draws: 50 },
+    });
+    const t = Array.from({ length: 10 }, (_, j) => j / 9);
+    return renderReport({
+      title: 'Depth three',
+      version: '0.0.0',
+      command: 'test',
+      datasets: [
+        {
+          ...dataset,
+          name: 'frames',
+          summary: {
+            kind: 'image',
+            samples: 12,
+            classes: [
+              { label: 'disc', count: 6 },
+              { label: 'pair', count: 6 },
+            ],
+          },
+          options: { diagrams: { degrees: [0, 1], superlevel: true } },
+          accuracy: [
+            { features: 'landscape', model: 'pca-svm', mean: 0.7, std: 0.1 },
+            { features: 'raw', model: 'dense', mean: 0.95, std: 0.1 },
+          ],
+          confusions: [],
+          means: means.map((m) => ({ degree: m.degree, classes: m.classes })),
+          contrasts: [],
+          maps: {
+            weights: {
+              curves: [1, 2, 3].map((layer) => ({ degree: 1, layer, t, value: t.map((x) => x * layer) })),
+              note: 'Weights.',
+            },
+          },
+          examples: [
+            { label: 'pair', sample: 'pair-0', diagrams: sets[0].diagrams.filter((d) => d.degree === 1) },
+          ],
+        },
+      ],
+    });
+  }
+
+  it('names the layers drawn, the zero layers left out, the curves drawn, the clipped bars and the degrees in the key', async () => {
+    expect(MEAN_LAYERS_SHOWN).toBe(4);
+    const html = await depthThree();
+    const means = html.slice(html.indexOf('data-part="means"'), html.indexOf('data-part="maps"'));
+    const captions = [...means.matchAll(/<figcaption>(.*?)<\/figcaption>/g)].map((m) => m[1]);
+    expect(captions).toHaveLength(2);
+    // H0: one pair per sample, so only λ1 holds anything.
+    expect(captions[0]).toContain('Panels: λ1 of the 3 layers computed, on one shared y axis.');
+    expect(captions[0]).toContain(
+      'λ2 and λ3 are zero for every class (no sample has 2 H0 pairs alive at the same scale), so they have no panel.',
+    );
+    expect(captions[1]).toContain('Panels: λ1 and λ2 of the 3 layers computed, on one shared y axis.');
+    expect(captions[1]).toContain(
+      'λ3 is zero for every class (no sample has 3 H1 pairs alive at the same scale), so it has no panel.',
+    );
+    expect(captions[1]).toContain(
+      'In λ2 the mean of disc is zero (no sample of that class has 2 H1 pairs alive at the same scale): no band or line drawn.',
+    );
+    // Nothing names a fourth layer or a word count: the depth is 3.
+    expect(means).not.toMatch(/λ4|\bfour\b/);
+    expect(means).not.toContain('layer 3)');
+    // Superlevel sets of images: the scale axis says t is the negated grey level, in every scale-axis chart.
+    expect(means).toContain('filtration value t (superlevel sets: t = −grey level)');
+    expect(means).not.toContain('filtration scale t (data units)');
+    const maps = html.slice(html.indexOf('data-part="maps"'));
+    expect(maps).toContain('Weights. Curves drawn: λ1–λ3.');
+    expect(maps).toContain('filtration value t (superlevel sets: t = −grey level)');
+    // The accuracy caption says which bar was clipped, and where.
+    expect(html).toContain('Clipped here: raw · dense (at 1).');
+    // The example key lists H1 only (the only degree drawn) and no triangles (no essential class).
+    const examples = html.slice(html.indexOf('data-part="examples"'));
+    expect(examples).toMatch(/Colours: <span class="key" style="background:#[0-9a-f]{6}"><\/span>H1\./);
+    expect(examples).not.toContain('triangles');
+    expect(examples).toContain('birth (−grey level)');
+  }, 60_000);
+
+  it('draws no chart for a channel whose class means are zero everywhere, and says why', async () => {
+    const { dataset } = await buildReport();
+    // Only essential H1 classes (dropped before landscapes): every H1 landscape is zero.
+    const sets: DiagramSet[] = ['a', 'b'].flatMap((label) =>
+      Array.from({ length: 4 }, (_, i) => ({
+        sample: `${label}-${i}`,
+        label,
+        diagrams: [makeDiagram(0, [[0, 1 + i * 0.1]]), makeDiagram(1, [[0.5, Infinity]])],
+      })),
+    );
+    const means = classMeans(sets, {
+      degrees: [0, 1],
+      depth: 2,
+      gridCount: 20,
+      exact: false,
+      band: { draws: 20 },
+    });
+    const html = await renderReport({
+      title: 'Empty H1',
+      version: '0.0.0',
+      command: 'test',
+      datasets: [
+        {
+          ...dataset,
+          accuracy: [],
+          confusions: [],
+          contrasts: [],
+          maps: undefined,
+          examples: [],
+          means: means.map((m) => ({ degree: m.degree, classes: m.classes })),
+        },
+      ],
+    });
+    const part = html.slice(html.indexOf('data-part="means"'));
+    expect(part.match(/<figure class="chart"/g)).toHaveLength(1);
+    expect(part).toContain('<p class="how" data-empty="mean">H1: the mean landscape of every class is zero');
   }, 60_000);
 });
