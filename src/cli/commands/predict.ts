@@ -13,8 +13,10 @@ import { csvField, csvNumber } from '../../io/csv.js';
 import { parseKind, parseShape } from '../../io/load.js';
 import { checkFileOutput } from '../../io/output-guard.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
+import { diagramsForCommand, loadStudyDataset } from '../dataset-input.js';
+import { reportWritten } from '../finish.js';
 import { parseWorkersOption } from '../options.js';
-import { diagramsForCommand, loadStudyDataset } from './evaluate.js';
+import { MAX_WORKERS } from '../shared-options.js';
 
 interface PredictCommandOptions {
   kind?: string;
@@ -61,11 +63,12 @@ Output: sample,predicted,score:<class>… — one probability column per class o
 treated exactly as in training (same diagram options, grid and scaling, read from the model's manifest).
 
 Example:
-  landform predict models/lattice new-lattices.csv --out predictions.csv`,
+  npx landform predict models/lattice datasets/lattice.csv --out predictions.csv   # the shipped samples stand in for new ones`,
     )
     .action(async (modelDir: string, input: string, o: PredictCommandOptions) => {
       if (o.out !== undefined) checkFileOutput(o.out, [input, modelDir]);
-      const workers = o.workers === undefined ? undefined : parseWorkersOption(o.workers, o.quiet === true);
+      const workers =
+        o.workers === undefined ? undefined : parseWorkersOption(o.workers, o.quiet === true, MAX_WORKERS);
       const { loadModelFolder } = await import('../../learn/model-folder.js');
       const { Pipeline } = await import('../../learn/pipeline.js');
       const { manifest, files } = await loadModelFolder(modelDir);
@@ -122,7 +125,7 @@ Example:
             text,
             provenance('predict', { model: modelDir, input, samples: dataset.samples.length, classes }),
           );
-          process.stdout.write(`wrote ${o.out} (${dataset.samples.length} predictions)\n`);
+          reportWritten('predict', o.out, 'predictions', dataset.samples.length, o.quiet);
         }
       } finally {
         pipeline.dispose();

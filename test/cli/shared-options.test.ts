@@ -6,7 +6,7 @@ import {
   addFiltrationOptions,
   filtrationRecord,
   parseFiltrationOptions,
-} from '../../src/cli/filtration-options.js';
+} from '../../src/cli/shared-options.js';
 import { UserError } from '../../src/core/errors.js';
 import { parseDiagramCsv } from '../../src/io/diagram-csv.js';
 import { runCli, tempDir } from '../helpers/cli.js';
