@@ -16,7 +16,17 @@ export async function buildProgram(only?: string): Promise<Command> {
     .version(version(), '-V, --version')
     .showHelpAfterError(false)
     .showSuggestionAfterError(true)
-    .exitOverride();
+    .exitOverride()
+    .addHelpText(
+      'after',
+      `
+In a clone, run the command as 'npx landform …' (or 'npm link' once for a bare 'landform').
+
+Examples:
+  npx landform demo --quick --out results/demo
+  npx landform inspect datasets/lattice.csv
+  npx landform evaluate datasets/lattice.csv --out results/lattice`,
+    );
   // One command's module when `only` names one (loading every command's took about 0.1 s per run).
   const named = COMMANDS.filter((c) => c.name === only);
   const defines = await Promise.all((named.length > 0 ? named : COMMANDS).map((c) => c.load()));

@@ -3,16 +3,18 @@ import { checkFeatureColumns } from '../core/budgets.js';
 import type { InfinitePolicy } from '../core/diagram.js';
 import { UserError } from '../core/errors.js';
 import { SAMPLE_KINDS, type SampleKind } from '../core/sample.js';
+import { shown } from '../core/text.js';
 import { FEATURE_SET_NAMES, type FeatureSetName } from '../features/combined.js';
 import type { DiagramOptions } from '../homology/compute.js';
 import {
   describeSampleFiltration,
+  FILTRATION_CHOICES,
   filtrationList,
   isImageFiltration,
   parseFiltrationList,
   type SampleFiltration,
 } from '../homology/filtration.js';
-import { isBinaryFiltration } from '../homology/image-filtration.js';
+import { IMAGE_FILTRATION_CHOICES, isBinaryFiltration } from '../homology/image-filtration.js';
 import { METRICS, type Metric } from '../homology/metric.js';
 import type { DelayEmbedding } from '../homology/signal.js';
 import { describeSubsample, parseSubsample, type SubsampleSpec } from '../homology/subsample.js';
@@ -25,6 +27,7 @@ import {
 } from '../learn/classifier.js';
 import type { LandscapeCandidate } from '../learn/select.js';
 import {
+  closestNames,
   parseChoiceOption,
   parseDegreesOption,
   parseInfiniteOption,
@@ -33,7 +36,6 @@ import {
   parseNumberOption,
   parseWorkersOption,
   renamedOption,
-  unknownValue,
 } from './options.js';
 
 /**
@@ -58,7 +60,7 @@ export const EMBED_LIMITS = { dimension: 1000, delay: 1_000_000, stride: 1_000_0
 /** `--workers`: the largest count accepted before capping at the cores. */
 export const MAX_WORKERS = 1024;
 /** `--depth` / `--depths`: landscape layers. */
-export const MAX_DEPTH = 1000;
+export const MAX_DEPTH = 10_000;
 /** `--grid-size` / `--grid-sizes`: grid points per degree and layer. */
 export const MAX_GRID_SIZE = 100_000;
 /** Homology degrees computed from samples. */
@@ -123,8 +125,12 @@ export function parseFiltrationOptions(opts: {
   const text = opts.filtration ?? 'rips';
   for (const item of text.split(',')) {
     const head = item.trim().split(':')[0];
-    if (head !== '' && !(FILTRATION_WORDS as readonly string[]).includes(head))
-      throw unknownValue('--filtration', head, FILTRATION_WORDS);
+    if (head === '' || (FILTRATION_WORDS as readonly string[]).includes(head)) continue;
+    const close = closestNames(head, FILTRATION_WORDS);
+    const hint = close.length === 0 ? '' : ` (did you mean ${close.join(' or ')}?)`;
+    throw new UserError(
+      `--filtration '${shown(item.trim())}' is not known${hint}; choose ${FILTRATION_CHOICES} for clouds and matrices, or for images ${IMAGE_FILTRATION_CHOICES}`,
+    );
   }
   const list = parseFiltrationList(text);
   const filtration = list.length === 1 ? list[0] : list;

@@ -1,7 +1,7 @@
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { runCli, tempDir } from '../helpers/cli.js';
+import { runCli, tempDir, withoutCompletion } from '../helpers/cli.js';
 import { writeShapes } from './shapes-fixture.js';
 
 describe('landform predict', () => {
@@ -28,7 +28,7 @@ describe('landform predict', () => {
     expect(trained.code).toBe(0);
     const out = join(dir, 'predictions.csv');
     const r = runCli(['predict', model, fresh, '--workers', '1', '--out', out]);
-    expect(r.stderr).toBe('');
+    expect(withoutCompletion(r.stderr)).toBe('');
     expect(r.code).toBe(0);
     const lines = readFileSync(out, 'utf8').trim().split('\n');
     expect(lines[0]).toBe('sample,predicted,score:disc,score:loop');
@@ -83,7 +83,7 @@ describe('landform predict', () => {
       [lines[0], ...lines.slice(1).filter((l) => chosen.has(l.split(',')[0]))].join('\n') + '\n',
     );
     const r = runCli(['predict', join(root, 'models', 'lattice'), subset, '--workers', '1']);
-    expect(r.stderr).toBe('');
+    expect(withoutCompletion(r.stderr)).toBe('');
     expect(r.code).toBe(0);
     const out = r.stdout.trim().split('\n');
     expect(out[0]).toBe('sample,predicted,score:broken-strut,score:intact,score:merged-cells');
@@ -99,7 +99,7 @@ describe('landform predict', () => {
       '--workers',
       '1',
     ]);
-    expect(old.stderr).toBe('');
+    expect(withoutCompletion(old.stderr)).toBe('');
     expect(old.code).toBe(0);
     expect(old.stdout.trim().split('\n')).toHaveLength(7);
   });
@@ -117,7 +117,7 @@ describe('landform predict', () => {
       `landform: ${cube}: has points in 3 dimensions, but the model was trained on points in 2; give 2-D points or train a model on these\n`,
     );
     expect(r.code).toBe(2);
-    const v = runCli(['vectorize', cube, '--model', model, '--out', join(dir, 'v.csv')]);
+    const v = runCli(['vectorize', cube, '--from-model', model, '--out', join(dir, 'v.csv')]);
     expect(v.stderr).toMatch(/has points in 3 dimensions, but the model was trained on points in 2/);
     expect(v.code).toBe(2);
   });

@@ -167,13 +167,6 @@ Examples:
         );
       } else {
         await writeDiagramsOutput(plan.out, sets, plan.stamp(provenance('diagrams', record)), format);
-        reportWritten(
-          'diagrams',
-          plan.out,
-          `${format.toUpperCase()} diagrams`,
-          plan.samples.length,
-          options.quiet,
-        );
       }
       if (options.timings) {
         const s = (ms: number): string => `${(ms / 1000).toFixed(3)} s`;
@@ -184,5 +177,14 @@ Examples:
             `writing ${s(performance.now() - computed)}\n`,
         );
       }
+      // The completion line comes last, after the timings.
+      if (options.out !== undefined)
+        reportWritten(
+          'diagrams',
+          plan.out,
+          `${format.toUpperCase()} diagrams`,
+          plan.samples.length,
+          options.quiet,
+        );
     });
 }

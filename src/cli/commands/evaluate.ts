@@ -41,7 +41,8 @@ export async function parseStudy(input: string, o: StudyFlags, single = false): 
   const dataset = await loadStudyDataset(input, parsed, o.quiet === true);
   const featureSets =
     study.featureSets ?? (single ? featureSetsFor(dataset.kind).slice(0, 1) : featureSetsFor(dataset.kind));
-  for (const set of featureSets) checkFeatureSet(set, dataset.kind);
+  for (const set of featureSets)
+    checkFeatureSet(set, dataset.kind, single ? '--feature-set' : '--feature-sets');
   if (usesLandscape(featureSets))
     checkFeatureColumns(study.landscapeColumns, STUDY_COLUMN_OPTIONS, dataset.samples.length);
   const landscape: LandscapeVectorizerOptions = { degrees: parsed.degrees, infinite: study.infinite };

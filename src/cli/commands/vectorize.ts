@@ -222,7 +222,7 @@ Examples:
         learnsFromSamples = set !== 'landscape' || grid === undefined || o.standardize === true;
       }
       const dataset = await loadStudyDataset(input, parsed, o.quiet === true);
-      checkFeatureSet(extractor.set, dataset.kind);
+      checkFeatureSet(extractor.set, dataset.kind, '--feature-set');
       if (landscapeColumns !== undefined)
         checkFeatureColumns(landscapeColumns, COLUMN_OPTIONS, dataset.samples.length);
       const shapeProblem = modelShape && sampleShapeProblem(modelShape, dataset);
