@@ -12,8 +12,11 @@ export async function loadInput(
   path: string,
   options: { kind?: string; shape?: string; quiet?: boolean; label?: string },
 ): Promise<Dataset> {
-  const { loadDataset, parseKind, parseShape } = await import('../io/load.js');
-  const kind: SampleKind | undefined = options.kind === undefined ? undefined : parseKind(options.kind);
+  const { loadDataset, parseShape } = await import('../io/load.js');
+  const { parseChoiceOption } = await import('./options.js');
+  const { SAMPLE_KINDS } = await import('../core/sample.js');
+  const kind: SampleKind | undefined =
+    options.kind === undefined ? undefined : parseChoiceOption(options.kind, '--kind', SAMPLE_KINDS);
   const shape = options.shape === undefined ? undefined : parseShape(options.shape);
   const progress = await startProgress(options.label ?? 'loading', 1, options.quiet === true);
   try {

@@ -2,6 +2,7 @@ import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
 import {
   recordedSampleShape,
+  SAMPLE_KINDS,
   type SampleKind,
   type SampleShape,
   sampleShapeProblem,
@@ -10,12 +11,12 @@ import { provenance } from '../../core/version.js';
 import type { FeatureData } from '../../features/combined.js';
 import type { DiagramOptions } from '../../homology/compute.js';
 import { csvField, csvNumber } from '../../io/csv.js';
-import { parseKind, parseShape } from '../../io/load.js';
+import { parseShape } from '../../io/load.js';
 import { checkFileOutput } from '../../io/output-guard.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
 import { diagramsForCommand, loadStudyDataset } from '../dataset-input.js';
 import { reportWritten } from '../finish.js';
-import { parseWorkersOption } from '../options.js';
+import { parseChoiceOption, parseWorkersOption } from '../options.js';
 import { MAX_WORKERS } from '../shared-options.js';
 
 interface PredictCommandOptions {
@@ -89,7 +90,7 @@ Example:
         const parsed = {
           degrees: diagramOptions.degrees,
           diagramOptions,
-          ...(o.kind !== undefined ? { kind: parseKind(o.kind) } : {}),
+          ...(o.kind !== undefined ? { kind: parseChoiceOption(o.kind, '--kind', SAMPLE_KINDS) } : {}),
           ...(o.shape !== undefined ? { shape: parseShape(o.shape) } : {}),
           ...(workers !== undefined ? { workers } : {}),
         };
