@@ -15,7 +15,18 @@ export async function buildProgram(only?: string): Promise<Command> {
     .description('Topological features and validated classifiers from labelled samples.')
     .version(version(), '-V, --version')
     .showHelpAfterError(false)
-    .exitOverride();
+    .showSuggestionAfterError(true)
+    .exitOverride()
+    .addHelpText(
+      'after',
+      `
+In a clone, run the command as 'npx landform …' (or 'npm link' once for a bare 'landform').
+
+Examples:
+  npx landform demo --quick --out results/demo
+  npx landform inspect datasets/lattice.csv
+  npx landform evaluate datasets/lattice.csv --out results/lattice`,
+    );
   // One command's module when `only` names one (loading every command's took about 0.1 s per run).
   const named = COMMANDS.filter((c) => c.name === only);
   const defines = await Promise.all((named.length > 0 ? named : COMMANDS).map((c) => c.load()));
@@ -54,11 +65,7 @@ export async function main(argv: string[]): Promise<number> {
         return 0;
       }
       if (error.exitCode === 0) return 0;
-      const first =
-        (commanderMessage || error.message).split('\n').find((l) => l.trim() !== '') ?? error.message;
-      const sub = program.commands.find((c) => c.name() === argv[0]);
-      const what = first.replace(/^error:\s*/, '').replace(/\.\s*$/, '');
-      process.stderr.write(`landform: ${what}; see 'landform ${sub ? `${sub.name()} ` : ''}--help'\n`);
+      process.stderr.write(commanderErrorLine(commanderMessage || error.message, program, argv));
       return 2;
     }
     if (isUserError(error)) {
@@ -79,6 +86,26 @@ export async function main(argv: string[]): Promise<number> {
     if (debug && e?.stack) process.stderr.write(e.stack + '\n');
     return 1;
   }
+}
+
+/**
+ * Commander's error as our one line: `landform: unknown option '--grid-sise' (did you mean --grid-size?); see
+ * 'landform vectorize --help'`. Commander puts its suggestion ("(Did you mean …?)", edit distance over the
+ * visible names) on a second line; it is folded into the one line here, so it is not lost.
+ */
+export function commanderErrorLine(message: string, program: Command, argv: readonly string[]): string {
+  const lines = message
+    .split('\n')
+    .map((l) => l.trim())
+    .filter((l) => l !== '');
+  const first = lines[0] ?? message;
+  const suggestion = lines.map((l) => /^\(Did you mean (.+)\?\)$/.exec(l)).find((m) => m !== null);
+  const sub = program.commands.find((c) => c.name() === argv[0]);
+  const what = first.replace(/^error:\s*/, '').replace(/\.\s*$/, '');
+  const hint = suggestion
+    ? ` (did you mean ${suggestion[1].replace(/^one of /, '').replace(/, /g, ' or ')}?)`
+    : '';
+  return `landform: ${what}${hint}; see 'landform ${sub ? `${sub.name()} ` : ''}--help'\n`;
 }
 
 /**

@@ -1,6 +1,7 @@
 import { coreCount } from '../core/budgets.js';
 import { type InfinitePolicy, parseInfinitePolicy } from '../core/diagram.js';
 import { UserError } from '../core/errors.js';
+import { shown } from '../core/text.js';
 import { isDecimalText } from '../io/csv.js';
 
 /** Parsers for option values; each throws the one-line user error naming the option. */
@@ -68,18 +69,87 @@ export function parseListOption<T extends string>(text: string, option: string, 
     .filter((s) => s !== '');
   if (parts.length === 0) throw new UserError(`${option} is empty; choose from ${allowed.join(', ')}`);
   for (const p of parts) {
-    if (!(allowed as readonly string[]).includes(p)) {
-      throw new UserError(`${option} '${p}' is not known; choose from ${allowed.join(', ')}`);
-    }
+    if (!(allowed as readonly string[]).includes(p)) throw unknownValue(option, p, allowed);
   }
   return [...new Set(parts)] as T[];
 }
 
 export function parseChoiceOption<T extends string>(text: string, option: string, allowed: readonly T[]): T {
-  if (!(allowed as readonly string[]).includes(text)) {
-    throw new UserError(`${option} '${text}' is not known; choose from ${allowed.join(', ')}`);
-  }
+  if (!(allowed as readonly string[]).includes(text)) throw unknownValue(option, text, allowed);
   return text as T;
+}
+
+/**
+ * The one-line refusal of a value that is not among `allowed`: `--model 'pca-svn' is not known (did you mean
+ * pca-svm?); choose from pca-svm, dense, forest` (the suggestion only when a known value is close).
+ */
+export function unknownValue(option: string, value: string, allowed: readonly string[]): UserError {
+  const close = closestNames(value, allowed);
+  const hint = close.length === 0 ? '' : ` (did you mean ${close.join(' or ')}?)`;
+  return new UserError(`${option} '${shown(value)}' is not known${hint}; choose from ${allowed.join(', ')}`);
+}
+
+/**
+ * The known names closest to `word` by edit distance (insertions, deletions, substitutions and swaps of
+ * two neighbours, each counting 1; the optimal string alignment distance): those at the smallest distance,
+ * if it is at most 3 and at least 40 % of the longer name is kept. Common practice, no source: the same
+ * rule commander applies to unknown options and commands, so values and options are suggested alike.
+ */
+export function closestNames(word: string, known: readonly string[]): string[] {
+  let best = 4;
+  let found: string[] = [];
+  for (const name of new Set(known)) {
+    if (name.length <= 1) continue;
+    const d = editDistance(word, name);
+    const length = Math.max(word.length, name.length);
+    if ((length - d) / length <= 0.4 || d > best) continue;
+    if (d < best) {
+      best = d;
+      found = [name];
+    } else found.push(name);
+  }
+  return found;
+}
+
+/** Optimal string alignment distance between two short strings. */
+export function editDistance(a: string, b: string): number {
+  const rows = a.length + 1;
+  const cols = b.length + 1;
+  const d = new Uint16Array(rows * cols);
+  for (let i = 0; i < rows; i++) d[i * cols] = i;
+  for (let j = 0; j < cols; j++) d[j] = j;
+  for (let i = 1; i < rows; i++) {
+    for (let j = 1; j < cols; j++) {
+      const cost = a[i - 1] === b[j - 1] ? 0 : 1;
+      let v = Math.min(d[(i - 1) * cols + j] + 1, d[i * cols + j - 1] + 1, d[(i - 1) * cols + j - 1] + cost);
+      if (i > 1 && j > 1 && a[i - 1] === b[j - 2] && a[i - 2] === b[j - 1])
+        v = Math.min(v, d[(i - 2) * cols + j - 2] + 1);
+      d[i * cols + j] = v;
+    }
+  }
+  return d[rows * cols - 1];
+}
+
+/**
+ * An option renamed in this release: the old flag stays accepted, hidden from help, for one release. Reads
+ * the value given under either name; the old one prints one note on stderr (not with --quiet); both at
+ * once is refused.
+ */
+export function renamedOption(
+  opts: object,
+  names: { key: string; flag: string; oldKey: string; oldFlag: string },
+): string | undefined {
+  const given = opts as Record<string, unknown>;
+  const value = given[names.key] as string | undefined;
+  const old = given[names.oldKey] as string | undefined;
+  if (old === undefined) return value;
+  if (value !== undefined)
+    throw new UserError(`${names.oldFlag} is the old name of ${names.flag}; give ${names.flag} only`);
+  if (given.quiet !== true)
+    process.stderr.write(
+      `landform: note: ${names.oldFlag} is now ${names.flag}; the old name will be removed in the next release\n`,
+    );
+  return old;
 }
 
 /** `START:STOP:COUNT` → a grid with COUNT ≥ 2 points and START < STOP. */

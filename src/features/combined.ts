@@ -52,7 +52,7 @@ export interface FeatureData {
 
 /**
  * The feature sets a study compares by default for a sample kind: tables only `raw`, diagrams only
- * `landscape`. `betti`, `stats` and `pimage` are asked for by name (`--features`), so a default study keeps
+ * `landscape`. `betti`, `stats` and `pimage` are asked for by name (`--feature-sets`), so a default study keeps
  * its cost and its rows (see DEVELOPERS.md, "How to add a feature type").
  */
 export function featureSetsFor(kind: SampleKind): FeatureSetName[] {
@@ -62,15 +62,15 @@ export function featureSetsFor(kind: SampleKind): FeatureSetName[] {
 }
 
 /** Throws the user's error when `set` cannot be built from samples of `kind`. */
-export function checkFeatureSet(set: FeatureSetName, kind: SampleKind): void {
+export function checkFeatureSet(set: FeatureSetName, kind: SampleKind, option = '--feature-sets'): void {
   if (kind === 'table' && set !== 'raw') {
     throw new UserError(
-      `--features ${set} needs diagrams, but a table dataset has only its columns; use --features raw`,
+      `${option} ${set} needs diagrams, but a table dataset has only its columns; use ${option} raw`,
     );
   }
   if (kind === 'diagrams' && !DIAGRAM_FEATURE_SETS.includes(set)) {
     throw new UserError(
-      `--features ${set} needs the original samples, but a diagrams dataset has none; use --features ${DIAGRAM_FEATURE_SETS.join(', ')}`,
+      `${option} ${set} needs the original samples, but a diagrams dataset has none; use ${option} ${DIAGRAM_FEATURE_SETS.join(', ')}`,
     );
   }
 }

@@ -2,7 +2,7 @@ import { readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { Random } from '../../src/core/random.js';
-import { runCli, tempDir } from '../helpers/cli.js';
+import { runCli, tempDir, withoutCompletion } from '../helpers/cli.js';
 
 const dir = tempDir();
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -37,7 +37,7 @@ describe('landform contrast', () => {
 
   it('prints the JSON contract: every pair × degree with p and Holm-adjusted p', () => {
     const result = runCli(['contrast', file, '--degrees', '0,1', '--permutations', '199', '--seed', '3']);
-    expect(result.stderr).toBe('');
+    expect(withoutCompletion(result.stderr)).toBe('');
     expect(result.code).toBe(0);
     const json = JSON.parse(result.stdout) as { seed: number; tests: Array<Record<string, unknown>> };
     expect(json.seed).toBe(3);
@@ -73,7 +73,13 @@ describe('landform contrast', () => {
     expect(result.code).toBe(0);
     const text = readFileSync(out, 'utf8');
     expect(text).toMatch(/^degree\s+class a\s+class b/);
-    expect(text).toContain('3 tests (every pair of classes × degree), Holm-corrected together');
+    // Degrees 0,1 by default, as in every command: 3 pairs × 2 degrees.
+    expect(text).toContain('6 tests (every pair of classes × degree), Holm-corrected together');
+    expect(result.stderr).toMatch(
+      new RegExp(
+        `^landform contrast: wrote ${out.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')} \\(text class contrasts, 36 samples, \\d+\\.\\d s\\)\n$`,
+      ),
+    );
   });
 
   it('computes diagrams of point clouds first', () => {
@@ -93,12 +99,15 @@ describe('landform contrast', () => {
     const clouds = join(dir, 'clouds.csv');
     writeFileSync(clouds, lines.join('\n') + '\n');
     const result = runCli(['contrast', clouds, '--permutations', '199', '--workers', '1']);
-    expect(result.stderr).toBe('');
-    const json = JSON.parse(result.stdout) as { tests: Array<{ a: string; b: string; p: number }> };
-    expect(json.tests).toHaveLength(1);
+    expect(withoutCompletion(result.stderr)).toBe('');
+    const json = JSON.parse(result.stdout) as {
+      tests: Array<{ a: string; b: string; degree: number; p: number }>;
+    };
+    // Degrees 0,1 by default, as in diagrams, evaluate and train.
+    expect(json.tests.map((t) => t.degree)).toEqual([0, 1]);
     // A circle has one long H1 bar, a filled blob none: with 6 against 6 every relabelling but the
     // observed one (and its mirror) gives a smaller distance, so p is near its floor 1/200.
-    expect(json.tests[0].p).toBeLessThan(0.02);
+    expect(json.tests[1].p).toBeLessThan(0.02);
   });
 
   it('refuses a single class, an unknown format and a bad p with one line and exit 2', () => {
@@ -116,6 +125,10 @@ describe('landform contrast', () => {
     expect(kind.code).toBe(2);
     expect(kind.stderr).toBe(
       "landform: --kind 'nope' is not known; choose from points, distances, signal, image, table, diagrams\n",
+    );
+    const close = runCli(['contrast', file, '--kind', 'diagram']);
+    expect(close.stderr).toBe(
+      "landform: --kind 'diagram' is not known (did you mean diagrams?); choose from points, distances, signal, image, table, diagrams\n",
     );
     const p = runCli(['contrast', file, '--p', '0.5']);
     expect(p.code).toBe(2);

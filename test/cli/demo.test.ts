@@ -1,7 +1,7 @@
 import { readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { runCli, tempDir } from '../helpers/cli.js';
+import { runCli, tempDir, withoutCompletion } from '../helpers/cli.js';
 
 const dir = tempDir();
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -28,7 +28,15 @@ describe('landform demo', () => {
   it('runs the study on the shipped datasets and writes metrics.json and report.html', () => {
     const out = join(dir, 'demo');
     const result = runCli(['demo', '--quick', '--out', out]);
-    expect(result.stderr.split('\n').filter((l) => l !== '' && !l.startsWith('landform: demo '))).toEqual([]);
+    expect(
+      withoutCompletion(result.stderr)
+        .split('\n')
+        .filter((l) => l !== '' && !l.startsWith('landform: demo ')),
+    ).toEqual([]);
+    // The completion line (src/cli/finish.ts) ends the run: 3 datasets of 75 samples each.
+    expect(result.stderr).toMatch(
+      /landform demo: wrote .*demo \(metrics\.json and report\.html, 225 samples, [\d.]+ s\)\n$/,
+    );
     expect(result.code).toBe(0);
     expect(result.stdout).toContain(`metrics: ${join(out, 'metrics.json')}`);
     expect(result.stdout).toContain(`report:  ${join(out, 'report.html')}`);

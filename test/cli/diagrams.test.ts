@@ -3,7 +3,7 @@ import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseDiagramCsv } from '../../src/io/diagram-csv.js';
-import { runCli, tempDir } from '../helpers/cli.js';
+import { runCli, tempDir, withoutCompletion } from '../helpers/cli.js';
 
 /** Two rings and two small blobs of 40 points each (a demo scenario: printed struts seen end-on). */
 function ringsCsv(): string {
@@ -28,7 +28,7 @@ describe('landform diagrams', () => {
     writeFileSync(input, ringsCsv());
     const out = join(dir, 'd.csv');
     const r = runCli(['diagrams', input, '--degrees', '0,1', '--workers', '2', '--out', out]);
-    expect(r.stderr).toBe('');
+    expect(withoutCompletion(r.stderr)).toBe('');
     expect(r.code).toBe(0);
     const sets = parseDiagramCsv(readFileSync(out, 'utf8'), out);
     expect(sets.map((s) => s.sample)).toEqual(['strut-0', 'strut-1', 'strut-2', 'strut-3']);
@@ -53,9 +53,13 @@ describe('landform diagrams', () => {
     expect(timed.stdout).toBe('');
     const m =
       /^landform: timings: start-up ([\d.]+) s, reading ([\d.]+) s, computing ([\d.]+) s \(4 samples, 1 thread\), writing ([\d.]+) s\n$/.exec(
-        timed.stderr,
+        withoutCompletion(timed.stderr),
       );
     expect(m, timed.stderr).not.toBeNull();
+    // The completion line comes last.
+    expect(timed.stderr).toMatch(
+      /\nlandform diagrams: wrote .*d1\.csv \(CSV diagrams, 4 samples, [\d.]+ s\)\n$/,
+    );
     expect(Number(m?.[1])).toBeGreaterThan(0);
   }, 60000);
 
@@ -105,7 +109,7 @@ describe('landform diagrams', () => {
       '--out',
       out,
     ]);
-    expect(r.stderr).toBe('');
+    expect(withoutCompletion(r.stderr)).toBe('');
     expect(r.code).toBe(0);
     const prov = JSON.parse(readFileSync(`${out}.provenance.json`, 'utf8'));
     expect(prov.options.filtration).toBe('dtm:4');
@@ -119,9 +123,18 @@ describe('landform diagrams', () => {
     const dir = tempDir();
     const input = join(dir, 'struts.csv');
     writeFileSync(input, ringsCsv());
-    const noOut = runCli(['diagrams', input]);
-    expect(noOut.code).toBe(2);
-    expect(noOut.stderr).toMatch(/--out/);
+    // No --out: the CSV goes to standard output, the same bytes as the file, and no completion line.
+    const noOut = runCli(['diagrams', input, '--workers', '1']);
+    expect(noOut.code).toBe(0);
+    expect(noOut.stderr).toBe('');
+    const file = join(dir, 'file.csv');
+    expect(runCli(['diagrams', input, '--workers', '1', '--out', file]).code).toBe(0);
+    expect(noOut.stdout).toBe(readFileSync(file, 'utf8'));
+    const shard = runCli(['diagrams', input, '--shard', '1/2']);
+    expect(shard.code).toBe(2);
+    expect(shard.stderr).toBe(
+      'landform: --shard needs --out FILE: each shard is written beside it as FILE.shard-I-of-N\n',
+    );
     const embed = runCli(['diagrams', input, '--embed', '3', '--out', join(dir, 'x.csv')]);
     expect(embed.code).toBe(2);
     expect(embed.stderr).toMatch(/DIM:DELAY/);
@@ -146,7 +159,7 @@ describe('landform diagrams: resource guards', () => {
       join(dir, 'many.csv'),
     ]);
     expect(many.code).toBe(0);
-    expect(many.stderr).toBe(
+    expect(withoutCompletion(many.stderr)).toBe(
       `landform: --workers 1000 is more than the ${cores} core${cores === 1 ? '' : 's'} of this machine; using ${cores}\n`,
     );
     const one = runCli([
@@ -165,7 +178,7 @@ describe('landform diagrams: resource guards', () => {
     expect(readFileSync(join(dir, 'many.csv'), 'utf8')).toBe(readFileSync(join(dir, 'one.csv'), 'utf8'));
     const quiet = runCli(['diagrams', input, '--workers', '1000', '--quiet', '--out', join(dir, 'q.csv')]);
     expect(quiet.code).toBe(0);
-    expect(quiet.stderr).toBe('');
+    expect(withoutCompletion(quiet.stderr)).toBe('');
   });
 
   it('refuses a 60,000-point cloud in one line before computing its distances', () => {

@@ -45,11 +45,23 @@ describe('landform distance', () => {
     const other = join(dir, 'b.csv');
     writeFileSync(other, 'sample,label,degree,birth,death\nq,x,0,0,inf\nq,x,0,0,0.5\n');
     const out = join(dir, 'd.csv');
-    const r = runCli(['distance', file, other, '--degree', '0', '--metric', 'wasserstein:1', '--out', out]);
+    const r = runCli([
+      'distance',
+      file,
+      other,
+      '--degree',
+      '0',
+      '--diagram-distance',
+      'wasserstein:1',
+      '--out',
+      out,
+    ]);
     expect(r.code).toBe(0);
     // a equals q; b lacks the (0, 0.5) point (0.25 to the diagonal); c has two essential classes, q one.
     expect(readFileSync(out, 'utf8')).toBe('sample,q\na,0\nb,0.25\nc,inf\n');
-    expect(JSON.parse(readFileSync(`${out}.provenance.json`, 'utf8')).options.metric).toBe('wasserstein:1');
+    expect(JSON.parse(readFileSync(`${out}.provenance.json`, 'utf8')).options.diagramDistance).toBe(
+      'wasserstein:1',
+    );
     // Dropping essential classes: c's (0, 0.2) and q's (0, 0.5) both go to the diagonal (0.1 and 0.25),
     // cheaper in the bottleneck sense than matching them (0.3).
     const dropped = runCli(['distance', file, other, '--degree', '0', '--infinite', 'drop']);
@@ -60,9 +72,20 @@ describe('landform distance', () => {
     const dir = tempDir();
     const file = join(dir, 'a.csv');
     writeFileSync(file, A);
-    const metric = runCli(['distance', file, '--metric', 'wasserstein:0.5']);
+    const metric = runCli(['distance', file, '--diagram-distance', 'wasserstein:0.5']);
     expect(metric.code).toBe(2);
-    expect(metric.stderr).toMatch(/^landform: --metric 'wasserstein:0.5' must be/);
+    expect(metric.stderr).toMatch(/^landform: --diagram-distance 'wasserstein:0.5' must be[^\n]*\n$/);
+    // --metric is the distance between points; here it is the old name, accepted for one release with a note.
+    const old = runCli(['distance', file, '--metric', 'wasserstein:1']);
+    expect(old.code).toBe(0);
+    expect(old.stderr).toBe(
+      'landform: note: --metric is now --diagram-distance; the old name will be removed in the next release\n',
+    );
+    expect(old.stdout).toBe(runCli(['distance', file, '--diagram-distance', 'wasserstein:1']).stdout);
+    expect(runCli(['distance', file, '--metric', 'wasserstein:1', '--quiet']).stderr).toBe('');
+    const point = runCli(['distance', file, '--metric', 'euclidean', '--quiet']);
+    expect(point.code).toBe(2);
+    expect(point.stderr).toMatch(/--metric is the distance between points, --diagram-distance this one\n$/);
     const degree = runCli(['distance', file, '--degree', '2']);
     expect(degree.code).toBe(2);
     expect(degree.stderr).toMatch(/a\.csv: degree 2 is not in the file/);

@@ -33,7 +33,7 @@ describe('landform evaluate when the report fails', () => {
         input,
         '--models',
         'pca-svm',
-        '--features',
+        '--feature-sets',
         'landscape',
         '--folds',
         '3',

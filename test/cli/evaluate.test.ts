@@ -1,7 +1,7 @@
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { runCli, tempDir } from '../helpers/cli.js';
+import { runCli, tempDir, withoutCompletion } from '../helpers/cli.js';
 import { writeShapes } from './shapes-fixture.js';
 
 const FAST = ['--models', 'pca-svm', '--depths', '2', '--grid-sizes', '8', '--workers', '1', '--folds', '3'];
@@ -16,21 +16,21 @@ describe('landform evaluate', () => {
       'evaluate',
       input,
       ...FAST,
-      '--features',
+      '--feature-sets',
       'landscape,raw',
       '--seed',
       '3',
       '--out',
       join(dir, 'a'),
     ]);
-    expect(a.stderr).toBe('');
+    expect(withoutCompletion(a.stderr)).toBe('');
     expect(a.code).toBe(0);
     expect(a.stdout).toMatch(/^landscape {2}pca-svm {2}accuracy \d\.\d{3} ± \d\.\d{3}/);
     const b = runCli([
       'evaluate',
       input,
       ...FAST,
-      '--features',
+      '--feature-sets',
       'landscape,raw',
       '--seed',
       '3',
@@ -209,7 +209,7 @@ describe('landform evaluate: fixed model values, PCA variance and progress lines
       'evaluate',
       input,
       ...FAST,
-      '--features',
+      '--feature-sets',
       'raw',
       '--svm-kernel',
       'rbf',
@@ -241,12 +241,12 @@ describe('landform evaluate: fixed model values, PCA variance and progress lines
       expect(h.varianceKept).toBe(1);
     }
     // The same study without --progress stays quiet in a pipe (the default).
-    const quiet = runCli(['evaluate', input, ...FAST, '--features', 'raw', '--out', join(dir, 'plain')]);
-    expect(quiet.stderr).toBe('');
+    const quiet = runCli(['evaluate', input, ...FAST, '--feature-sets', 'raw', '--out', join(dir, 'plain')]);
+    expect(withoutCompletion(quiet.stderr)).toBe('');
   });
 
   it('LANDFORM_PROGRESS=lines asks for the lines too', () => {
-    const r = runCli(['evaluate', input, ...FAST, '--features', 'raw', '--out', join(dir, 'env')], {
+    const r = runCli(['evaluate', input, ...FAST, '--feature-sets', 'raw', '--out', join(dir, 'env')], {
       env: { LANDFORM_PROGRESS: 'lines' },
     });
     expect(r.code).toBe(0);

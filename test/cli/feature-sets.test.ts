@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { runCli, tempDir } from '../helpers/cli.js';
+import { runCli, tempDir, withoutCompletion } from '../helpers/cli.js';
 import { writeShapes } from './shapes-fixture.js';
 
 // Betti curves, persistence statistics and persistence images with the forest, through the commands
@@ -17,7 +17,7 @@ describe('feature sets betti, stats, pimage and the forest model through the com
     const r = runCli([
       'evaluate',
       input,
-      '--features',
+      '--feature-sets',
       'betti,stats,pimage',
       '--models',
       'forest',
@@ -31,7 +31,7 @@ describe('feature sets betti, stats, pimage and the forest model through the com
       '--out',
       join(dir, 'study'),
     ]);
-    expect(r.stderr).toBe('');
+    expect(withoutCompletion(r.stderr)).toBe('');
     expect(r.code).toBe(0);
     const doc = JSON.parse(readFileSync(join(dir, 'study', 'metrics.json'), 'utf8'));
     expect(doc.results.map((x: { features: string; model: string }) => `${x.features}/${x.model}`)).toEqual([
@@ -57,9 +57,9 @@ describe('feature sets betti, stats, pimage and the forest model through the com
     const t = runCli([
       'train',
       input,
-      '--features',
+      '--feature-set',
       'stats',
-      '--models',
+      '--model',
       'forest',
       '--workers',
       '1',
@@ -67,7 +67,7 @@ describe('feature sets betti, stats, pimage and the forest model through the com
       '--save',
       model,
     ]);
-    expect(t.stderr).toBe('');
+    expect(withoutCompletion(t.stderr)).toBe('');
     expect(t.code).toBe(0);
     const manifest = JSON.parse(readFileSync(join(model, 'manifest.json'), 'utf8'));
     expect(manifest.features).toBe('stats');
@@ -90,8 +90,8 @@ describe('feature sets betti, stats, pimage and the forest model through the com
   it('train → predict round trip with persistence images and Betti curves under pca-svm', () => {
     for (const set of ['pimage', 'betti']) {
       const model = join(dir, `model-${set}`);
-      const t = runCli(['train', input, '--features', set, '--workers', '1', '--quiet', '--save', model]);
-      expect(t.stderr).toBe('');
+      const t = runCli(['train', input, '--feature-set', set, '--workers', '1', '--quiet', '--save', model]);
+      expect(withoutCompletion(t.stderr)).toBe('');
       expect(t.code).toBe(0);
       const p = runCli(['predict', model, fresh, '--workers', '1', '--quiet']);
       expect(p.stderr).toBe('');

@@ -2,7 +2,7 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { runCli, tempDir } from '../helpers/cli.js';
+import { runCli, tempDir, withoutCompletion } from '../helpers/cli.js';
 
 const root = new URL('../../', import.meta.url).pathname;
 const hasScript = existsSync('/usr/bin/script');
@@ -30,7 +30,7 @@ describe('landform inspect', () => {
     const field = runCli(['inspect', 'datasets/field']);
     expect(field.stdout).toMatch(/^kind\s+image$/m);
     expect(field.stdout).toMatch(/^image shapes\s+40×40$/m);
-    expect(field.stderr).toBe('');
+    expect(withoutCompletion(field.stderr)).toBe('');
   });
 
   it('prints JSON with the version and options, and obeys --kind', () => {
@@ -55,7 +55,7 @@ describe('landform inspect', () => {
   it('shows no progress bar in a pipe, even outside CI', () => {
     const r = runCli(['inspect', 'datasets/lattice.csv'], { env: { CI: '' } });
     expect(r.code).toBe(0);
-    expect(r.stderr).toBe('');
+    expect(withoutCompletion(r.stderr)).toBe('');
   });
 
   it.skipIf(!hasScript)('shows a progress bar on a terminal, and none with --quiet', () => {

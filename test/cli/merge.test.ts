@@ -8,7 +8,7 @@ import type { DiagramSample } from '../../src/core/sample.js';
 import { provenance } from '../../src/core/version.js';
 import { writeDiagramsOutput } from '../../src/io/outputs.js';
 import { planShard, resolveShard } from '../../src/io/shard.js';
-import { runCli, tempDir } from '../helpers/cli.js';
+import { runCli, tempDir, withoutCompletion } from '../helpers/cli.js';
 
 /** Made-up diagrams for the file mechanics of the command (demo data, no numeric claim). */
 function demoSamples(count = 21): DiagramSample[] {
@@ -55,7 +55,9 @@ describe('landform merge', () => {
     const { files, whole } = await writeShards(dir, 3);
     const out = join(dir, 'merged.csv');
     const r = runCli(['merge', ...files, '--out', out]);
-    expect(r.stderr).toMatch(/merged 3 shards \(21 samples, diagrams\)/);
+    expect(r.stderr).toMatch(
+      /^landform merge: wrote .*merged\.csv \(diagrams merged from 3 shards, 21 samples, \d+\.\d s\)\n$/,
+    );
     expect(r.code).toBe(0);
     expect(readFileSync(out).equals(readFileSync(whole))).toBe(true);
   });
@@ -208,7 +210,7 @@ describe('sharded diagrams and vectorize through the CLI', () => {
       const whole = join(dir, `whole.${ext}`);
       const w = await landform(['diagrams', ...diagramArgs, '--out', whole]);
       expect(w.code, w.stderr).toBe(0);
-      expect(w.stderr).toBe('');
+      expect(withoutCompletion(w.stderr)).toBe('');
       for (const n of ext === 'csv' ? [1, 3, 7] : [3]) {
         const outDir = join(dir, `${ext}-n${n}`);
         for (let i = 1; i <= n; i++) {

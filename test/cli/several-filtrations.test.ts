@@ -1,7 +1,7 @@
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { runCli, tempDir } from '../helpers/cli.js';
+import { runCli, tempDir, withoutCompletion } from '../helpers/cli.js';
 import { imageTableCsv, mnistDigits } from '../helpers/mnist.js';
 
 /** Digits 0, 1 and 8 of the open MNIST set (LeCun et al. 1998), images `from` … `from + perClass − 1` of each. */
@@ -25,7 +25,7 @@ describe('several filtrations through evaluate, train, predict, contrast and lan
       '28x28',
       '--filtration',
       FILTRATIONS,
-      '--features',
+      '--feature-sets',
       'landscape',
       '--models',
       'pca-svm',
@@ -35,7 +35,7 @@ describe('several filtrations through evaluate, train, predict, contrast and lan
       '--out',
       study,
     ]);
-    expect(e.stderr).toBe('');
+    expect(withoutCompletion(e.stderr)).toBe('');
     expect(e.code).toBe(0);
     const metrics = JSON.parse(readFileSync(join(study, 'metrics.json'), 'utf8'));
     expect(metrics.options.diagrams.filtration).toBe(FILTRATIONS);
@@ -53,13 +53,13 @@ describe('several filtrations through evaluate, train, predict, contrast and lan
       '28x28',
       '--filtration',
       FILTRATIONS,
-      '--models',
+      '--model',
       'pca-svm',
       ...SMALL,
       '--save',
       model,
     ]);
-    expect(t.stderr).toBe('');
+    expect(withoutCompletion(t.stderr)).toBe('');
     expect(t.code).toBe(0);
     expect(readFileSync(join(model, 'manifest.json'), 'utf8')).toContain('erosion');
 
@@ -107,13 +107,13 @@ describe('several filtrations through evaluate, train, predict, contrast and lan
       '0,1',
       '--permutations',
       '99',
-      '--grid-count',
+      '--grid-size',
       '40',
       '--workers',
       '1',
       '--quiet',
     ]);
-    expect(c.stderr).toBe('');
+    expect(withoutCompletion(c.stderr)).toBe('');
     expect(c.code).toBe(0);
     const json = JSON.parse(c.stdout) as {
       family: string;
@@ -145,7 +145,7 @@ describe('several filtrations through evaluate, train, predict, contrast and lan
       /holds diagrams of 3 filtrations \(height:1:0, height:0:1, erosion\); choose one with --from\n$/,
     );
     const l = runCli(['landscape', diagrams, '--sample', 'd0-0', '--degree', '1', '--from', 'erosion']);
-    expect(l.stderr).toBe('');
+    expect(withoutCompletion(l.stderr)).toBe('');
     expect(l.code).toBe(0);
     const body = JSON.parse(l.stdout) as {
       degree: number;

@@ -1,7 +1,7 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { runCli, tempDir } from '../helpers/cli.js';
+import { runCli, tempDir, withoutCompletion } from '../helpers/cli.js';
 import { writeShapes } from './shapes-fixture.js';
 
 describe('landform train', () => {
@@ -23,7 +23,7 @@ describe('landform train', () => {
       '--save',
       save,
     ]);
-    expect(r.stderr).toBe('');
+    expect(withoutCompletion(r.stderr)).toBe('');
     expect(r.code).toBe(0);
     expect(r.stdout).toMatch(
       /^trained landscape \+ pca-svm on 10 samples \(2 classes\); chosen depth=[23] gridSize=8 /,
@@ -69,6 +69,7 @@ describe('landform train', () => {
       'landform: diagrams 10/10 (100%)',
       'landform: final fit 0/1 (0%)',
       'landform: final fit 1/1 (100%)',
+      `landform train: wrote ${save} (model folder of landscape + pca-svm`,
       '',
     ]);
     expect(r.stdout).toMatch(/chosen depth=2 gridSize=8 C=3 kernel=linear varianceKept=1\n/);
@@ -79,9 +80,11 @@ describe('landform train', () => {
   });
 
   it('refuses two models at once and a missing --save, one line each', () => {
-    const a = runCli(['train', input, '--models', 'pca-svm,dense', '--save', join(dir, 'x')]);
+    const a = runCli(['train', input, '--model', 'pca-svm,dense', '--save', join(dir, 'x')]);
     expect(a.code).toBe(2);
-    expect(a.stderr).toBe('landform: --models takes one model here, got pca-svm,dense; pick one\n');
+    expect(a.stderr).toBe(
+      "landform: --model takes one value here, got 'pca-svm,dense'; pick one (evaluate compares several)\n",
+    );
     const b = runCli(['train', input]);
     expect(b.code).toBe(2);
     expect(b.stderr).toBe(

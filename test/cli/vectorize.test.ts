@@ -2,7 +2,7 @@ import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseLandscapeFeatureName } from '../../src/features/landscape-vectorizer.js';
-import { runCli, tempDir } from '../helpers/cli.js';
+import { COMPLETION_LINE, runCli, tempDir } from '../helpers/cli.js';
 import { writeShapes } from './shapes-fixture.js';
 
 describe('landform vectorize', () => {
@@ -25,8 +25,10 @@ describe('landform vectorize', () => {
       out,
     ]);
     expect(r.code).toBe(0);
-    expect(r.stdout).toBe(
-      `wrote ${out}: 6 samples × 20 features (landscape; fitted on all the given samples)\n`,
+    expect(r.stdout).toBe('');
+    expect(r.stderr.trimEnd()).toMatch(COMPLETION_LINE);
+    expect(r.stderr).toContain(
+      `landform vectorize: wrote ${out} (20 landscape features fitted on all the given samples, 6 samples, `,
     );
     const lines = readFileSync(out, 'utf8').trim().split('\n');
     const header = lines[0].split(',');
@@ -57,9 +59,9 @@ describe('landform vectorize', () => {
       ]).code,
     ).toBe(0);
     const out = join(dir, 'features.npy');
-    const r = runCli(['vectorize', input, '--model', model, '--workers', '1', '--out', out]);
+    const r = runCli(['vectorize', input, '--from-model', model, '--workers', '1', '--out', out]);
     expect(r.code).toBe(0);
-    expect(r.stdout).toMatch(/6 samples × 24 features \(landscape; fitted on the saved model\)/);
+    expect(r.stderr).toContain('(24 landscape features fitted on the saved model, 6 samples, ');
     const columns = readFileSync(join(dir, 'features.columns.csv'), 'utf8').trim().split('\n');
     expect(columns).toHaveLength(25);
     const manifest = JSON.parse(readFileSync(join(model, 'manifest.json'), 'utf8'));
@@ -68,16 +70,24 @@ describe('landform vectorize', () => {
     expect(readFileSync(join(dir, 'features.samples.csv'), 'utf8').split('\n')[0]).toBe('sample,label');
   });
 
-  it('refuses landscape features for a table and a missing --out', () => {
-    const r = runCli(['vectorize', input]);
-    expect(r.code).toBe(2);
-    expect(r.stderr).toBe('landform: no --out FILE given; name the .csv or .npy file to write\n');
+  it('prints the CSV without --out, refuses NPY there, and landscape features for a table', () => {
+    const r = runCli(['vectorize', input, '--depth', '2', '--grid-size', '5', '--workers', '1']);
+    expect(r.code).toBe(0);
+    expect(r.stderr).toBe('');
+    const lines = r.stdout.trim().split('\n');
+    expect(lines).toHaveLength(7);
+    expect(lines[0].split(',')).toHaveLength(22);
+    const npy = runCli(['vectorize', input, '--format', 'npy']);
+    expect(npy.code).toBe(2);
+    expect(npy.stderr).toBe(
+      'landform: NPY needs --out FILE: its sample and column lists are written beside it\n',
+    );
     const table = join(dir, 'table.csv');
     writeFileSync(table, 'sample,label,a,b\ns1,x,1,2\ns2,y,3,4\n');
     const t = runCli(['vectorize', table, '--out', join(dir, 'never.csv')]);
     expect(t.code).toBe(2);
     expect(t.stderr).toBe(
-      'landform: --features landscape needs diagrams, but a table dataset has only its columns; use --features raw\n',
+      'landform: --feature-set landscape needs diagrams, but a table dataset has only its columns; use --feature-set raw\n',
     );
     expect(existsSync(join(dir, 'never.csv'))).toBe(false);
   });

@@ -72,7 +72,7 @@ describe('FeatureExtractor with the betti, stats and pimage sets', () => {
   it('allows the diagram sets for diagram datasets, none but raw for tables, and keeps the default list', () => {
     for (const set of ['landscape', 'betti', 'stats', 'pimage'] as const) checkFeatureSet(set, 'diagrams');
     expect(() => checkFeatureSet('combined', 'diagrams')).toThrow(/landscape, betti, stats, pimage/);
-    expect(() => checkFeatureSet('stats', 'table')).toThrow(/use --features raw/);
+    expect(() => checkFeatureSet('stats', 'table')).toThrow(/use --feature-sets raw/);
     expect(featureSetsFor('points')).toEqual(['landscape', 'raw', 'combined']);
     expect(FEATURE_SET_NAMES).toContain('pimage');
   });

@@ -33,3 +33,15 @@ export function tempDir(prefix = 'landform-test-'): string {
 
 /** The folder under which tests keep artefacts worth looking at (screenshots, reports). */
 export const testOutput = join(root, 'test-output');
+
+/** The completion line every writing command ends with (src/cli/finish.ts). */
+export const COMPLETION_LINE =
+  /^landform ([a-z]+): wrote (.+) \(([^,()]+), (\d+) samples?, (\d+\.\d s|\d+m\d\ds|\d+h\d\dm)\)$/;
+
+/** Standard error without the completion line, for tests that check nothing else was said. */
+export function withoutCompletion(stderr: string): string {
+  return stderr
+    .split(/(?<=\n)/)
+    .filter((line) => !COMPLETION_LINE.test(line.replace(/\n$/, '')))
+    .join('');
+}

@@ -4,56 +4,35 @@ import { UserError } from '../../core/errors.js';
 import type { Dataset } from '../../core/sample.js';
 import { provenance } from '../../core/version.js';
 import type { DiagramOptions } from '../../homology/compute.js';
-import type { Metric } from '../../homology/metric.js';
 import { checkOutputPath } from '../../io/output-guard.js';
-import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
-import {
-  parseChoiceOption,
-  parseDegreesOption,
-  parseInfiniteOption,
-  parseIntegerOption,
-  parseNumberOption,
-  parseWorkersOption,
-} from '../options.js';
+import { reportWritten } from '../finish.js';
+import { parseChoiceOption, parseIntegerOption, parseNumberOption } from '../options.js';
 import { startProgress } from '../progress.js';
+import {
+  addDiagramOptions,
+  addLandscapeOptions,
+  type DiagramFlags,
+  filtrationRecord,
+  type LandscapeFlags,
+  parseDiagramOptions,
+  parseLandscapeOptions,
+} from '../shared-options.js';
 
-interface ContrastFlags {
-  kind?: string;
-  shape?: string;
-  degrees: string;
-  depth: string;
-  gridCount: string;
+interface ContrastFlags extends DiagramFlags, LandscapeFlags {
   permutations: string;
   seed: string;
   p: string;
   format: string;
-  infinite: string;
-  maxScale?: string;
-  metric?: string;
-  embed?: string;
-  superlevel?: boolean;
-  workers?: string;
   out?: string;
-  quiet?: boolean;
-  filtration?: string;
-  subsample?: string;
 }
+
+/** Grid points per degree on which contrast compares class means, when --grid-size is not given. */
+export const CONTRAST_GRID_SIZE = 200;
 
 /** `--p 2`, `--p 1.5` or `--p inf`. */
 export function parsePOption(text: string): number {
   if (text === 'inf' || text === 'Infinity') return Infinity;
   return parseNumberOption(text, '--p', { min: 1 });
-}
-
-/** `DIM:DELAY` or `DIM:DELAY:STRIDE` → a delay embedding. */
-export function parseEmbedOption(text: string): { dimension: number; delay: number; stride?: number } {
-  const parts = text.split(':');
-  if (parts.length < 2 || parts.length > 3)
-    throw new UserError(`--embed '${text}' must look like DIM:DELAY or DIM:DELAY:STRIDE, e.g. 3:8`);
-  const dimension = parseIntegerOption(parts[0], '--embed DIM', 1, 64);
-  const delay = parseIntegerOption(parts[1], '--embed DELAY', 1);
-  const stride = parts.length === 3 ? parseIntegerOption(parts[2], '--embed STRIDE', 1) : undefined;
-  return { dimension, delay, ...(stride === undefined ? {} : { stride }) };
 }
 
 /** The diagrams of every sample: read from a diagrams dataset, or computed with the diagram options. */
@@ -82,71 +61,50 @@ export async function diagramsOfDataset(
 }
 
 export function defineContrast(program: Command): Command {
-  return addFiltrationOptions(program.command('contrast'))
+  const command = program
+    .command('contrast')
     .description(
       'test, for every pair of classes and degree, whether their mean landscapes differ (permutation test, Holm-corrected)',
     )
-    .argument('<dataset>', 'samples file or folder (points, distances, signals, images or diagrams)')
-    .option('--kind <kind>', 'sample kind instead of detecting it')
-    .option('--shape <RxC>', 'image table CSV: the shape of every image, ROWSxCOLUMNS or DEPTHxROWSxCOLUMNS')
-    .option('--degrees <list>', 'homology degrees to compare', '1')
-    .option('--depth <K>', 'landscape layers 1..K', '5')
-    .option('--grid-count <N>', 'grid points per degree on which mean landscapes are compared', '200')
+    .argument('<dataset>', 'samples file or folder (points, distances, signals, images or diagrams)');
+  addDiagramOptions(command);
+  addLandscapeOptions(command, {
+    depth: 5,
+    gridSize: CONTRAST_GRID_SIZE,
+    gridHelp: 'grid points per degree on which mean landscapes are compared',
+    oldGridCount: true,
+  });
+  return command
     .option('--permutations <R>', 'random relabellings per test', '999')
     .option('--seed <n>', 'seed of the relabellings', '1')
     .option('--p <p>', 'p of the Lp distance between class means (≥ 1, or inf)', '2')
     .option('--format <format>', 'json or text', 'json')
-    .option('--infinite <policy>', "essential classes: 'drop' or 'clip:VALUE'", 'drop')
-    .option('--max-scale <R>', 'largest Rips filtration value')
-    .option('--metric <metric>', 'distance between points: euclidean, manhattan, chebyshev')
-    .option('--embed <DIM:DELAY[:STRIDE]>', 'delay embedding of signals into point clouds')
-    .option('--superlevel', 'superlevel sets for images and signals')
-    .option('--workers <n>', 'worker threads for the diagrams')
     .option('--out <file>', 'write the result to FILE instead of standard output')
     .addHelpText(
       'after',
-      '\nThe family corrected by Holm is every pair of classes × every degree of the run.\n' +
-        'Example: landform contrast datasets/lattice/clouds.csv --degrees 0,1 --format text',
+      `
+The family corrected by Holm is every pair of classes × every degree (× every filtration) of the run: each
+degree added makes every test's correction stricter, so name fewer with --degrees when one matters.
+
+Examples:
+  npx landform contrast datasets/lattice.csv --format text
+  npx landform contrast datasets/field --superlevel --degrees 1 --out field-contrast.json`,
     )
     .action(async (path: string, flags: ContrastFlags) => {
       if (flags.out) checkOutputPath(flags.out, [path]);
-      const degrees = parseDegreesOption(flags.degrees);
-      const depth = parseIntegerOption(flags.depth, '--depth', 1, 100);
-      const gridCount = parseIntegerOption(flags.gridCount, '--grid-count', 2, 100_000);
+      const parsed = parseDiagramOptions(flags);
+      const { degrees, choice } = parsed;
+      const { depth, gridSize, infinite } = parseLandscapeOptions(flags, { gridSize: CONTRAST_GRID_SIZE });
       const permutations = parseIntegerOption(flags.permutations, '--permutations', 1, 10_000_000);
       const seed = parseIntegerOption(flags.seed, '--seed', 0, 2 ** 32 - 1);
       const p = parsePOption(flags.p);
       const format = parseChoiceOption(flags.format, '--format', ['json', 'text'] as const);
-      const infinite = parseInfiniteOption(flags.infinite);
-      const workers =
-        flags.workers === undefined
-          ? undefined
-          : parseWorkersOption(flags.workers, flags.quiet === true, 256);
-      const choice = parseFiltrationOptions(flags);
-      const diagramOptions: DiagramOptions = {
-        degrees,
-        ...(choice.filtration === 'rips' ? {} : { filtration: choice.filtration }),
-        ...(choice.subsample === undefined ? {} : { subsample: choice.subsample }),
-        ...(choice.threshold === undefined ? {} : { threshold: choice.threshold }),
-        ...(flags.maxScale === undefined
-          ? {}
-          : { maxScale: parseNumberOption(flags.maxScale, '--max-scale', { positive: true }) }),
-        ...(flags.metric === undefined
-          ? {}
-          : {
-              metric: parseChoiceOption(flags.metric, '--metric', [
-                'euclidean',
-                'manhattan',
-                'chebyshev',
-              ] as const) as Metric,
-            }),
-        ...(flags.embed === undefined ? {} : { embed: parseEmbedOption(flags.embed) }),
-        ...(flags.superlevel ? { superlevel: true } : {}),
-      };
+      const { workers } = parsed;
+      const diagramOptions: DiagramOptions = parsed.diagramOptions;
       const { loadInput } = await import('../dataset-input.js');
       const { classesOf } = await import('../../core/sample.js');
       const dataset = await loadInput(path, {
-        kind: flags.kind,
+        ...(parsed.kind !== undefined ? { kind: parsed.kind } : {}),
         ...(flags.shape !== undefined ? { shape: flags.shape } : {}),
         quiet: flags.quiet === true,
       });
@@ -185,7 +143,7 @@ export function defineContrast(program: Command): Command {
         result = contrastDiagrams(sets, {
           degrees,
           depth,
-          gridCount,
+          gridCount: gridSize,
           permutations,
           p,
           seed,
@@ -200,10 +158,10 @@ export function defineContrast(program: Command): Command {
         ...diagramOptions,
         ...filtrationRecord(choice, sets),
         depth,
-        gridCount,
+        gridSize,
         permutations,
         p: p === Infinity ? 'inf' : p,
-        infinite: flags.infinite,
+        infinite: flags.infinite ?? 'drop',
       };
       const made = provenance('contrast', options, seed);
       const text =
@@ -222,7 +180,7 @@ export function defineContrast(program: Command): Command {
       if (flags.out) {
         const { writeFileAtomic } = await import('../../io/atomic.js');
         writeFileAtomic(flags.out, text);
-        process.stderr.write(`landform: wrote ${flags.out}\n`);
+        reportWritten('contrast', flags.out, `${format} class contrasts`, sets.length, flags.quiet);
       } else {
         process.stdout.write(text);
       }

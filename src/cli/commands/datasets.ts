@@ -18,6 +18,7 @@ export function defineDatasets(program: Command): Command {
     .option('--out <folder>', 'folder to write them into', 'datasets')
     .option('--only <names>', 'comma-separated dataset names to write (default: all)')
     .option('--force', 'write into a non-empty folder holding other files than the datasets')
+    .addHelpText('after', '\nExample:\n  npx landform datasets --only pump --out demo-data')
     .action(async (options: DatasetsOptions) => {
       const { join } = await import('node:path');
       const { parseListOption } = await import('../options.js');
@@ -36,11 +37,13 @@ export function defineDatasets(program: Command): Command {
       });
       const files: Array<{ path: string; data: string | Uint8Array }> = [];
       const lines: string[] = [];
+      let total = 0;
       for (const scenario of SCENARIOS) {
         if (!chosen.includes(scenario.name)) continue;
         const own = scenario.files();
         for (const f of own) files.push({ path: join(options.out, f.path), data: f.data });
         const samples = scenario.samples();
+        total += samples.length;
         lines.push(
           `${scenario.name.padEnd(8)} ${scenario.kind.padEnd(7)} ${String(samples.length).padStart(4)} samples  ${join(options.out, scenario.path)}`,
         );
@@ -49,5 +52,8 @@ export function defineDatasets(program: Command): Command {
         files.push({ path: join(options.out, 'README.md'), data: datasetsReadme() });
       writeFilesAtomic(files);
       process.stdout.write(`${lines.join('\n')}\n`);
+      const { reportWritten } = await import('../finish.js');
+      const what = `${chosen.length} demo dataset${chosen.length === 1 ? '' : 's'}`;
+      reportWritten('datasets', options.out, what, total, options.quiet);
     });
 }

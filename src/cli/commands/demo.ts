@@ -27,7 +27,7 @@ export function defineDemo(program: Command): Command {
     .option('--force', 'write into a non-empty folder landform did not make')
     .addHelpText(
       'after',
-      '\nExample: landform demo --quick --out /tmp/demo   (then open /tmp/demo/report.html)',
+      '\nExample:\n  npx landform demo --quick --out /tmp/demo   # then open /tmp/demo/report.html',
     )
     .action(async (flags: DemoFlags) => {
       const seed = parseIntegerOption(flags.seed, '--seed', 0, 2 ** 32 - 1);
@@ -72,7 +72,6 @@ export function defineDemo(program: Command): Command {
         { path: metricsPath, data: result.metrics },
         { path: reportPath, data: html },
       ]);
-      const seconds = (performance.now() - started) / 1000;
       const shown = (p: string) =>
         relative(process.cwd(), p).startsWith('..') ? p : relative(process.cwd(), p) || p;
       process.stdout.write(
@@ -82,9 +81,12 @@ export function defineDemo(program: Command): Command {
           '',
           `metrics: ${shown(metricsPath)}`,
           `report:  ${shown(reportPath)}`,
-          `done in ${seconds.toFixed(1)} s. The data are synthetic; validate on independent data before any real decision.`,
+          'The data are synthetic; validate on independent data before any real decision.',
           '',
         ].join('\n'),
       );
+      const { reportWritten } = await import('../finish.js');
+      const samples = result.outcomes.reduce((n, o) => n + o.evaluation.sampleIds.length, 0);
+      reportWritten('demo', flags.out, 'metrics.json and report.html', samples, quiet);
     });
 }

@@ -1,39 +1,25 @@
 import { availableParallelism } from 'node:os';
 import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
-import type { SampleKind } from '../../core/sample.js';
 import { provenance } from '../../core/version.js';
 import type { DiagramOptions } from '../../homology/compute.js';
-import { METRICS, type Metric } from '../../homology/metric.js';
 import { computeDiagramsParallel, startDiagramWorkers } from '../../homology/parallel.js';
-import type { DelayEmbedding } from '../../homology/signal.js';
-import { expectKind, loadDataset, parseKind, parseShape } from '../../io/load.js';
+import { expectKind, loadDataset } from '../../io/load.js';
 import { checkFileOutput } from '../../io/output-guard.js';
 import { noteOption } from '../dataset-input.js';
-import { addFiltrationOptions, filtrationRecord, parseFiltrationOptions } from '../filtration-options.js';
-import {
-  parseChoiceOption,
-  parseDegreesOption,
-  parseIntegerOption,
-  parseNumberOption,
-  parseWorkersOption,
-} from '../options.js';
+import { reportWritten } from '../finish.js';
+import { parseChoiceOption } from '../options.js';
 import { startProgress } from '../progress.js';
+import {
+  addDiagramOptions,
+  type DiagramFlags,
+  filtrationRecord,
+  parseDiagramOptions,
+} from '../shared-options.js';
+import { refuseBinaryOnTerminal } from '../stdout.js';
 
-interface DiagramsCommandOptions {
-  kind?: string;
-  degrees: string;
-  maxScale?: string;
-  metric: string;
-  embed?: string;
-  superlevel?: boolean;
-  workers?: string;
+interface DiagramsCommandOptions extends DiagramFlags {
   out?: string;
-  quiet?: boolean;
-  filtration?: string;
-  subsample?: string;
-  threshold?: string;
-  shape?: string;
   shard?: string;
   force?: boolean;
   format?: string;
@@ -42,28 +28,14 @@ interface DiagramsCommandOptions {
 
 const INPUT_KINDS = ['points', 'distances', 'signal', 'image'] as const;
 
-/** `DIM:DELAY[:STRIDE]` → a delay embedding. */
-export function parseEmbedOption(text: string, option = '--embed'): DelayEmbedding {
-  const parts = text.split(':');
-  if (parts.length < 2 || parts.length > 3) {
-    throw new UserError(
-      `${option} '${text}' must look like DIM:DELAY or DIM:DELAY:STRIDE, e.g. 3:4 or 3:4:2`,
-    );
-  }
-  const dimension = parseIntegerOption(parts[0], `${option} DIM`, 1, 1000);
-  const delay = parseIntegerOption(parts[1], `${option} DELAY`, 1, 1_000_000);
-  const stride =
-    parts.length === 3 ? parseIntegerOption(parts[2], `${option} STRIDE`, 1, 1_000_000) : undefined;
-  return stride === undefined ? { dimension, delay } : { dimension, delay, stride };
-}
-
 /**
- * `landform diagrams <input> --out FILE`: the persistence diagrams of every sample of a dataset, as the
- * diagram CSV with a provenance sidecar. Samples run on worker threads, one sample per task.
+ * `landform diagrams <input> [--out FILE]`: the persistence diagrams of every sample of a dataset, as the
+ * diagram CSV (or Arrow) with a provenance sidecar, or the CSV on standard output without --out. Samples run
+ * on worker threads, one sample per task.
  */
 export function defineDiagrams(program: Command): Command {
   const command = program.command('diagrams');
-  addFiltrationOptions(command);
+  addDiagramOptions(command);
   return command
     .description(
       'persistence diagrams of every sample: Vietoris–Rips for clouds and matrices, cubical for images, sublevel sets or delay embeddings for signals',
@@ -72,27 +44,19 @@ export function defineDiagrams(program: Command): Command {
       '<input>',
       'dataset: points CSV (sample,label,x,y,…), long signal CSV (sample,label,value), or any format the loader reads',
     )
-    .option('--kind <kind>', `sample kind: ${INPUT_KINDS.join(', ')} (default: detected from the file)`)
-    .option(
-      '--shape <RxC>',
-      'image table CSV (sample,label, then the pixels row by row): the shape of every image, e.g. 28x28 or DEPTHxROWSxCOLUMNS',
-    )
-    .option('--degrees <list>', 'homology degrees, from 0, 1, 2', '0,1')
-    .option('--max-scale <r>', 'largest Rips scale kept; classes alive there get death inf (default: none)')
-    .option('--metric <name>', `distance between points: ${METRICS.join(', ')}`, 'euclidean')
-    .option('--embed <DIM:DELAY[:STRIDE]>', 'turn each signal into a cloud of delay windows before Rips')
-    .option(
-      '--superlevel',
-      'images and signals: superlevel sets (bright first), reported on the negated scale',
-    )
-    .option('--workers <n>', 'threads computing samples: this one and n − 1 workers (default: every core)')
     .option(
       '--shard <I/N>',
       "only shard I of N (from 1), written as FILE.shard-I-of-N; default: from a Slurm array or Kubernetes indexed job, 'none' to turn off",
     )
     .option('--force', 'recompute a shard that is already finished')
-    .option('--format <format>', 'csv or arrow (default: from the extension of --out)')
-    .option('--out <file>', 'the diagram CSV to write (a FILE.provenance.json sidecar is written beside it)')
+    .option(
+      '--format <format>',
+      'csv or arrow (default: from the extension of --out; csv on standard output)',
+    )
+    .option(
+      '--out <file>',
+      'the diagram file to write, with a FILE.provenance.json sidecar (default: the CSV on standard output)',
+    )
     .option('--timings', 'print the time of each stage on stderr: start-up, reading, computing, writing')
     .addHelpText(
       'after',
@@ -102,37 +66,41 @@ death inf. With several filtrations (--filtration a,b,…) a filtration column f
 filtration by filtration, in the order given. Superlevel diagrams are the sublevel diagrams of −values: a bright class born at 200 that dies
 at 50 reads birth −200, death −50, so death ≥ birth holds in every file.
 
-Example:
-  landform diagrams lattice-clouds.csv --degrees 0,1 --out lattice-diagrams.csv
-  landform diagrams pump-vibration.csv --embed 3:5 --degrees 0,1 --max-scale 2 --out pump-diagrams.csv
-  landform diagrams parts.csv --shape 28x28 --filtration heights:8,radials:3,distance --out parts-diagrams.csv`,
+Without --out the CSV goes to standard output (no provenance sidecar: use --out to keep one); Arrow is
+refused on a terminal. --shard needs --out.
+
+Examples:
+  npx landform diagrams datasets/lattice.csv --degrees 0,1 --out lattice-diagrams.csv
+  npx landform diagrams datasets/pump.csv --embed 4:8:2 --max-scale 3 | head
+  npx landform diagrams datasets/field --superlevel --out field-diagrams.csv`,
     )
     .action(async (input: string, options: DiagramsCommandOptions) => {
       // Milliseconds since the process started, at the end of each stage.
       const started = performance.now();
-      if (options.out === undefined)
-        throw new UserError('no --out FILE given; name the diagram CSV to write');
-      checkFileOutput(options.out, [input]);
-      const degrees = parseDegreesOption(options.degrees, '--degrees', 2);
-      const metric = parseChoiceOption(options.metric, '--metric', METRICS) as Metric;
-      const maxScale =
-        options.maxScale === undefined
-          ? undefined
-          : parseNumberOption(options.maxScale, '--max-scale', { positive: true });
-      const embed = options.embed === undefined ? undefined : parseEmbedOption(options.embed);
-      const choice = parseFiltrationOptions(options);
-      const workers =
-        options.workers === undefined
-          ? availableParallelism()
-          : parseWorkersOption(options.workers, options.quiet === true);
-      let kind: SampleKind | undefined;
-      if (options.kind !== undefined) {
-        kind = parseKind(options.kind);
-        parseChoiceOption(kind, '--kind', INPUT_KINDS);
+      if (options.out !== undefined) checkFileOutput(options.out, [input]);
+      const parsed = parseDiagramOptions(options);
+      const { degrees, choice } = parsed;
+      const metric = parsed.diagramOptions.metric;
+      const maxScale = parsed.diagramOptions.maxScale;
+      const embed = parsed.diagramOptions.embed;
+      const shape = parsed.shape;
+      const workers = parsed.workers ?? availableParallelism();
+      const kind =
+        parsed.kind === undefined ? undefined : parseChoiceOption(parsed.kind, '--kind', INPUT_KINDS);
+      const { chooseFormat, writeDiagramsOutput } = await import('../../io/outputs.js');
+      const format =
+        options.out === undefined
+          ? parseChoiceOption(options.format ?? 'csv', '--format', ['csv', 'arrow'] as const)
+          : chooseFormat(options.out, options.format, ['csv', 'arrow']);
+      if (options.out === undefined) {
+        if (format === 'arrow') refuseBinaryOnTerminal('Arrow');
+        if (options.shard !== undefined && options.shard !== 'none')
+          throw new UserError(
+            '--shard needs --out FILE: each shard is written beside it as FILE.shard-I-of-N',
+          );
       }
       // The worker threads start while the data loads (about 0.1 s each, on the cores loading leaves idle).
       if (workers > 1) void startDiagramWorkers(workers - 1);
-      const shape = options.shape === undefined ? undefined : parseShape(options.shape);
       const dataset = expectKind(
         await loadDataset(input, {
           kind,
@@ -150,15 +118,8 @@ Example:
       }
       if (dataset.samples.length === 0)
         throw new UserError('has no samples; nothing to compute', { file: input });
-      const computeOptions: DiagramOptions = { degrees, metric, filtration: choice.filtration };
-      if (choice.subsample !== undefined) computeOptions.subsample = choice.subsample;
-      if (choice.threshold !== undefined) computeOptions.threshold = choice.threshold;
-      if (maxScale !== undefined) computeOptions.maxScale = maxScale;
-      if (embed !== undefined) computeOptions.embed = embed;
-      if (options.superlevel) computeOptions.superlevel = true;
-      const { chooseFormat, writeDiagramsOutput } = await import('../../io/outputs.js');
+      const computeOptions: DiagramOptions = { ...parsed.diagramOptions, filtration: choice.filtration };
       const { planShard, resolveShard } = await import('../../io/shard.js');
-      const format = chooseFormat(options.out, options.format, ['csv', 'arrow']);
       const settings = {
         input,
         kind: dataset.kind,
@@ -172,15 +133,15 @@ Example:
       };
       const plan = planShard({
         samples: dataset.samples,
-        out: options.out,
-        shard: resolveShard(options.shard),
+        out: options.out ?? 'diagrams.csv',
+        shard: options.out === undefined ? undefined : resolveShard(options.shard),
         output: 'diagrams',
         settings: { ...settings, ...filtrationRecord(choice) },
         force: options.force === true,
       });
       if (plan.message !== undefined && options.quiet !== true) process.stderr.write(`${plan.message}\n`);
       if (plan.finished) return;
-      if (plan.out !== options.out) checkFileOutput(plan.out, [input]);
+      if (options.out !== undefined && plan.out !== options.out) checkFileOutput(plan.out, [input]);
       const progress = await startProgress('diagrams', plan.samples.length, options.quiet === true);
       let sets: Awaited<ReturnType<typeof computeDiagramsParallel>>;
       const computing = performance.now();
@@ -197,7 +158,16 @@ Example:
         ...settings,
         ...filtrationRecord(choice, sets as Array<{ sample: string; coveringRadius?: number }>),
       };
-      await writeDiagramsOutput(plan.out, sets, plan.stamp(provenance('diagrams', record)), format);
+      if (options.out === undefined) {
+        const { formatDiagramCsv } = await import('../../io/diagram-csv.js');
+        const { formatDiagramArrow } = await import('../../io/arrow.js');
+        const made = provenance('diagrams', record);
+        process.stdout.write(
+          format === 'arrow' ? await formatDiagramArrow(sets, made) : formatDiagramCsv(sets),
+        );
+      } else {
+        await writeDiagramsOutput(plan.out, sets, plan.stamp(provenance('diagrams', record)), format);
+      }
       if (options.timings) {
         const s = (ms: number): string => `${(ms / 1000).toFixed(3)} s`;
         const threads = Math.min(workers, plan.samples.length);
@@ -207,5 +177,14 @@ Example:
             `writing ${s(performance.now() - computed)}\n`,
         );
       }
+      // The completion line comes last, after the timings.
+      if (options.out !== undefined)
+        reportWritten(
+          'diagrams',
+          plan.out,
+          `${format.toUpperCase()} diagrams`,
+          plan.samples.length,
+          options.quiet,
+        );
     });
 }

@@ -1,4 +1,4 @@
-import type { Command } from 'commander';
+import { type Command, Option } from 'commander';
 import { type Diagram, diagramOfChannel, finitePairs, parseInfinitePolicy } from '../../core/diagram.js';
 import { UserError } from '../../core/errors.js';
 import { provenance } from '../../core/version.js';
@@ -7,20 +7,24 @@ import { csvField, csvNumber } from '../../io/csv.js';
 import { readDiagramCsv } from '../../io/diagram-csv.js';
 import { checkFileOutput } from '../../io/output-guard.js';
 import { writeWithProvenance } from '../../io/provenance-file.js';
+import { reportWritten } from '../finish.js';
+import { renamedOption } from '../options.js';
 import { startProgress } from '../progress.js';
 import { chooseChannel } from './landscape.js';
 
 interface DistanceOptions {
   degree?: string;
   from?: string;
-  metric: string;
+  diagramDistance?: string;
+  /** The old name of --diagram-distance, accepted for one release. */
+  metric?: string;
   infinite: string;
   out?: string;
   quiet?: boolean;
 }
 
 /** `bottleneck`, `wasserstein` (p = 2) or `wasserstein:P` with P ≥ 1. */
-export function parseMetric(text: string): DiagramMetric {
+export function parseDiagramDistance(text: string, option = '--diagram-distance'): DiagramMetric {
   if (text === 'bottleneck') return { kind: 'bottleneck' };
   if (text === 'wasserstein') return { kind: 'wasserstein', p: 2 };
   const m = /^wasserstein:(.+)$/.exec(text);
@@ -28,8 +32,10 @@ export function parseMetric(text: string): DiagramMetric {
     const p = m[1] === 'inf' ? Infinity : Number(m[1]);
     if (p >= 1) return { kind: 'wasserstein', p };
   }
+  const known =
+    option === '--metric' ? '; --metric is the distance between points, --diagram-distance this one' : '';
   throw new UserError(
-    `--metric '${text}' must be 'bottleneck', 'wasserstein' or 'wasserstein:P' with P ≥ 1 (e.g. wasserstein:1)`,
+    `${option} '${text}' must be 'bottleneck', 'wasserstein' or 'wasserstein:P' with P ≥ 1 (e.g. wasserstein:1)${known}`,
   );
 }
 
@@ -49,7 +55,11 @@ export function defineDistance(program: Command): Command {
     .argument('[b.csv]', 'a second diagram CSV: rows are the samples of a, columns those of b')
     .option('--degree <n>', 'homology degree (default: 1 if the file has it, else the lowest)')
     .option('--from <filtration>', "which filtration's diagrams, when the files hold several (e.g. erosion)")
-    .option('--metric <metric>', "'bottleneck', 'wasserstein' (order 2) or 'wasserstein:P'", 'bottleneck')
+    .option(
+      '--diagram-distance <name>',
+      "distance between diagrams: 'bottleneck', 'wasserstein' (order 2) or 'wasserstein:P' (default: bottleneck)",
+    )
+    .addOption(new Option('--metric <name>').hideHelp())
     .option(
       '--infinite <policy>',
       "essential classes: 'keep' (matched among themselves), 'drop' or 'clip:VALUE'",
@@ -66,12 +76,22 @@ Output: a header 'sample,<id>,<id>,…' then one row per sample. Points are comp
 unmatched points go to the diagonal. With 'keep', two diagrams with different numbers of essential
 classes are 'inf' apart.
 
-Example:
-  landform distance lattice-diagrams.csv --degree 1 --metric wasserstein:1`,
+Examples:
+  npx landform diagrams datasets/lattice.csv --out lattice-diagrams.csv
+  npx landform distance lattice-diagrams.csv --degree 1 --diagram-distance wasserstein:1 --out lattice-distances.csv`,
     )
     .action(async (fileA: string, fileB: string | undefined, options: DistanceOptions) => {
       if (options.out !== undefined) checkFileOutput(options.out, [fileA, fileB]);
-      const metric = parseMetric(options.metric);
+      const metricText = renamedOption(options, {
+        key: 'diagramDistance',
+        flag: '--diagram-distance',
+        oldKey: 'metric',
+        oldFlag: '--metric',
+      });
+      const metric = parseDiagramDistance(
+        metricText ?? 'bottleneck',
+        options.metric !== undefined ? '--metric' : '--diagram-distance',
+      );
       const keep = options.infinite === 'keep';
       const policy = keep ? undefined : parseInfinitePolicy(options.infinite);
       if (!keep && policy === undefined) {
@@ -121,9 +141,16 @@ Example:
             b: fileB ?? null,
             degree,
             ...(channel.filtration !== undefined ? { filtration: channel.filtration } : {}),
-            metric: describeMetric(metric),
+            diagramDistance: describeMetric(metric),
             infinite: options.infinite,
           }),
+        );
+        reportWritten(
+          'distance',
+          options.out,
+          `${describeMetric(metric)} distances of degree ${degree}`,
+          n,
+          options.quiet,
         );
       }
     });

@@ -20,6 +20,10 @@ export function defineInspect(program: Command): Command {
     .option('--kind <kind>', `force the sample kind: ${SAMPLE_KINDS.join(', ')} (default: detected)`)
     .option('--shape <RxC>', 'image table CSV: the shape of every image, ROWSxCOLUMNS or DEPTHxROWSxCOLUMNS')
     .option('--json', 'print the summary as JSON')
+    .addHelpText(
+      'after',
+      '\nExamples:\n  npx landform inspect datasets/lattice.csv\n  npx landform inspect datasets/field --json',
+    )
     .action(async (path: string, options: InspectOptions) => {
       const { loadInput } = await import('../dataset-input.js');
       const { formatSummary, summarizeDataset } = await import('../../io/summary.js');

@@ -24,22 +24,21 @@ import {
   sampledToJson,
 } from '../../landscape/output.js';
 import { sampleLandscape } from '../../landscape/sampled-landscape.js';
-import { parseChoiceOption, parseGridOption, parseInfiniteOption, parseIntegerOption } from '../options.js';
+import { reportWritten } from '../finish.js';
+import { parseChoiceOption, parseGridOption, parseIntegerOption } from '../options.js';
+import { addLandscapeOptions, type LandscapeFlags, parseLandscapeOptions } from '../shared-options.js';
 
-interface LandscapeOptions {
+interface LandscapeOptions extends LandscapeFlags {
   sample?: string;
   degree?: string;
   from?: string;
-  depth: string;
   grid?: string;
   exact?: boolean;
   format: string;
-  infinite: string;
   out?: string;
-  quiet?: boolean;
 }
 
-/** Grid points when `--grid` is not given. */
+/** Grid points when neither `--grid` nor `--grid-size` is given. */
 export const DEFAULT_GRID_COUNT = 100;
 /** Layers when `--depth` is not given. */
 export const DEFAULT_DEPTH = 5;
@@ -49,7 +48,7 @@ export const DEFAULT_DEPTH = 5;
  * sampled on a grid (the default) or exact (`--exact`), as JSON (one object per sample, one per line) or CSV.
  */
 export function defineLandscape(program: Command): Command {
-  return program
+  const command = program
     .command('landscape')
     .description("persistence landscapes of the samples' diagrams: sampled on a grid, or exact breakpoints")
     .argument('<diagrams.csv>', 'diagram CSV with the header sample,label,degree,birth,death')
@@ -58,15 +57,16 @@ export function defineLandscape(program: Command): Command {
     .option(
       '--from <filtration>',
       "which filtration's diagrams, when the file holds several (e.g. height:1:0)",
-    )
-    .option('--depth <k>', 'number of layers λ1..λK', String(DEFAULT_DEPTH))
-    .option(
-      '--grid <start:stop:count>',
-      `sampling grid (default: ${DEFAULT_GRID_COUNT} points covering the finite pairs)`,
-    )
+    );
+  addLandscapeOptions(command, {
+    depth: DEFAULT_DEPTH,
+    gridSize: DEFAULT_GRID_COUNT,
+    gridHelp: 'grid points of a grid covering the finite pairs',
+  });
+  return command
+    .option('--grid <start:stop:count>', 'an explicit sampling grid instead of one covering the pairs')
     .option('--exact', 'print the breakpoints of the exact layers instead of sampled values')
     .option('--format <format>', 'json or csv', 'json')
-    .option('--infinite <policy>', "essential classes: 'drop' or 'clip:VALUE' (death set to VALUE)", 'drop')
     .option('--out <file>', 'write to this file instead of standard output')
     .addHelpText(
       'after',
@@ -78,8 +78,10 @@ Each object also names its "sample", "label", the "infinite" policy applied and 
 With several samples and no --sample, one object per line (JSON lines) on one shared grid.
 CSV: sample,degree,layer,t,value — one row per grid point (or breakpoint) per layer.
 
-Example:
-  landform landscape lattice-diagrams.csv --sample panel-001 --degree 1 --grid 0:0.8:50`,
+Examples:
+  npx landform diagrams datasets/lattice.csv --out lattice-diagrams.csv
+  npx landform landscape lattice-diagrams.csv --sample panel-001 --degree 1 --grid 0:0.8:50
+  npx landform landscape lattice-diagrams.csv --exact --depth 2 --format csv --out lattice-landscapes.csv`,
     )
     .action((file: string, options: LandscapeOptions) => {
       const format = parseChoiceOption(options.format, '--format', ['json', 'csv'] as const);
@@ -87,13 +89,16 @@ Example:
         if (format === 'csv') checkFileOutput(options.out, [file]);
         else checkOutputPath(options.out, [file]);
       }
-      const depth = parseIntegerOption(options.depth, '--depth', 1, 10_000);
-      const policy = parseInfiniteOption(options.infinite);
-      if (options.exact && options.grid !== undefined) {
+      const landscape = parseLandscapeOptions(options, { gridSize: DEFAULT_GRID_COUNT });
+      const { depth } = landscape;
+      const policy = landscape.infinite;
+      if (options.exact && (options.grid !== undefined || landscape.gridSizeGiven)) {
         throw new UserError(
-          '--grid is for sampled landscapes; drop it with --exact (exact layers need no grid)',
+          `${options.grid !== undefined ? '--grid' : '--grid-size'} is for sampled landscapes; drop it with --exact (exact layers need no grid)`,
         );
       }
+      if (options.grid !== undefined && landscape.gridSizeGiven)
+        throw new UserError('--grid START:STOP:COUNT sets the grid size itself; drop --grid-size');
       let grid: Grid | undefined = options.grid === undefined ? undefined : parseGridOption(options.grid);
       const sets = selectSamples(readDiagramCsv(file), options.sample, file);
       const channel = chooseChannel(sets, options.degree, options.from, file);
@@ -101,7 +106,7 @@ Example:
       const diagrams = sets.map((set) => diagramOfChannel(set, channel));
       const finite = diagrams.map((d) => finitePairs(d, policy));
       if (!options.exact && grid === undefined) {
-        grid = coveringGrid(finite, DEFAULT_GRID_COUNT);
+        grid = coveringGrid(finite, landscape.gridSize);
         if (grid === undefined) {
           throw new UserError(
             `degree ${degree} has no finite pairs of positive length${sets.length === 1 ? ` in sample '${sets[0].sample}'` : ''}, so no grid range can be chosen; give --grid START:STOP:COUNT`,
@@ -146,8 +151,12 @@ Example:
       const text = `${pieces.join('\n')}\n`;
       noteEssentialClasses(diagrams, policy, degree, options.quiet === true);
       if (options.out === undefined) process.stdout.write(text);
-      else if (format === 'csv') writeWithProvenance(options.out, text, prov);
-      else writeFileAtomic(options.out, text);
+      else {
+        if (format === 'csv') writeWithProvenance(options.out, text, prov);
+        else writeFileAtomic(options.out, text);
+        const what = `${options.exact ? 'exact' : 'sampled'} ${format.toUpperCase()} landscapes of degree ${degree}`;
+        reportWritten('landscape', options.out, what, sets.length, options.quiet);
+      }
     });
 }
 

@@ -1,5 +1,6 @@
 import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
+import { reportWritten } from '../finish.js';
 import { startProgress } from '../progress.js';
 
 interface MergeOptions {
@@ -31,8 +32,8 @@ command run without --shard, byte for byte. A missing or repeated shard, shards 
 or data are refused and nothing is written.
 
 Example:
-  landform diagrams lattice.csv --degrees 0,1 --shard 2/7 --out out/diagrams.csv   # one of seven jobs
-  landform merge out/diagrams.shard-*-of-7.csv --out diagrams.csv`,
+  npx landform diagrams datasets/lattice.csv --shard 2/7 --out out/diagrams.csv   # one of seven jobs
+  npx landform merge out/diagrams.shard-*-of-7.csv --out lattice-diagrams.csv`,
     )
     .action(async (files: string[], options: MergeOptions) => {
       if (options.out === undefined)
@@ -49,11 +50,8 @@ Example:
           onProgress: (done, total) => progress.update(done, total),
         });
         progress.stop();
-        if (!options.quiet) {
-          process.stderr.write(
-            `landform: merged ${summary.shards} shard${summary.shards === 1 ? '' : 's'} (${summary.samples} samples, ${summary.output}) → ${summary.out}\n`,
-          );
-        }
+        const what = `${summary.output === 'table' ? 'features' : 'diagrams'} merged from ${summary.shards} shard${summary.shards === 1 ? '' : 's'}`;
+        reportWritten('merge', summary.out, what, summary.samples, options.quiet);
       } finally {
         progress.stop();
       }

@@ -3,6 +3,7 @@ import type { Command } from 'commander';
 import { UserError } from '../../core/errors.js';
 import {
   recordedSampleShape,
+  SAMPLE_KINDS,
   type SampleKind,
   type SampleShape,
   sampleShapeProblem,
@@ -14,12 +15,14 @@ import type { DiagramOptions } from '../../homology/compute.js';
 import { writeFileAtomic } from '../../io/atomic.js';
 import { csvField, csvNumber } from '../../io/csv.js';
 import { formatJsonOutput } from '../../io/json-output.js';
-import { parseKind, parseShape } from '../../io/load.js';
+import { parseShape } from '../../io/load.js';
 import { checkFileOutput, checkOutputPath } from '../../io/output-guard.js';
 import { provenancePath, writeWithProvenance } from '../../io/provenance-file.js';
 import type { LabelledScores } from '../../learn/metrics.js';
-import { parseWorkersOption } from '../options.js';
-import { diagramsForCommand, loadStudyDataset } from './evaluate.js';
+import { diagramsForCommand, loadStudyDataset } from '../dataset-input.js';
+import { reportWritten } from '../finish.js';
+import { parseChoiceOption, parseWorkersOption } from '../options.js';
+import { MAX_WORKERS } from '../shared-options.js';
 
 interface PredictCommandOptions {
   kind?: string;
@@ -127,7 +130,7 @@ standard error (not with --quiet), and in --scores FILE as JSON; labels the mode
 apart, empty labels (samples to predict) are not scored. Accuracy on a few labelled samples is an estimate.
 
 Example:
-  landform predict models/lattice new-lattices.csv --out predictions.csv`,
+  npx landform predict models/lattice datasets/lattice.csv --out predictions.csv   # the shipped samples stand in for new ones`,
     )
     .action(async (modelDir: string, input: string, o: PredictCommandOptions) => {
       if (o.out !== undefined) checkFileOutput(o.out, [input, modelDir]);
@@ -141,7 +144,8 @@ Example:
             file: o.scores,
           });
       }
-      const workers = o.workers === undefined ? undefined : parseWorkersOption(o.workers, o.quiet === true);
+      const workers =
+        o.workers === undefined ? undefined : parseWorkersOption(o.workers, o.quiet === true, MAX_WORKERS);
       const { loadModelFolder } = await import('../../learn/model-folder.js');
       const { Pipeline } = await import('../../learn/pipeline.js');
       const { manifest, files } = await loadModelFolder(modelDir);
@@ -162,7 +166,7 @@ Example:
         const parsed = {
           degrees: diagramOptions.degrees,
           diagramOptions,
-          ...(o.kind !== undefined ? { kind: parseKind(o.kind) } : {}),
+          ...(o.kind !== undefined ? { kind: parseChoiceOption(o.kind, '--kind', SAMPLE_KINDS) } : {}),
           ...(o.shape !== undefined ? { shape: parseShape(o.shape) } : {}),
           ...(workers !== undefined ? { workers } : {}),
         };
@@ -221,15 +225,16 @@ Example:
                   recorded,
                 ),
               };
+        // The scores first, so that the completion line stays the last line on standard error.
+        if (o.quiet !== true)
+          for (const line of scoreLines(scored, formatConfusionText)) process.stderr.write(`${line}\n`);
         if (o.out === undefined) {
           process.stdout.write(text);
           if (scoresFile) writeFileAtomic(scoresFile.path, scoresFile.data);
         } else {
           writeWithProvenance(o.out, text, recorded, scoresFile ? [scoresFile] : []);
-          process.stdout.write(`wrote ${o.out} (${dataset.samples.length} predictions)\n`);
+          reportWritten('predict', o.out, 'predictions', dataset.samples.length, o.quiet);
         }
-        if (o.quiet !== true)
-          for (const line of scoreLines(scored, formatConfusionText)) process.stderr.write(`${line}\n`);
       } finally {
         pipeline.dispose();
       }

@@ -3,10 +3,13 @@ import { UserError } from '../../core/errors.js';
 import { sampleShapeOf } from '../../core/sample.js';
 import type { FeatureData } from '../../features/combined.js';
 import { checkOutputPath } from '../../io/output-guard.js';
+import { diagramsForCommand } from '../dataset-input.js';
+import { reportWritten } from '../finish.js';
 import { parseProgressMode, startPhases } from '../progress.js';
-import { addStudyOptions, diagramsForCommand, parseStudy, type StudyCommandOptions } from './evaluate.js';
+import { addStudyOptions, type StudyFlags } from '../shared-options.js';
+import { parseStudy } from './evaluate.js';
 
-interface TrainCommandOptions extends StudyCommandOptions {
+interface TrainCommandOptions extends StudyFlags {
   save?: string;
   force?: boolean;
 }
@@ -31,11 +34,11 @@ export function defineTrain(program: Command): Command {
       `
 The folder is written whole and swapped in only when complete; an earlier model there is replaced, and a
 non-empty folder landform did not make is refused unless --force. It holds manifest.json (options, the learned grid, classes, versions, checksums) and the classifier.
-'landform predict DIR <dataset>' labels new samples with it; 'landform vectorize --model DIR' exports the
+'landform predict DIR <dataset>' labels new samples with it; 'landform vectorize --from-model DIR' exports the
 features it computes. Estimate accuracy with 'landform evaluate' first: a saved model carries no guarantee.
 
 Example:
-  landform train lattice-clouds.csv --features landscape --models pca-svm --save models/lattice`,
+  npx landform train datasets/lattice.csv --feature-set landscape --model pca-svm --save my-lattice-model`,
     )
     .action(async (input: string, o: TrainCommandOptions) => {
       if (o.save === undefined)
@@ -101,8 +104,14 @@ Example:
           .map(([k, v]) => `${k}=${v}`)
           .join(' ');
         process.stdout.write(
-          `trained ${features} + ${study.models[0]} on ${dataset.samples.length} samples (${manifest.classes.length} classes); chosen ${chosen}\n` +
-            `saved ${o.save}\n`,
+          `trained ${features} + ${study.models[0]} on ${dataset.samples.length} samples (${manifest.classes.length} classes); chosen ${chosen}\n`,
+        );
+        reportWritten(
+          'train',
+          o.save,
+          `model folder of ${features} + ${study.models[0]}`,
+          dataset.samples.length,
+          o.quiet,
         );
       } finally {
         pipeline.dispose();

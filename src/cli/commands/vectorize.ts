@@ -1,4 +1,4 @@
-import type { Command } from 'commander';
+import { type Command, Option } from 'commander';
 import { checkFeatureColumns } from '../../core/budgets.js';
 import { describeInfinitePolicy } from '../../core/diagram.js';
 import { UserError } from '../../core/errors.js';
@@ -19,48 +19,46 @@ import {
 import type { DiagramOptions } from '../../homology/compute.js';
 import { parseShape } from '../../io/load.js';
 import { checkFileOutput } from '../../io/output-guard.js';
+import { diagramsForCommand, loadStudyDataset } from '../dataset-input.js';
+import { reportWritten } from '../finish.js';
 import {
   parseChoiceOption,
   parseGridOption,
-  parseInfiniteOption,
   parseIntegerOption,
   parseWorkersOption,
+  renamedOption,
 } from '../options.js';
 import {
   addDiagramOptions,
+  addLandscapeOptions,
+  type DiagramFlags,
   diagramRecord,
-  diagramsForCommand,
-  loadStudyDataset,
+  type LandscapeFlags,
+  MAX_WORKERS,
   type ParsedDiagramOptions,
   parseDiagramOptions,
-  type StudyCommandOptions,
-} from './evaluate.js';
+  parseLandscapeOptions,
+} from '../shared-options.js';
+import { refuseBinaryOnTerminal } from '../stdout.js';
 
-type VectorizeCommandOptions = Pick<
-  StudyCommandOptions,
-  | 'kind'
-  | 'degrees'
-  | 'maxScale'
-  | 'metric'
-  | 'embed'
-  | 'superlevel'
-  | 'workers'
-  | 'quiet'
-  | 'infinite'
-  | 'shape'
-> & {
-  features: string;
-  depth: string;
-  gridSize: string;
+interface VectorizeCommandOptions extends DiagramFlags, LandscapeFlags {
+  featureSet?: string;
+  /** The old name of --feature-set. */
+  features?: string;
   grid?: string;
   bins: string;
   standardize?: boolean;
+  fromModel?: string;
+  /** The old name of --from-model. */
   model?: string;
   out?: string;
   shard?: string;
   force?: boolean;
   format?: string;
-};
+}
+
+/** Grid points per degree and layer when --grid-size is not given. */
+export const VECTORIZE_GRID_SIZE = 50;
 
 /**
  * `landform vectorize <dataset> --out FILE`: the feature vectors of every sample, with readable column names,
@@ -71,65 +69,86 @@ export function defineVectorize(program: Command): Command {
   const command = program
     .command('vectorize')
     .description(
-      'feature vectors (landscape, raw, combined, betti, stats or pimage) of every sample, as CSV or NPY with named columns',
+      'feature vectors (landscape, raw, combined, betti, stats or pimage) of every sample, as CSV, NPY or Arrow with named columns',
     )
     .argument('<dataset>', 'dataset the loader reads')
-    .option('--features <set>', `feature set: ${FEATURE_SET_NAMES.join(', ')}`, 'landscape')
-    .option('--depth <K>', 'landscape layers 1..K', '5')
-    .option(
-      '--grid-size <G>',
-      'grid points per degree and layer; the range is learned from the samples',
-      '50',
-    )
+    .option('--feature-set <name>', `feature set: ${FEATURE_SET_NAMES.join(', ')}`, 'landscape')
+    .addOption(new Option('--features <name>').hideHelp());
+  addLandscapeOptions(command, {
+    depth: 5,
+    gridSize: VECTORIZE_GRID_SIZE,
+    gridHelp: 'grid points per degree and layer; the range is learned from the samples',
+  });
+  command
     .option('--grid <START:STOP:COUNT>', 'explicit grid for every degree instead of a learned range')
     .option('--bins <n>', 'bins of the raw distance histogram', '32')
     .option('--standardize', 'centre and scale every feature (with the moments of the given samples)')
     .option(
-      '--model <dir>',
-      'take the fitted features of a saved model (transform only; other feature options are ignored)',
+      '--from-model <dir>',
+      'take the fitted features of a model saved by train (transform only; other feature options are ignored)',
     )
+    .addOption(new Option('--model <dir>').hideHelp())
     .option(
       '--out <file>',
-      'file to write: .csv, or .npy with FILE.samples.csv and FILE.columns.csv beside it',
+      'file to write: .csv, .arrow, or .npy with FILE.samples.csv and FILE.columns.csv beside it (default: the CSV on standard output)',
     )
     .option(
       '--shard <I/N>',
-      "only shard I of N (from 1), written as FILE.shard-I-of-N; needs --model or a fixed --grid; default: from a Slurm array or Kubernetes indexed job, 'none' to turn off",
+      "only shard I of N (from 1), written as FILE.shard-I-of-N; needs --out, and --from-model or a fixed --grid; default: from a Slurm array or Kubernetes indexed job, 'none' to turn off",
     )
     .option('--force', 'recompute a shard that is already finished')
-    .option('--format <format>', 'csv, npy or arrow (default: from the extension of --out)');
+    .option(
+      '--format <format>',
+      'csv, npy or arrow (default: from the extension of --out; csv on standard output)',
+    );
   addDiagramOptions(command);
   return command
     .addHelpText(
       'after',
       `
-Without --model the vectoriser is fitted on all the samples given (their range and scaling), which is right
-for exporting features but not for estimating accuracy: use 'landform evaluate', which fits inside each fold.
-Landscape columns read H<degree>/L<layer>/t=<scale>; raw columns D2/r=<distance>, eig/<k>, signal/i=<index>,
-pixel/y=<row>,x=<column>.
+Without --from-model the vectoriser is fitted on all the samples given (their range and scaling), which is
+right for exporting features but not for estimating accuracy: use 'landform evaluate', which fits inside each
+fold. Landscape columns read H<degree>/L<layer>/t=<scale>; raw columns D2/r=<distance>, eig/<k>,
+signal/i=<index>, pixel/y=<row>,x=<column>. Without --out the CSV goes to standard output (no sidecars);
+NPY needs --out, Arrow is refused on a terminal.
 
-Example:
-  landform vectorize lattice-clouds.csv --depth 3 --grid-size 40 --out lattice-features.csv
-  landform vectorize new-lattices.csv --model models/lattice --out new-features.npy`,
+Examples:
+  npx landform vectorize datasets/lattice.csv --depth 3 --grid-size 40 --out lattice-features.csv
+  npx landform vectorize datasets/lattice.csv --from-model models/lattice --out lattice-features.npy`,
     )
     .action(async (input: string, o: VectorizeCommandOptions) => {
-      if (o.out === undefined)
-        throw new UserError('no --out FILE given; name the .csv or .npy file to write');
       const { chooseFormat, writeFeaturesOutput } = await import('../../io/outputs.js');
       const { planShard, resolveShard } = await import('../../io/shard.js');
-      const format = chooseFormat(o.out, o.format, ['csv', 'npy', 'arrow']);
-      checkFileOutput(o.out, [input, o.model], format);
-      const shard = resolveShard(o.shard);
+      const modelDir = renamedOption(o, {
+        key: 'fromModel',
+        flag: '--from-model',
+        oldKey: 'model',
+        oldFlag: '--model',
+      });
+      const format =
+        o.out === undefined
+          ? parseChoiceOption(o.format ?? 'csv', '--format', ['csv', 'npy', 'arrow'] as const)
+          : chooseFormat(o.out, o.format, ['csv', 'npy', 'arrow']);
+      if (o.out === undefined) {
+        if (format === 'npy')
+          throw new UserError('NPY needs --out FILE: its sample and column lists are written beside it');
+        if (format === 'arrow') refuseBinaryOnTerminal('Arrow');
+        if (o.shard !== undefined && o.shard !== 'none')
+          throw new UserError(
+            '--shard needs --out FILE: each shard is written beside it as FILE.shard-I-of-N',
+          );
+      } else checkFileOutput(o.out, [input, modelDir], format);
+      const shard = o.out === undefined ? undefined : resolveShard(o.shard);
       let learnsFromSamples = false;
       let extractor: FeatureExtractor;
-      let parsed: ParsedDiagramOptions;
+      let parsed: Omit<ParsedDiagramOptions, 'choice'>;
       let fitted = false;
       let source: Record<string, unknown>;
       let modelShape: SampleShape | undefined;
       let landscapeColumns: number | undefined;
-      if (o.model !== undefined) {
+      if (modelDir !== undefined) {
         const { loadModelFolder } = await import('../../learn/model-folder.js');
-        const { manifest } = await loadModelFolder(o.model);
+        const { manifest } = await loadModelFolder(modelDir);
         const m = manifest as {
           extractor?: unknown;
           record?: {
@@ -143,7 +162,7 @@ Example:
         if (!m.extractor)
           throw new UserError(
             'the model folder holds no feature extractor; train it again with landform train --save',
-            { file: o.model },
+            { file: modelDir },
           );
         extractor = FeatureExtractor.fromJSON(m.extractor);
         const diagramOptions = m.record?.diagramOptions ?? { degrees: [0, 1] };
@@ -153,16 +172,28 @@ Example:
           ...(m.record?.kind ? { kind: m.record.kind } : {}),
           ...(o.shape !== undefined ? { shape: parseShape(o.shape) } : {}),
         };
-        if (o.workers !== undefined) parsed.workers = parseWorkersOption(o.workers, o.quiet === true);
+        if (o.workers !== undefined)
+          parsed.workers = parseWorkersOption(o.workers, o.quiet === true, MAX_WORKERS);
         fitted = true;
-        source = { model: o.model };
+        source = { model: modelDir };
       } else {
         parsed = parseDiagramOptions(o);
-        const set = parseChoiceOption(o.features, '--features', FEATURE_SET_NAMES) as FeatureSetName;
-        const depth = parseIntegerOption(o.depth, '--depth', 1, 1000);
-        const gridSize = parseIntegerOption(o.gridSize, '--grid-size', 2, 100_000);
+        const setText = renamedOption(o, {
+          key: 'featureSet',
+          flag: '--feature-set',
+          oldKey: 'features',
+          oldFlag: '--features',
+        });
+        const set = parseChoiceOption(
+          setText ?? 'landscape',
+          '--feature-set',
+          FEATURE_SET_NAMES,
+        ) as FeatureSetName;
+        const landscape = parseLandscapeOptions(o, { gridSize: VECTORIZE_GRID_SIZE });
+        const { depth, gridSize, infinite } = landscape;
         const grid = o.grid === undefined ? undefined : parseGridOption(o.grid, '--grid');
-        const infinite = parseInfiniteOption(o.infinite, '--infinite');
+        if (grid !== undefined && landscape.gridSizeGiven)
+          throw new UserError('--grid START:STOP:COUNT sets the grid size itself; drop --grid-size');
         const bins = parseIntegerOption(o.bins, '--bins', 1, 100_000);
         if (set === 'landscape' || set === 'combined') {
           landscapeColumns = parsed.degrees.length * depth * (grid ? grid.count : gridSize);
@@ -191,19 +222,19 @@ Example:
         learnsFromSamples = set !== 'landscape' || grid === undefined || o.standardize === true;
       }
       const dataset = await loadStudyDataset(input, parsed, o.quiet === true);
-      checkFeatureSet(extractor.set, dataset.kind);
+      checkFeatureSet(extractor.set, dataset.kind, '--feature-set');
       if (landscapeColumns !== undefined)
         checkFeatureColumns(landscapeColumns, COLUMN_OPTIONS, dataset.samples.length);
       const shapeProblem = modelShape && sampleShapeProblem(modelShape, dataset);
       if (shapeProblem) throw new UserError(shapeProblem, { file: input });
       if (shard !== undefined && learnsFromSamples) {
         throw new UserError(
-          '--shard needs features fixed in advance, the same in every shard: give --model models/NAME, or --features landscape with --grid START:STOP:COUNT and no --standardize',
+          '--shard needs features fixed in advance, the same in every shard: give --from-model models/NAME, or --feature-set landscape with --grid START:STOP:COUNT and no --standardize',
         );
       }
       const plan = planShard({
         samples: dataset.samples,
-        out: o.out,
+        out: o.out ?? 'features.csv',
         shard,
         output: 'table',
         settings: {
@@ -219,7 +250,7 @@ Example:
       });
       if (plan.message !== undefined && o.quiet !== true) process.stderr.write(`${plan.message}\n`);
       if (plan.finished) return;
-      if (plan.out !== o.out) checkFileOutput(plan.out, [input, o.model], format);
+      if (o.out !== undefined && plan.out !== o.out) checkFileOutput(plan.out, [input, modelDir], format);
       const part = { ...dataset, samples: plan.samples };
       const diagrams =
         extractor.set === 'raw' ? undefined : await diagramsForCommand(part, parsed, o.quiet === true);
@@ -239,19 +270,30 @@ Example:
         diagrams: diagramRecord(dataset.kind, parsed.diagramOptions),
         learned: extractor.toJSON(),
       };
-      await writeFeaturesOutput(
+      const table = {
+        ids: part.samples.map((s) => s.id),
+        labels: part.samples.map((s) => s.label),
+        names: extractor.featureNames(),
+        matrix,
+      };
+      const made = plan.stamp(provenance('vectorize', record));
+      if (o.out === undefined) {
+        if (format === 'arrow') {
+          const { formatFeatureArrow } = await import('../../io/arrow.js');
+          process.stdout.write(await formatFeatureArrow(table, made));
+        } else {
+          const { formatFeatureCsv } = await import('../../io/feature-table.js');
+          process.stdout.write(formatFeatureCsv(table));
+        }
+        return;
+      }
+      await writeFeaturesOutput(plan.out, table, made, format);
+      reportWritten(
+        'vectorize',
         plan.out,
-        {
-          ids: part.samples.map((s) => s.id),
-          labels: part.samples.map((s) => s.label),
-          names: extractor.featureNames(),
-          matrix,
-        },
-        plan.stamp(provenance('vectorize', record)),
-        format,
-      );
-      process.stdout.write(
-        `wrote ${plan.out}: ${matrix.rows} samples × ${matrix.cols} features (${extractor.set}; fitted on ${record.fittedOn})\n`,
+        `${matrix.cols} ${extractor.set} features fitted on ${record.fittedOn}`,
+        matrix.rows,
+        o.quiet,
       );
     });
 }
