@@ -11,7 +11,7 @@ import { type ContrastTest, contrastAll, DEFAULT_PERMUTATION_OPTIONS } from './p
  * filtration's degree is its own channel (own grid, own tests) and Holm's family spans all of them.
  */
 export interface ContrastOptions {
-  /** Homology degrees. Default [1]. */
+  /** Homology degrees. Default [0, 1], as every command. */
   degrees?: readonly number[];
   /** Landscape depth K. Default 5. */
   depth?: number;
@@ -28,7 +28,7 @@ export interface ContrastOptions {
 }
 
 export const DEFAULT_CONTRAST_OPTIONS = {
-  degrees: [1],
+  degrees: [0, 1],
   depth: 5,
   gridCount: 200,
   ...DEFAULT_PERMUTATION_OPTIONS,
