@@ -113,7 +113,9 @@ export class RawFeatures {
         break;
       }
       case 'diagrams':
-        throw new UserError('a diagrams dataset has no raw-feature baseline; use a feature set built from diagrams (landscape, betti, stats, pimage)');
+        throw new UserError(
+          'a diagrams dataset has no raw-feature baseline; use a feature set built from diagrams (landscape, betti, stats, pimage)',
+        );
     }
     return this;
   }
@@ -151,7 +153,9 @@ export class RawFeatures {
           out.set(s.values);
           break;
         case 'diagrams':
-          throw new UserError('a diagrams dataset has no raw-feature baseline; use a feature set built from diagrams (landscape, betti, stats, pimage)');
+          throw new UserError(
+            'a diagrams dataset has no raw-feature baseline; use a feature set built from diagrams (landscape, betti, stats, pimage)',
+          );
       }
     }
     return { rows: chosen.length, cols, data };

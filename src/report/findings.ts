@@ -35,7 +35,30 @@ export function findingsOf(evaluation: EvaluationResult, contrasts: readonly Con
   const Words = words.charAt(0).toUpperCase() + words.slice(1);
   const raw = bestResult(evaluation.results, 'raw');
   const combined = bestResult(evaluation.results, 'combined');
-  if (land && raw) {
+  const pair = land && evaluation.paired?.find((p) => p.features === land.features && p.model === land.model);
+  if (land && raw && pair) {
+    // The paired interval (same model, same outer folds; src/learn/paired.ts) decides the wording: a gap whose
+    // interval holds zero is not called a gain, however large the means look.
+    const l = `${words} (${land.model}) reach ${pct(land.accuracy.mean)} ± ${pct(land.accuracy.std)}`;
+    const r = `the raw baseline (${raw.model}) ${pct(raw.accuracy.mean)} ± ${pct(raw.accuracy.std)}`;
+    const points = (v: number) => `${v > 0 ? '+' : v < 0 ? '−' : ''}${Math.abs(100 * v).toFixed(0)}`;
+    const interval = `with ${pair.model} on both, the paired difference over the same ${pair.pairs} folds is ${points(pair.mean)} points [${points(pair.lower)}, ${points(pair.upper)}] (${Math.round(100 * pair.level)}% interval)`;
+    if (pair.lower > 0) out.push(`Shape helps here: ${l}, above ${r}; ${interval}, which excludes zero.`);
+    else if (pair.upper < 0)
+      out.push(
+        `The raw baseline wins on this set: ${r} against ${l}; ${interval}, which excludes zero. A plain summary of the data already separates these classes; persistent homology adds nothing here.`,
+      );
+    else if (pair.mean > 0.02)
+      out.push(
+        `${Words} are somewhat ahead: ${l} against ${r}, but ${interval}, which includes zero: treat the gain as unproven.`,
+      );
+    else if (pair.mean >= -0.02)
+      out.push(`No gain from shape on this set: ${l} and ${r} perform alike; ${interval}.`);
+    else
+      out.push(
+        `The raw baseline is somewhat ahead: ${r} against ${l}, but ${interval}, which includes zero.`,
+      );
+  } else if (land && raw) {
     const gap = land.accuracy.mean - raw.accuracy.mean;
     const spread = Math.max(land.accuracy.std, raw.accuracy.std);
     const l = `${words} (${land.model}) reach ${pct(land.accuracy.mean)} ± ${pct(land.accuracy.std)}`;
