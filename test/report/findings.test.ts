@@ -33,7 +33,6 @@ describe('findingsOf', () => {
     // Five folds, n_test/n_train = 1/4, the corrected resampled t interval (Nadeau & Bengio, "Inference for the
     // Generalization Error", Machine Learning 2003) computed by the library itself.
     const paired = (differences: number[]) => {
-      const mean = differences.reduce((a, b) => a + b, 0) / differences.length;
       const ci = correctedResampledInterval(differences, 1 / 4);
       return {
         features: 'landscape',
@@ -41,7 +40,6 @@ describe('findingsOf', () => {
         model: 'pca-svm',
         pairs: differences.length,
         differences,
-        mean,
         ...ci,
         level: PAIRED_LEVEL,
       };

@@ -45,7 +45,6 @@ export function defineDemo(program: Command): Command {
         known: ['metrics.json', 'report.html'],
         addsFiles: true,
       });
-      const started = performance.now();
       const { runDemo, accuracyTable } = await import('../../demo/study.js');
       const bar = await startProgress('demo', 100, quiet);
       let result: Awaited<ReturnType<typeof runDemo>>;
