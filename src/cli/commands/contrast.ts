@@ -1,5 +1,5 @@
 import type { Command } from 'commander';
-import type { DiagramSet } from '../../core/diagram.js';
+import { channelsOf, type DiagramSet } from '../../core/diagram.js';
 import { UserError } from '../../core/errors.js';
 import type { Dataset } from '../../core/sample.js';
 import { provenance } from '../../core/version.js';
@@ -23,7 +23,7 @@ interface ContrastFlags {
   degrees: string;
   depth: string;
   gridCount: string;
-  permutations: string;
+  permutations?: string;
   seed: string;
   p: string;
   format: string;
@@ -92,7 +92,10 @@ export function defineContrast(program: Command): Command {
     .option('--degrees <list>', 'homology degrees to compare', '1')
     .option('--depth <K>', 'landscape layers 1..K', '5')
     .option('--grid-count <N>', 'grid points per degree on which mean landscapes are compared', '200')
-    .option('--permutations <R>', 'random relabellings per test', '999')
+    .option(
+      '--permutations <R>',
+      'random relabellings per test (default: 999, raised for a large family so its adjusted p can reach 0.01, at most 9,999)',
+    )
     .option('--seed <n>', 'seed of the relabellings', '1')
     .option('--p <p>', 'p of the Lp distance between class means (≥ 1, or inf)', '2')
     .option('--format <format>', 'json or text', 'json')
@@ -113,7 +116,10 @@ export function defineContrast(program: Command): Command {
       const degrees = parseDegreesOption(flags.degrees);
       const depth = parseIntegerOption(flags.depth, '--depth', 1, 100);
       const gridCount = parseIntegerOption(flags.gridCount, '--grid-count', 2, 100_000);
-      const permutations = parseIntegerOption(flags.permutations, '--permutations', 1, 10_000_000);
+      const permutations =
+        flags.permutations === undefined
+          ? undefined
+          : parseIntegerOption(flags.permutations, '--permutations', 1, 10_000_000);
       const seed = parseIntegerOption(flags.seed, '--seed', 0, 2 ** 32 - 1);
       const p = parsePOption(flags.p);
       const format = parseChoiceOption(flags.format, '--format', ['json', 'text'] as const);
@@ -179,14 +185,17 @@ export function defineContrast(program: Command): Command {
       }
       const { contrastDiagrams, contrastJson, contrastText } = await import('../../report/contrast.js');
       const pairs = (classes.length * (classes.length - 1)) / 2;
-      const testBar = await startProgress('permutations', pairs * degrees.length * permutations, quiet);
+      const { permutationsForFamily } = await import('../../report/permutation.js');
+      const family = pairs * channelsOf(sets, degrees).length;
+      const used = permutations ?? permutationsForFamily(family);
+      const testBar = await startProgress('permutations', family * used, quiet);
       let result: ReturnType<typeof contrastDiagrams>;
       try {
         result = contrastDiagrams(sets, {
           degrees,
           depth,
           gridCount,
-          permutations,
+          permutations: used,
           p,
           seed,
           infinite,
@@ -201,7 +210,8 @@ export function defineContrast(program: Command): Command {
         ...filtrationRecord(choice, sets),
         depth,
         gridCount,
-        permutations,
+        permutations: result.permutations,
+        ...(permutations === undefined ? { permutationsChosen: 'for the family' } : {}),
         p: p === Infinity ? 'inf' : p,
         infinite: flags.infinite,
       };
@@ -218,7 +228,7 @@ export function defineContrast(program: Command): Command {
                 : 'all pairs of classes × all degrees',
               grids: result.grids,
             })
-          : contrastText(result, permutations);
+          : contrastText(result);
       if (flags.out) {
         const { writeFileAtomic } = await import('../../io/atomic.js');
         writeFileAtomic(flags.out, text);
