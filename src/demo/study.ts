@@ -74,11 +74,11 @@ export interface DemoResult {
 /** The demo's settings, full or quick (documented in the README). */
 export function demoSettings(quick: boolean): { folds: number; models: ModelName[]; report: ReportOptions } {
   return quick
-    ? { folds: 3, models: ['pca-svm'], report: { permutations: 199, draws: 300, importanceRepeats: 2 } }
+    ? { folds: 3, models: ['pca-svm'], report: { basePermutations: 199, draws: 300, importanceRepeats: 2 } }
     : {
         folds: 5,
         models: ['pca-svm', 'dense'],
-        report: { permutations: 999, draws: 1000, importanceRepeats: 5 },
+        report: { basePermutations: 999, draws: 1000, importanceRepeats: 5 },
       };
 }
 
@@ -203,6 +203,7 @@ export function demoMetricsJson(
       name: o.spec.name,
       source: o.spec.path,
       metrics: JSON.parse(format(o.evaluation)) as unknown,
+      contrastPermutations: o.pieces.permutations,
       contrasts: o.pieces.contrasts.map((t) => ({
         a: t.a,
         b: t.b,

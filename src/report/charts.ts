@@ -260,7 +260,7 @@ export function degreeName(slot: number | Channel): string {
 }
 
 /** A colour scale that gives each class the same colour in every chart of the page. */
-function classColour(classes: readonly string[]): Record<string, unknown> {
+export function classColour(classes: readonly string[]): Record<string, unknown> {
   return {
     domain: [...classes],
     range: classes.map((_, i) => CATEGORY_COLOURS[i % CATEGORY_COLOURS.length]),

@@ -1,7 +1,15 @@
 import { channelName, channelsOf, type DiagramSet, type InfinitePolicy } from '../core/diagram.js';
 import { classesOf } from '../core/sample.js';
 import { classStacks, sharedGrid } from './means.js';
-import { type ContrastTest, contrastAll, DEFAULT_PERMUTATION_OPTIONS } from './permutation.js';
+import {
+  BASE_PERMUTATIONS,
+  type ContrastTest,
+  contrastAll,
+  DEFAULT_PERMUTATION_OPTIONS,
+  permutationReach,
+  permutationsForFamily,
+  unreachableSentence,
+} from './permutation.js';
 
 /**
  * `contrast`: for every pair of classes and every degree, a permutation test of equal mean landscapes
@@ -17,8 +25,14 @@ export interface ContrastOptions {
   depth?: number;
   /** Grid points per degree. Default 200. */
   gridCount?: number;
-  /** Relabellings per test. Default 999. */
+  /**
+   * Relabellings per test, as given. Default: enough for the family (`permutationsForFamily`): at least
+   * `basePermutations`, raised for a large family so that its smallest adjusted p can reach 0.01, at most
+   * PERMUTATION_BUDGET (9,999).
+   */
   permutations?: number;
+  /** The least relabellings per test when `permutations` is not given. Default 999. */
+  basePermutations?: number;
   /** p of the Lp distance between means (≥ 1, or Infinity). Default 2. */
   p?: number;
   /** Default 1. */
@@ -37,6 +51,8 @@ export const DEFAULT_CONTRAST_OPTIONS = {
 export interface ContrastResult {
   classes: string[];
   tests: ContrastTest[];
+  /** Relabellings per test actually used (the given count, or the one chosen for the family). */
+  permutations: number;
   /** The grid of each degree. */
   grids: Array<{ degree: number; filtration?: string; start: number; stop: number; count: number }>;
 }
@@ -57,13 +73,17 @@ export function contrastDiagrams(sets: readonly DiagramSet[], options: ContrastO
       ({ label, stack }) => ({ label, stack }),
     ),
   }));
+  const classes = classesOf(sets);
+  const family = stacks.reduce((m, d) => m + (d.classes.length * (d.classes.length - 1)) / 2, 0);
+  const permutations =
+    options.permutations ?? permutationsForFamily(family, options.basePermutations ?? BASE_PERMUTATIONS);
   const tests = contrastAll(stacks, {
-    permutations: options.permutations,
+    permutations,
     p: options.p,
     seed: options.seed,
     onProgress: options.onProgress,
   });
-  return { classes: classesOf(sets), tests, grids };
+  return { classes, tests, grids, permutations };
 }
 
 /** Compact, stable number text for JSON contracts: up to 6 significant digits. */
@@ -86,7 +106,7 @@ export function contrastJson(result: ContrastResult, extra: Record<string, unkno
 }
 
 /** A plain-text table for reading in a terminal. */
-export function contrastText(result: ContrastResult, permutations: number): string {
+export function contrastText(result: ContrastResult, permutations = result.permutations): string {
   const header = ['degree', 'class a', 'class b', 'n a', 'n b', 'distance', 'p', 'p (Holm)', ''];
   const rows = result.tests.map((t) => [
     channelName(t),
@@ -111,6 +131,9 @@ export function contrastText(result: ContrastResult, permutations: number): stri
     ...rows.map(line),
     '',
     `${result.tests.length} tests (every pair of classes × degree), Holm-corrected together; ${permutations} permutations each, so no adjusted p can fall below ${floor}.`,
+    ...[unreachableSentence(permutationReach(result.tests.length, permutations), 'tests')].filter(
+      (line): line is string => line !== undefined,
+    ),
     '',
   ].join('\n');
 }

@@ -1,7 +1,7 @@
 import { channelName } from '../core/diagram.js';
 import type { EvaluationResult, StudyResult } from '../learn/evaluate.js';
 import { bestResult } from '../learn/explain.js';
-import type { ContrastTest } from './permutation.js';
+import { type ContrastTest, permutationReach, unreachableSentence } from './permutation.js';
 
 /** How the findings name each feature set built from diagrams alone. */
 const SHAPE_SET_WORDS: Record<string, string> = {
@@ -24,9 +24,14 @@ function bestShape(results: readonly StudyResult[]): { result: StudyResult; word
 
 /**
  * Plain-words findings: how the best features built from diagrams alone compare with the raw baseline, and
- * what the contrasts say.
+ * what the contrasts say. Given the permutations per test, a family whose smallest possible adjusted p is
+ * above 5% is said to be untestable at that level instead of counted as "0 of N differ".
  */
-export function findingsOf(evaluation: EvaluationResult, contrasts: readonly ContrastTest[]): string[] {
+export function findingsOf(
+  evaluation: EvaluationResult,
+  contrasts: readonly ContrastTest[],
+  permutations?: number,
+): string[] {
   const out: string[] = [];
   const pct = (v: number) => `${(100 * v).toFixed(0)}%`;
   const shape = bestShape(evaluation.results);
@@ -84,7 +89,15 @@ export function findingsOf(evaluation: EvaluationResult, contrasts: readonly Con
         : `Combining landscape and raw features gives ${pct(combined.accuracy.mean)}, no better than the better of the two alone.`,
     );
   }
-  if (contrasts.length > 0) {
+  const unreachable =
+    permutations === undefined
+      ? undefined
+      : unreachableSentence(
+          permutationReach(contrasts.length, permutations),
+          'class-pair × degree contrasts',
+        );
+  if (unreachable) out.push(unreachable);
+  else if (contrasts.length > 0) {
     const differ = contrasts.filter((t) => t.pAdjusted <= 0.05);
     out.push(
       `${differ.length} of ${contrasts.length} class-pair × degree contrasts show different mean landscapes at the 5% level after Holm's correction` +

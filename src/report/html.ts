@@ -14,10 +14,13 @@ import {
   renderSvg,
   weightMapChart,
 } from './charts.js';
+import { CHOSEN_ROWS_SHOWN, type ChosenRow } from './chosen.js';
+import { type DistanceMap, distanceMapChart } from './distance-map.js';
 import { escapeHtml } from './escape.js';
 import { type PairedRow, pairedTableHtml } from './paired.js';
 import { FONT_STACK, INK, MONO_STACK, MUTED_INK, RULE } from './palette.js';
-import type { ContrastTest } from './permutation.js';
+import { type ContrastTest, type PermutationReach, unreachableSentence } from './permutation.js';
+import { type SampleMap, sampleMapChart } from './scatter.js';
 
 export { escapeHtml };
 
@@ -63,9 +66,17 @@ export interface DatasetReport {
     filtration?: string;
     classes: ReadonlyArray<{ label: string; band: SampledBand }>;
   }>;
+  /** What the inner cross-validation chose in each outer fold (src/report/chosen.ts). */
+  chosen?: readonly ChosenRow[];
+  /** Samples on the first two principal components of each feature set (fitted on all samples). */
+  sampleMaps?: readonly SampleMap[];
+  /** Bottleneck distances between the samples' diagrams of one channel, ordered by class. */
+  distanceMap?: DistanceMap;
   contrasts: readonly ContrastTest[];
   /** Contrast settings for the caption. */
   contrastNote?: string;
+  /** How far the contrast family can reach with its permutations (the caption says when it cannot). */
+  contrastReach?: PermutationReach;
   maps?: DiscriminativeMaps;
   /** One sample per class; with several filtrations, its diagrams under the first one (named in `filtration`). */
   examples: ReadonlyArray<{
@@ -125,6 +136,31 @@ function part(id: string, name: string, title: string, intro: string, body: stri
   return `<section class="part" id="${id}" data-part="${name}"><h3>${title}</h3><p class="how">${intro}</p>${body}</section>`;
 }
 
+/** The hyperparameters chosen per outer fold, one row per distinct choice of each feature set and model. */
+function chosenTable(rows: readonly ChosenRow[]): string {
+  if (rows.length === 0) return '';
+  const shown = rows.slice(0, CHOSEN_ROWS_SHOWN);
+  const accuracies = (a: readonly number[]) =>
+    a.length <= 6
+      ? a.map((v) => fixed(v, 2)).join(', ')
+      : `${fixed(a.reduce((x, y) => x + y, 0) / a.length, 2)} (mean of ${a.length})`;
+  const body = shown
+    .map(
+      (r) =>
+        `<tr><td>${escapeHtml(r.features)}</td><td>${escapeHtml(r.model)}</td><td>${escapeHtml(r.choice)}</td>` +
+        `<td class="num">${escapeHtml(r.folds.join(', '))}</td><td class="num">${accuracies(r.accuracies)}</td></tr>`,
+    )
+    .join('');
+  const more =
+    shown.length < rows.length
+      ? ` The first ${shown.length} of ${rows.length} rows are shown; metrics.json lists every fold's choice.`
+      : '';
+  return (
+    `<h4 class="sub">Hyperparameters chosen in each outer fold</h4><p class="how">The inner cross-validation of every outer training fold chose these values (landscape depth and grid size, then the model's); folds that chose alike share a row (folds numbered from 1${rows.some((r) => r.folds.some((f) => f.includes('.'))) ? ', as repeat.fold' : ''}). A choice that changes from fold to fold means the data do not pin it down.${more}</p>` +
+    `<table class="grid chosen"><tr><th>features</th><th>model</th><th>chosen</th><th class="num">outer folds</th><th class="num">accuracy in those folds</th></tr>${body}</table>`
+  );
+}
+
 async function datasetSection(ds: DatasetReport, index: number): Promise<string> {
   const id = `d${index + 1}-${slug(ds.name)}`;
   const pieces: string[] = [];
@@ -178,7 +214,8 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
         `Outer cross-validation folds: the dot is the mean accuracy, the bar ± one standard deviation over folds (clipped to [0, 1]); the dashed line is chance (${fixed(chance, 2)}). Raw-feature baselines sit beside the landscape features so the gain (or its absence) is visible.`,
         figure(svg, accuracyCaption(ds.accuracy), 'accuracy') +
           `<table class="grid"><tr><th>features</th><th>model</th><th class="num">accuracy (mean ± sd)</th><th class="num">balanced accuracy</th><th class="num">macro F1</th></tr>${rows}</table>` +
-          pairedTableHtml(ds.paired ?? []),
+          pairedTableHtml(ds.paired ?? []) +
+          chosenTable(ds.chosen ?? []),
       ),
     );
   }
@@ -203,6 +240,55 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
         'Confusion matrices',
         'Rows are the true classes, columns the predicted ones; the diagonal holds the correct calls.',
         `<div class="tiles">${charts.join('')}</div>`,
+      ),
+    );
+  }
+
+  // Sample maps: PC1 against PC2 of each feature set.
+  if (ds.sampleMaps && ds.sampleMaps.length > 0) {
+    const classes = ds.summary.classes.map((c) => c.label);
+    const charts: string[] = [];
+    for (const m of ds.sampleMaps) {
+      const svg = await renderSvg(sampleMapChart(m, classes, `${m.features} features`));
+      charts.push(
+        figure(
+          svg,
+          `${escapeHtml(m.features)} features (${m.columns} columns${m.made ? `; ${escapeHtml(m.made)}` : ''}), standardised; the first two components keep ${fixed(100 * (m.explained[0] + m.explained[1]), 0)}% of the variance.`,
+          'scatter',
+        ),
+      );
+    }
+    pieces.push(
+      part(
+        `${id}-samples`,
+        'samples',
+        'The samples in two dimensions',
+        `Each point is a sample, placed by the first two principal components of its features; colour and shape give its class. Where a feature set separates the classes, their points form apart. The scaler and the PCA are fitted on all ${ds.summary.samples} samples: this is a picture of the data, not a model, and it says nothing about accuracy on new samples — that is the accuracy part's job. Two dimensions can also hide a separation that more components hold.`,
+        `<div class="tiles pair">${charts.join('')}</div>`,
+      ),
+    );
+  }
+
+  // Diagram-distance map.
+  if (ds.distanceMap && ds.distanceMap.samples.length > 1) {
+    const m = ds.distanceMap;
+    const classes = ds.summary.classes.map((c) => c.label);
+    const svg = await renderSvg(distanceMapChart(m, classes));
+    const drawn =
+      m.samples.length < m.total
+        ? `${m.samples.length} of ${m.total} samples, at most ${m.perClass} per class drawn evenly per class with seed ${m.seed} so the map renders fast`
+        : `all ${m.total} samples`;
+    pieces.push(
+      part(
+        `${id}-distances`,
+        'distances',
+        'How far apart are the diagrams?',
+        `Bottleneck distance between the samples' persistence diagrams (Cohen-Steiner, Edelsbrunner and Harer, 2007), no features and no model in between. Samples are ordered by class (the strip on top gives the class; lines mark where one class ends); dark is close. Dark blocks on the diagonal and light ones off it mean the diagrams alone tell the classes apart.`,
+        figure(
+          svg,
+          `${escapeHtml(m.reason)}. ${drawn}; essential classes treated as for the landscapes.`,
+          'distances',
+        ),
       ),
     );
   }
@@ -249,16 +335,19 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
             .sort((x, y) => x.p - y.p || x.statistic - y.statistic)
             .slice(0, CONTRAST_ROWS_SHOWN)
         : ds.contrasts;
+    const unreachable = ds.contrastReach ? unreachableSentence(ds.contrastReach) : undefined;
     const cut =
       shown.length < ds.contrasts.length
-        ? ` The table shows the ${shown.length} smallest p values of ${ds.contrasts.length} tests, ${ds.contrasts.filter((t) => t.pAdjusted <= 0.05).length} of which differ at 5% after Holm; with a family this large, test a few chosen filtrations and classes with landform contrast.`
+        ? ` The table shows the ${shown.length} smallest p values of ${ds.contrasts.length} tests${unreachable ? '' : `, ${ds.contrasts.filter((t) => t.pAdjusted <= 0.05).length} of which differ at 5% after Holm`}; with a family this large, test a few chosen filtrations and classes with landform contrast.`
         : '';
+    const verdict = (t: ContrastTest) =>
+      t.pAdjusted <= 0.05 ? 'differ' : unreachable ? 'not testable' : 'no evidence';
     const rows = shown
       .map(
         (t) =>
           `<tr${t.pAdjusted <= 0.05 ? ' class="sig"' : ''}><td>${escapeHtml(channelName(t))}</td><td>${escapeHtml(t.a)}</td><td>${escapeHtml(t.b)}</td>` +
           `<td class="num">${t.sizes[0]} / ${t.sizes[1]}</td><td class="num">${fixed(t.statistic, 4)}</td><td class="num">${pValue(t.p)}</td><td class="num">${pValue(t.pAdjusted)}</td>` +
-          `<td>${t.pAdjusted <= 0.05 ? 'differ' : 'no evidence'}</td></tr>`,
+          `<td>${verdict(t)}</td></tr>`,
       )
       .join('');
     pieces.push(
@@ -267,7 +356,8 @@ async function datasetSection(ds: DatasetReport, index: number): Promise<string>
         'contrasts',
         'Do the class means differ?',
         `Permutation tests of equal mean landscapes for every pair of classes and degree (Robinson and Turner, 2017), with Holm's correction over the whole family (Holm, 1979). ${escapeHtml(ds.contrastNote ?? '')}${cut}`,
-        `<table class="grid"><tr><th>${ds.contrasts.some((t) => t.filtration !== undefined) ? 'filtration / degree' : 'degree'}</th><th>class a</th><th>class b</th><th class="num">samples</th><th class="num">distance of means</th><th class="num">p</th><th class="num">p (Holm)</th><th>at 5%</th></tr>${rows}</table>`,
+        (unreachable ? `<p class="warn" data-reach="unreachable">${escapeHtml(unreachable)}</p>` : '') +
+          `<table class="grid"><tr><th>${ds.contrasts.some((t) => t.filtration !== undefined) ? 'filtration / degree' : 'degree'}</th><th>class a</th><th>class b</th><th class="num">samples</th><th class="num">distance of means</th><th class="num">p</th><th class="num">p (Holm)</th><th>at 5%</th></tr>${rows}</table>`,
       ),
     );
   }
@@ -389,6 +479,8 @@ table.grid td{border-bottom:1px solid var(--rule);padding:4px 14px 4px 0}
 .num{text-align:right;font-variant-numeric:tabular-nums}
 tr.best td{background:#eef4fb;font-weight:600}
 tr.sig td{background:#eef4fb}
+h4.sub{font-size:14px;margin:16px 0 2px}
+p.warn{margin:6px 0 8px;background:#fff8ec;border-left:4px solid #d08a17;padding:6px 12px;border-radius:4px;color:#4a3510;max-width:920px}
 .findings{margin-top:14px;background:#f6f8fb;border-left:4px solid var(--accent);padding:8px 16px;border-radius:4px}
 .findings h4{margin:4px 0;font-size:14px}
 .findings ul{margin:4px 0 6px;padding-left:20px}
@@ -396,6 +488,7 @@ figure.chart{margin:8px 0 14px;display:inline-block;vertical-align:top}
 figure.chart svg{display:block;max-width:100%;height:auto}
 figure.chart figcaption{font-size:12.5px;color:var(--muted);max-width:560px;margin-top:4px}
 .tiles{display:flex;flex-wrap:wrap;gap:6px 26px}
+.tiles.pair figure.chart figcaption{max-width:440px}
 span.key{display:inline-block;width:10px;height:10px;border-radius:50%;margin:0 4px 0 6px;vertical-align:0}
 section.glance{background:var(--paper);border:1px solid var(--rule);border-radius:8px;margin:18px 0;padding:6px 28px 16px}
 section.glance h2{font-size:18px;margin:14px 0 2px}

@@ -8,6 +8,7 @@ export {
   type SampledBand,
 } from './bands.js';
 export { renderSvg, type WeightCurve } from './charts.js';
+export { type ChosenRow, chosenRows } from './chosen.js';
 export {
   type ContrastOptions,
   type ContrastResult,
@@ -15,6 +16,13 @@ export {
   contrastJson,
   contrastText,
 } from './contrast.js';
+export {
+  chooseMapChannel,
+  type DistanceMap,
+  diagramDistanceMap,
+  distanceMapChart,
+  evenSubsample,
+} from './distance-map.js';
 export { findingsOf } from './findings.js';
 export { holmAdjust, holmRejects } from './holm.js';
 export { CAUTION_TEXT, type DatasetReport, escapeHtml, type ReportInput, renderReport } from './html.js';
@@ -35,13 +43,19 @@ export {
 } from './means.js';
 export { type PairedRow, pairedTableHtml, signedDifference } from './paired.js';
 export {
+  BASE_PERMUTATIONS,
   type ContrastTest,
   contrastAll,
   DEFAULT_PERMUTATION_OPTIONS,
+  PERMUTATION_BUDGET,
   type PermutationOptions,
+  type PermutationReach,
   type PermutationResult,
+  permutationReach,
+  permutationsForFamily,
   permutationTest,
 } from './permutation.js';
+export { principalPlane, type SampleMap, sampleMap, sampleMapChart } from './scatter.js';
 export {
   type GridSpec,
   type LandscapeStack,

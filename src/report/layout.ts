@@ -1,15 +1,26 @@
-import type { DiagramSet, InfinitePolicy } from '../core/diagram.js';
+import { channelsOf, type DiagramSet, type InfinitePolicy } from '../core/diagram.js';
 import { classesOf, type Dataset } from '../core/sample.js';
 import { version } from '../core/version.js';
+import { FeatureExtractor } from '../features/combined.js';
 import type { LandscapeVectorizerOptions } from '../features/landscape-vectorizer.js';
+import type { RawFeaturesOptions } from '../features/raw-features.js';
 import type { DiagramOptions } from '../homology/compute.js';
 import type { EvaluationResult } from '../learn/evaluate.js';
-import { discriminativeMaps } from '../learn/explain.js';
+import { bestResult, discriminativeMaps } from '../learn/explain.js';
+import { chosenRows } from './chosen.js';
 import { contrastDiagrams } from './contrast.js';
+import {
+  chooseMapChannel,
+  DISTANCE_MAP_SAMPLES,
+  DISTANCE_MAP_WORK,
+  type DistanceMap,
+  diagramDistanceMap,
+} from './distance-map.js';
 import { findingsOf } from './findings.js';
 import type { DatasetReport } from './html.js';
 import { classMeans, type DegreeMeans } from './means.js';
-import type { ContrastTest } from './permutation.js';
+import { BASE_PERMUTATIONS, type ContrastTest, PERMUTATION_BUDGET, permutationReach } from './permutation.js';
+import { type SampleMap, sampleMap } from './scatter.js';
 
 /**
  * The layout of one dataset's part of the report: given a dataset, its diagrams and an evaluation
@@ -28,8 +39,15 @@ export interface ReportOptions {
   level?: number;
   /** Bootstrap draws of the bands. Default 1000. */
   draws?: number;
-  /** Permutations of each contrast. Default 999. */
+  /**
+   * Permutations of each contrast, as given. Default: `basePermutations`, raised for a large family so that
+   * its smallest adjusted p can reach 0.01, at most PERMUTATION_BUDGET (see `permutationsForFamily`).
+   */
   permutations?: number;
+  /** The least permutations of each contrast when `permutations` is not given. Default 999. */
+  basePermutations?: number;
+  /** Samples of the diagram-distance map at most (evenly per class). Default DISTANCE_MAP_SAMPLES (48). */
+  mapSamples?: number;
   /** Shuffles per group and fold of the permutation importance. Default 5. */
   importanceRepeats?: number;
   /** Default 1. */
@@ -42,7 +60,8 @@ export const DEFAULT_REPORT_OPTIONS = {
   gridCount: 100,
   level: 0.95,
   draws: 1000,
-  permutations: 999,
+  basePermutations: BASE_PERMUTATIONS,
+  mapSamples: DISTANCE_MAP_SAMPLES,
   importanceRepeats: 5,
   seed: 1,
 } as const;
@@ -51,6 +70,8 @@ export interface ReportPieces {
   report: DatasetReport;
   means: DegreeMeans[];
   contrasts: ContrastTest[];
+  /** Permutations per contrast actually used (0 without diagrams). */
+  permutations: number;
 }
 
 /** Facts about the samples for the summary table. */
@@ -100,6 +121,8 @@ export async function buildDatasetReport(
     evaluation: EvaluationResult;
     landscape: LandscapeVectorizerOptions;
     diagramOptions?: DiagramOptions | Record<string, unknown> | string;
+    /** Options of the raw features for the sample map. Default: those the evaluation recorded. */
+    raw?: RawFeaturesOptions;
   },
   options: ReportOptions = {},
 ): Promise<ReportPieces> {
@@ -120,15 +143,24 @@ export async function buildDatasetReport(
         band: { level: o.level, draws: o.draws, seed: o.seed },
       });
   const contrast = !shaped
-    ? { tests: [] as ContrastTest[] }
+    ? { tests: [] as ContrastTest[], permutations: 0 }
     : contrastDiagrams(diagrams, {
         degrees,
         depth: o.depth,
         gridCount: o.gridCount,
-        permutations: o.permutations,
+        ...(options.permutations !== undefined ? { permutations: options.permutations } : {}),
+        basePermutations: o.basePermutations,
         seed: o.seed,
         infinite,
       });
+  const permutations = contrast.permutations;
+  const reach = permutationReach(contrast.tests.length, permutations);
+  const permutationWords =
+    options.permutations !== undefined
+      ? `${permutations} permutations per test (as given)`
+      : permutations > o.basePermutations
+        ? `${permutations} permutations per test (raised from ${o.basePermutations} for a family of ${contrast.tests.length} tests, budget ${PERMUTATION_BUDGET})`
+        : `${permutations} permutations per test`;
   const axes = means.map((m) => {
     const t = new Float64Array(m.grid.count);
     for (let j = 0; j < m.grid.count; j++)
@@ -142,6 +174,8 @@ export async function buildDatasetReport(
         seed: o.seed,
       });
   const classes = classesOf(dataset.samples);
+  const sampleMaps = await sampleMapsOf(dataset, diagrams, evaluation, input.landscape, input.raw);
+  const distanceMap = !shaped ? undefined : distanceMapOf(diagrams, degrees, contrast.tests, infinite, o);
   const examples = !shaped
     ? []
     : classes.map((label) => {
@@ -176,7 +210,11 @@ export async function buildDatasetReport(
       seed: evaluation.seed,
       ...(shaped ? {} : { note: 'no diagrams (table data): accuracy only' }),
       'class means': `depth ${o.depth}, ${o.gridCount}-point grid, ${Math.round(o.level * 100)}% band from ${o.draws} multiplier draws`,
-      contrasts: `${o.permutations} permutations, L2 distance, Holm over all pairs × degrees`,
+      ...(shaped
+        ? {
+            contrasts: `${permutationWords}, L2 distance, Holm over all ${contrast.tests.length} pairs × degrees`,
+          }
+        : {}),
     },
     accuracy: evaluation.results.map((r) => ({
       features: r.features,
@@ -198,13 +236,91 @@ export async function buildDatasetReport(
       ...(m.filtration !== undefined ? { filtration: m.filtration } : {}),
       classes: m.classes.map((c) => ({ label: c.label, band: c.band })),
     })),
+    chosen: chosenRows(evaluation.results),
+    ...(sampleMaps.length > 0 ? { sampleMaps } : {}),
+    ...(distanceMap ? { distanceMap } : {}),
     contrasts: contrast.tests,
-    contrastNote: `${o.permutations} permutations per test, L2 distance between sampled means (depth ${o.depth}); with ${contrast.tests.length} tests the smallest possible adjusted p is ${(contrast.tests.length / (o.permutations + 1)).toPrecision(2)}.`,
+    contrastNote: `${permutationWords}, L2 distance between sampled means (depth ${o.depth}); with ${contrast.tests.length} tests the smallest possible adjusted p is ${reach.floor.toPrecision(2)}.`,
+    ...(shaped ? { contrastReach: reach } : {}),
     ...(maps ? { maps } : {}),
     examples,
-    findings: findingsOf(evaluation, contrast.tests),
+    findings: findingsOf(evaluation, contrast.tests, shaped ? permutations : undefined),
   };
-  return { report, means, contrasts: contrast.tests };
+  return { report, means, contrasts: contrast.tests, permutations };
+}
+
+/**
+ * The sample maps: the landscape features (with the depth and grid the best landscape model chose most
+ * often) and the raw features, each standardised and projected on its first two principal components, fitted
+ * on all samples (a picture, not a model).
+ */
+async function sampleMapsOf(
+  dataset: Dataset,
+  diagrams: readonly DiagramSet[],
+  evaluation: EvaluationResult,
+  landscape: LandscapeVectorizerOptions,
+  raw: RawFeaturesOptions | undefined,
+): Promise<SampleMap[]> {
+  if (dataset.samples.length < 3) return [];
+  const data = {
+    samples: dataset.samples,
+    ...(diagrams.length > 0 ? { diagrams } : {}),
+    ...(dataset.columns ? { columns: dataset.columns } : {}),
+  };
+  const ids = dataset.samples.map((s) => ({ id: s.id, label: s.label }));
+  const out: SampleMap[] = [];
+  const best = bestResult(evaluation.results, 'landscape');
+  if (best && diagrams.length > 0) {
+    const chosen = best.chosen.mostFrequent;
+    const depth = Number(chosen.depth ?? landscape.depth ?? 5);
+    const gridSize = Number(chosen.gridSize ?? landscape.gridSize ?? 50);
+    const extractor = new FeatureExtractor('landscape', { landscape: { ...landscape, depth, gridSize } });
+    const x = extractor.fit(data).transform(data);
+    out.push(
+      await sampleMap(
+        x,
+        ids,
+        'landscape',
+        `depth ${depth}, grid ${gridSize}, as chosen most often for ${best.model}`,
+      ),
+    );
+  }
+  if (dataset.kind !== 'diagrams' && evaluation.results.some((r) => r.features === 'raw')) {
+    const recorded = (evaluation.options.raw ?? {}) as Record<string, unknown>;
+    const options: RawFeaturesOptions = raw ?? {
+      ...(typeof recorded.bins === 'number' ? { bins: recorded.bins } : {}),
+      ...(typeof recorded.upperQuantile === 'number' ? { upperQuantile: recorded.upperQuantile } : {}),
+      ...(typeof recorded.signalLength === 'number' ? { signalLength: recorded.signalLength } : {}),
+      ...(typeof recorded.imageSize === 'number' ? { imageSize: recorded.imageSize } : {}),
+    };
+    const extractor = new FeatureExtractor('raw', { raw: options });
+    const x = extractor.fit(data).transform(data);
+    out.push(await sampleMap(x, ids, 'raw'));
+  }
+  return out;
+}
+
+/** The diagram-distance map of the channel whose contrasts are clearest (see `chooseMapChannel`). */
+function distanceMapOf(
+  diagrams: readonly DiagramSet[],
+  degrees: readonly number[],
+  contrasts: readonly ContrastTest[],
+  infinite: InfinitePolicy,
+  o: { mapSamples: number; seed: number },
+): DistanceMap | undefined {
+  if (diagrams.length < 2) return undefined;
+  const plan = chooseMapChannel(diagrams, channelsOf(diagrams, degrees), contrasts, {
+    infinite,
+    cap: o.mapSamples,
+    work: DISTANCE_MAP_WORK,
+  });
+  if (!plan) return undefined;
+  return diagramDistanceMap(diagrams, plan.channel, {
+    perClass: plan.perClass,
+    seed: o.seed,
+    infinite,
+    reason: plan.reason,
+  });
 }
 
 /**

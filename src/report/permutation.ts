@@ -268,3 +268,73 @@ export function contrastAll(
     sizes: [job.a.stack.samples, job.b.stack.samples],
   }));
 }
+
+/**
+ * How far a family of permutation tests can reach. With R relabellings the smallest raw p is 1/(R + 1) — the
+ * observed labelling counts as one of them (Phipson & Smyth, "Permutation P-values Should Never Be Zero",
+ * Statistical Applications in Genetics and Molecular Biology, 2010) — and Holm's correction multiplies the
+ * smallest p of m tests by m (Holm, 1979), so no adjusted p can fall below m/(R + 1). When that floor is above
+ * the level, no test of the family can be declared different, whatever the data.
+ */
+export interface PermutationReach {
+  tests: number;
+  permutations: number;
+  /** m/(R + 1), at most 1: the smallest adjusted p the family can show. */
+  floor: number;
+  level: number;
+  /** Whether the floor is at or below the level. */
+  reachable: boolean;
+  /** The fewest relabellings per test whose floor is at or below the level: ⌈m/level⌉ − 1. */
+  needed: number;
+}
+
+export function permutationReach(tests: number, permutations: number, level = 0.05): PermutationReach {
+  const floor = tests === 0 ? 0 : Math.min(1, tests / (permutations + 1));
+  // m/level with a little slack so that 3/0.05 = 60.000…01 counts as 60.
+  const needed = Math.max(1, Math.ceil(tests / level - 1e-9) - 1);
+  return { tests, permutations, floor, level, reachable: floor <= level, needed };
+}
+
+/** The least permutations per test of a family when the user gave no count (the count before any raise). */
+export const BASE_PERMUTATIONS = 999;
+
+/**
+ * The most permutations per test chosen automatically: 9,999 keeps a family of 100 tests reaching an adjusted
+ * p of 0.01 and one of up to 500 tests able to reach 5%, at a few seconds for the demo-sized classes (measured
+ * in DEVELOPERS.md, "The report stage"); beyond it the report says how many would be needed.
+ */
+export const PERMUTATION_BUDGET = 9999;
+
+/**
+ * Permutations per test for a family of `tests` when the user fixed none: `base`, raised until the smallest
+ * adjusted p the family can reach is 0.01 — a fifth of the 5% level, so a test can still be declared
+ * different when a few relabellings match its statistic (common practice, no source) — that is
+ * R = 100·m − 1, and capped at `budget`.
+ */
+export function permutationsForFamily(
+  tests: number,
+  base: number = BASE_PERMUTATIONS,
+  budget: number = PERMUTATION_BUDGET,
+): number {
+  const wanted = permutationReach(tests, 1, 0.01).needed;
+  return Math.max(1, Math.min(Math.max(budget, base), Math.max(base, wanted)));
+}
+
+/** A count with thousands separated by commas: 9999 → '9,999'. */
+function counted(n: number): string {
+  return String(n).replace(/\B(?=(\d{3})+(?!\d))/g, ',');
+}
+
+/**
+ * The plain sentence for a family that cannot reach its level: how many tests, how many permutations, the
+ * floor of the adjusted p and the permutations that would be needed. Undefined when the level is reachable.
+ */
+export function unreachableSentence(reach: PermutationReach, what = 'contrasts'): string | undefined {
+  if (reach.reachable || reach.tests === 0) return undefined;
+  const pct = `${Math.round(reach.level * 100)}%`;
+  return (
+    `None of the ${reach.tests} ${what} can reach the ${pct} level with ${counted(reach.permutations)} permutations per test: ` +
+    `under Holm's correction over ${reach.tests} tests the smallest possible adjusted p is ${reach.floor.toPrecision(2)}, ` +
+    `whatever the data. At least ${counted(reach.needed)} permutations per test are needed; until then "no difference found" means "not tested".`
+  );
+}

@@ -20,6 +20,7 @@ interface Metrics {
         confusion: number[][];
       }>;
     };
+    contrastPermutations: number;
     contrasts: Array<{ a: string; b: string; degree: number; p: number; pAdjusted: number }>;
   }>;
 }
@@ -56,6 +57,8 @@ describe('landform demo', () => {
       // Every sample is predicted once: the pooled confusion matrix counts all 75 samples.
       for (const r of d.metrics.results) expect(r.confusion.flat().reduce((s, v) => s + v, 0)).toBe(75);
       expect(d.contrasts.length).toBeGreaterThan(0);
+      // The quick demo's base of 199 permutations is raised to 100 · tests − 1 (adjusted p can reach 0.01).
+      expect(d.contrastPermutations).toBe(Math.max(199, 100 * d.contrasts.length - 1));
     }
     // The demo's promises (issue 6): the best landscape model reaches 0.8 on the lattice set, and on at
     // least one set landscape features clearly beat raw features (by 0.1 or more).
@@ -65,9 +68,20 @@ describe('landform demo', () => {
 
     const html = readFileSync(join(out, 'report.html'), 'utf8');
     expect(html.match(/<section class="dataset"/g)?.length).toBe(3);
-    for (const part of ['summary', 'accuracy', 'confusion', 'means', 'contrasts', 'maps', 'examples']) {
+    for (const part of [
+      'summary',
+      'accuracy',
+      'confusion',
+      'samples',
+      'distances',
+      'means',
+      'contrasts',
+      'maps',
+      'examples',
+    ]) {
       expect(html.match(new RegExp(`data-part="${part}"`, 'g'))?.length, part).toBe(3);
     }
+    expect(html.match(/<table class="grid chosen">/g)?.length).toBe(3);
     expect(html).toContain('Cross-validated accuracy is an estimate');
     expect(html).not.toMatch(/<script/i);
   }, 240_000);

@@ -5,6 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { type DiagramSet, makeDiagram } from '../../src/core/diagram.js';
 import { Random } from '../../src/core/random.js';
 import { multiplierBand } from '../../src/report/bands.js';
+import { diagramDistanceMap } from '../../src/report/distance-map.js';
 import {
   CAUTION_TEXT,
   CONTRAST_ROWS_SHOWN,
@@ -15,7 +16,8 @@ import {
   slug,
 } from '../../src/report/html.js';
 import { classMeans } from '../../src/report/means.js';
-import { contrastAll } from '../../src/report/permutation.js';
+import { contrastAll, permutationReach } from '../../src/report/permutation.js';
+import { sampleMap } from '../../src/report/scatter.js';
 import { type GridSpec, stackLandscapes } from '../../src/report/stack.js';
 import { tempDir, testOutput } from '../helpers/cli.js';
 
@@ -46,6 +48,8 @@ async function buildReport(): Promise<{ html: string; dataset: DatasetReport }> 
     classes: Array<{ label: string; stack: ReturnType<typeof stackLandscapes> }>;
   }> = [];
   const examples: DatasetReport['examples'][number][] = [];
+  const sets: DiagramSet[] = [];
+  const features: number[] = [];
   for (const degree of [0, 1]) {
     const classes = labels.map((label, c) => {
       const rows: Float64Array[] = [];
@@ -54,6 +58,10 @@ async function buildReport(): Promise<{ html: string; dataset: DatasetReport }> 
         for (let p = 0; p < 4; p++) {
           const b = random.uniform(0, 0.8);
           pairs.push([b, b + random.uniform(0.2, 0.6) * (1 + c * 0.5)]);
+        }
+        if (degree === 1) {
+          sets.push({ sample: `${label}-${i}`, label, diagrams: [makeDiagram(1, pairs)] });
+          features.push(...pairs.flat());
         }
         if (degree === 1 && i === 0)
           examples.push({
@@ -78,6 +86,17 @@ async function buildReport(): Promise<{ html: string; dataset: DatasetReport }> 
     });
   }
   const contrasts = contrastAll(stacksByDegree, { permutations: 99 });
+  const ids = sets.map((x) => ({ id: x.sample, label: x.label }));
+  const matrix = { rows: sets.length, cols: 8, data: Float64Array.from(features) };
+  const sampleMaps = [
+    await sampleMap(matrix, ids, 'landscape', 'depth 3, grid 60'),
+    await sampleMap({ ...matrix, data: matrix.data.map((v, k) => v * ((k % 3) + 1)) }, ids, 'raw'),
+  ];
+  const distanceMap = diagramDistanceMap(
+    sets,
+    { degree: 1 },
+    { perClass: 12, seed: 1, infinite: { mode: 'drop' }, reason: 'H1 was asked for' },
+  );
   const t = Array.from({ length: 40 }, (_, j) => (j * 2.5) / 39);
   const dataset: DatasetReport = {
     name: `rings & ${HOSTILE}`,
@@ -112,9 +131,35 @@ async function buildReport(): Promise<{ html: string; dataset: DatasetReport }> 
         ],
       },
     ],
+    chosen: [
+      {
+        features: 'landscape',
+        model: 'pca-svm',
+        choice: 'depth 3 · grid 60 · C 1 · kernel linear',
+        folds: ['1', '2', '4'],
+        accuracies: [0.9, 0.95, 0.85],
+      },
+      {
+        features: 'landscape',
+        model: 'pca-svm',
+        choice: `kernel ${HOSTILE}`,
+        folds: ['3', '5'],
+        accuracies: [0.9, 0.9],
+      },
+      {
+        features: 'raw',
+        model: 'pca-svm',
+        choice: 'C 1 · kernel linear',
+        folds: ['1', '2', '3', '4', '5'],
+        accuracies: [0.6, 0.6, 0.5, 0.7, 0.6],
+      },
+    ],
+    sampleMaps,
+    distanceMap,
     means,
     contrasts,
     contrastNote: '99 permutations, L2 distance.',
+    contrastReach: permutationReach(contrasts.length, 99),
     maps: {
       weights: {
         curves: [0, 1].flatMap((degree) =>
@@ -208,6 +253,9 @@ describe('renderReport', () => {
 
       const count = (part: string) => page.locator(`section[data-part="${part}"] figure.chart svg`).count();
       expect(await count('accuracy')).toBe(1);
+      expect(await page.locator('section[data-part="accuracy"] table.chosen tr').count()).toBe(1 + 3); // header + choices
+      expect(await count('samples')).toBe(2); // landscape and raw sample maps
+      expect(await count('distances')).toBe(1);
       expect(await count('confusion')).toBe(2);
       expect(await count('means')).toBe(2); // one chart per degree
       expect(await count('maps')).toBe(3); // weights for H0 and H1, plus importance

@@ -70,5 +70,65 @@ describe('buildDatasetReport', () => {
     expect(new Set(report.maps?.weights?.curves.map((c) => c.degree))).toEqual(new Set([0, 1]));
     expect(report.maps?.importance?.rows.map((r) => r.group)).toEqual(['H0 λ1', 'H0 λ2', 'H1 λ1', 'H1 λ2']);
     expect(report.findings?.some((f) => /contrasts show different mean landscapes/.test(f))).toBe(true);
+    expect(report.options.contrasts).toMatch(/^199 permutations per test \(as given\)/);
+
+    // Sample maps: landscape (with the chosen depth and grid) and raw, every sample once. One long H1 bar
+    // against none is the largest difference in the landscape features, so in the plane of PC1 and PC2 the
+    // classes form apart: at least 18 of 20 samples lie nearer their own class centre than the other's (a loose
+    // check, common practice, no source).
+    expect(report.sampleMaps?.map((m) => m.features)).toEqual(['landscape', 'raw']);
+    const land = report.sampleMaps![0];
+    expect(land.made).toBe('depth 2, grid 16, as chosen most often for pca-svm');
+    expect(land.points).toHaveLength(20);
+    const centre = (label: string) => {
+      const mine = land.points.filter((p) => p.label === label);
+      return [
+        mine.reduce((s, p) => s + p.pc1, 0) / mine.length,
+        mine.reduce((s, p) => s + p.pc2, 0) / mine.length,
+      ];
+    };
+    const centres = { disc: centre('disc'), ring: centre('ring') };
+    const near = land.points.filter((p) => {
+      const own = centres[p.label as 'disc' | 'ring'];
+      const other = centres[p.label === 'disc' ? 'ring' : 'disc'];
+      return Math.hypot(p.pc1 - own[0], p.pc2 - own[1]) < Math.hypot(p.pc1 - other[0], p.pc2 - other[1]);
+    }).length;
+    expect(near).toBeGreaterThanOrEqual(18);
+    // Distance map: every sample (20 < the cap), ordered by class, on the channel with the clearer contrasts.
+    const map = report.distanceMap!;
+    expect(map.samples.map((x) => x.label)).toEqual([...Array(10).fill('disc'), ...Array(10).fill('ring')]);
+    expect(map.boundaries).toEqual([10]);
+    expect(map.channel).toEqual({ degree: 1 });
+    // Per-fold choices: one row per distinct choice of each of the two results, two folds in all per result.
+    for (const features of ['landscape', 'raw'])
+      expect(
+        report.chosen?.filter((r) => r.features === features).reduce((n, r) => n + r.folds.length, 0),
+      ).toBe(2);
+  }, 60_000);
+
+  it('chooses the permutations for the family when none are given and records them', async () => {
+    const dataset = rings();
+    const diagrams = dataset.samples.map((s) => computeDiagrams(s, { degrees: [0, 1] }));
+    const landscape = { degrees: [1] };
+    const evaluation = await runEvaluation(dataset, {
+      diagrams,
+      folds: 2,
+      models: ['pca-svm'],
+      featureSets: ['landscape'],
+      landscape,
+      landscapeCandidates: [{ depth: 2, gridSize: 16 }],
+      innerFolds: 2,
+    });
+    const pieces = await buildDatasetReport(
+      { name: 'rings', dataset, diagrams, evaluation, landscape },
+      { depth: 2, gridCount: 30, draws: 100, basePermutations: 49, importanceRepeats: 1 },
+    );
+    // One test: 100 · 1 − 1 = 99 relabellings reach an adjusted p of 0.01; above the base of 49.
+    expect(pieces.permutations).toBe(99);
+    expect(pieces.report.options.contrasts).toMatch(
+      /^99 permutations per test \(raised from 49 for a family of 1 tests/,
+    );
+    expect(pieces.report.contrastReach).toMatchObject({ tests: 1, permutations: 99, reachable: true });
+    expect(pieces.report.sampleMaps?.map((m) => m.features)).toEqual(['landscape']);
   }, 60_000);
 });

@@ -1,5 +1,5 @@
 import type { Command } from 'commander';
-import type { DiagramSet } from '../../core/diagram.js';
+import { channelsOf, type DiagramSet } from '../../core/diagram.js';
 import { UserError } from '../../core/errors.js';
 import type { Dataset } from '../../core/sample.js';
 import { provenance } from '../../core/version.js';
@@ -19,7 +19,7 @@ import {
 } from '../shared-options.js';
 
 interface ContrastFlags extends DiagramFlags, LandscapeFlags {
-  permutations: string;
+  permutations?: string;
   seed: string;
   p: string;
   format: string;
@@ -75,7 +75,10 @@ export function defineContrast(program: Command): Command {
     oldGridCount: true,
   });
   return command
-    .option('--permutations <R>', 'random relabellings per test', '999')
+    .option(
+      '--permutations <R>',
+      'random relabellings per test (default: 999, raised for a large family so its adjusted p can reach 0.01, at most 9,999)',
+    )
     .option('--seed <n>', 'seed of the relabellings', '1')
     .option('--p <p>', 'p of the Lp distance between class means (≥ 1, or inf)', '2')
     .option('--format <format>', 'json or text', 'json')
@@ -95,7 +98,10 @@ Examples:
       const parsed = parseDiagramOptions(flags);
       const { degrees, choice } = parsed;
       const { depth, gridSize, infinite } = parseLandscapeOptions(flags, { gridSize: CONTRAST_GRID_SIZE });
-      const permutations = parseIntegerOption(flags.permutations, '--permutations', 1, 10_000_000);
+      const permutations =
+        flags.permutations === undefined
+          ? undefined
+          : parseIntegerOption(flags.permutations, '--permutations', 1, 10_000_000);
       const seed = parseIntegerOption(flags.seed, '--seed', 0, 2 ** 32 - 1);
       const p = parsePOption(flags.p);
       const format = parseChoiceOption(flags.format, '--format', ['json', 'text'] as const);
@@ -137,14 +143,17 @@ Examples:
       }
       const { contrastDiagrams, contrastJson, contrastText } = await import('../../report/contrast.js');
       const pairs = (classes.length * (classes.length - 1)) / 2;
-      const testBar = await startProgress('permutations', pairs * degrees.length * permutations, quiet);
+      const { permutationsForFamily } = await import('../../report/permutation.js');
+      const family = pairs * channelsOf(sets, degrees).length;
+      const used = permutations ?? permutationsForFamily(family);
+      const testBar = await startProgress('permutations', family * used, quiet);
       let result: ReturnType<typeof contrastDiagrams>;
       try {
         result = contrastDiagrams(sets, {
           degrees,
           depth,
           gridCount: gridSize,
-          permutations,
+          permutations: used,
           p,
           seed,
           infinite,
@@ -159,7 +168,8 @@ Examples:
         ...filtrationRecord(choice, sets),
         depth,
         gridSize,
-        permutations,
+        permutations: result.permutations,
+        ...(permutations === undefined ? { permutationsChosen: 'for the family' } : {}),
         p: p === Infinity ? 'inf' : p,
         infinite: flags.infinite ?? 'drop',
       };
@@ -176,7 +186,7 @@ Examples:
                 : 'all pairs of classes × all degrees',
               grids: result.grids,
             })
-          : contrastText(result, permutations);
+          : contrastText(result);
       if (flags.out) {
         const { writeFileAtomic } = await import('../../io/atomic.js');
         writeFileAtomic(flags.out, text);
