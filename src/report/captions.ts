@@ -1,22 +1,11 @@
 import type { SampledBand } from './bands.js';
 import { type AccuracyRow, clippedAccuracyBars, meanLayers } from './charts.js';
+import { escapeHtml } from './escape.js';
 
 /**
  * Caption text the report computes from the data a chart shows: every count, layer and clipped bar named
  * here comes from that data, never from a constant. Returned strings are HTML (user text escaped here).
  */
-
-const ESCAPES: Record<string, string> = {
-  '&': '&amp;',
-  '<': '&lt;',
-  '>': '&gt;',
-  '"': '&quot;',
-  "'": '&#39;',
-};
-
-function escapeText(text: string): string {
-  return text.replace(/[&<>"']/g, (c) => ESCAPES[c]);
-}
 
 /** Layers as text: [2] → 'λ2', [3, 4] → 'λ3 and λ4', [2, 3, 4] → 'λ2–λ4' (contiguous), else a list. */
 export function layerList(layers: readonly number[]): string {
@@ -79,7 +68,7 @@ export function meanLayersNote(
   for (const z of content.zeroFor) {
     const many = z.classes.length > 1;
     notes.push(
-      `In λ${z.layer} the mean of ${wordList(z.classes.map(escapeText))} ${many ? 'are' : 'is'} zero (no sample of ${many ? 'those classes' : 'that class'} has ${z.layer} ${channel} pairs alive at the same scale): no band or line drawn.`,
+      `In λ${z.layer} the mean of ${wordList(z.classes.map(escapeHtml))} ${many ? 'are' : 'is'} zero (no sample of ${many ? 'those classes' : 'that class'} has ${z.layer} ${channel} pairs alive at the same scale): no band or line drawn.`,
     );
   }
   return notes.join(' ');
@@ -89,7 +78,7 @@ export function meanLayersNote(
 export function accuracyCaption(rows: readonly AccuracyRow[]): string {
   const clipped = clippedAccuracyBars(rows).map(
     (c) =>
-      `${escapeText(c.features)} · ${escapeText(c.model)} (${c.at === 'both' ? 'both ends' : `at ${c.at}`})`,
+      `${escapeHtml(c.features)} · ${escapeHtml(c.model)} (${c.at === 'both' ? 'both ends' : `at ${c.at}`})`,
   );
   return (
     'Cross-validated accuracy by feature set and model; bars are mean ± 1 sd, clipped to [0, 1].' +
