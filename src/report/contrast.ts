@@ -24,7 +24,7 @@ export interface ContrastOptions {
   /** Landscape depth K. Default 5. */
   depth?: number;
   /** Grid points per degree. Default 200. */
-  gridCount?: number;
+  gridSize?: number;
   /**
    * Relabellings per test, as given. Default: enough for the family (`permutationsForFamily`): at least
    * `basePermutations`, raised for a large family so that its smallest adjusted p can reach 0.01, at most
@@ -44,7 +44,7 @@ export interface ContrastOptions {
 export const DEFAULT_CONTRAST_OPTIONS = {
   degrees: [0, 1],
   depth: 5,
-  gridCount: 200,
+  gridSize: 200,
   ...DEFAULT_PERMUTATION_OPTIONS,
 } as const;
 
@@ -60,11 +60,11 @@ export interface ContrastResult {
 export function contrastDiagrams(sets: readonly DiagramSet[], options: ContrastOptions = {}): ContrastResult {
   const degrees = options.degrees ?? DEFAULT_CONTRAST_OPTIONS.degrees;
   const depth = options.depth ?? DEFAULT_CONTRAST_OPTIONS.depth;
-  const gridCount = options.gridCount ?? DEFAULT_CONTRAST_OPTIONS.gridCount;
+  const gridSize = options.gridSize ?? DEFAULT_CONTRAST_OPTIONS.gridSize;
   const infinite = options.infinite ?? { mode: 'drop' };
   const grids = channelsOf(sets, degrees).map((channel) => ({
     ...channel,
-    ...sharedGrid(sets, channel, gridCount, infinite),
+    ...sharedGrid(sets, channel, gridSize, infinite),
   }));
   const stacks = grids.map((g) => ({
     degree: g.degree,

@@ -34,7 +34,7 @@ export interface ReportOptions {
   /** Layers shown and tested. Default 5. */
   depth?: number;
   /** Grid points of the class means and contrasts. Default 100. */
-  gridCount?: number;
+  gridSize?: number;
   /** Band level. Default 0.95. */
   level?: number;
   /** Bootstrap draws of the bands. Default 1000. */
@@ -57,7 +57,7 @@ export interface ReportOptions {
 
 export const DEFAULT_REPORT_OPTIONS = {
   depth: 5,
-  gridCount: 100,
+  gridSize: 100,
   level: 0.95,
   draws: 1000,
   basePermutations: BASE_PERMUTATIONS,
@@ -137,7 +137,7 @@ export async function buildDatasetReport(
     : classMeans(diagrams, {
         degrees,
         depth: o.depth,
-        gridCount: o.gridCount,
+        gridSize: o.gridSize,
         infinite,
         exact: false,
         band: { level: o.level, draws: o.draws, seed: o.seed },
@@ -147,7 +147,7 @@ export async function buildDatasetReport(
     : contrastDiagrams(diagrams, {
         degrees,
         depth: o.depth,
-        gridCount: o.gridCount,
+        gridSize: o.gridSize,
         ...(options.permutations !== undefined ? { permutations: options.permutations } : {}),
         basePermutations: o.basePermutations,
         seed: o.seed,
@@ -209,7 +209,7 @@ export async function buildDatasetReport(
         : {}),
       seed: evaluation.seed,
       ...(shaped ? {} : { note: 'no diagrams (table data): accuracy only' }),
-      'class means': `depth ${o.depth}, ${o.gridCount}-point grid, ${Math.round(o.level * 100)}% band from ${o.draws} multiplier draws`,
+      'class means': `depth ${o.depth}, ${o.gridSize}-point grid, ${Math.round(o.level * 100)}% band from ${o.draws} multiplier draws`,
       ...(shaped
         ? {
             contrasts: `${permutationWords}, L2 distance, Holm over all ${contrast.tests.length} pairs × degrees`,

@@ -29,7 +29,7 @@ export interface ClassMeansOptions {
   /** Landscape depth K (layers 1..K). Default 5. */
   depth?: number;
   /** Points of the grid per degree, which spans every finite pair of every sample. Default 100. */
-  gridCount?: number;
+  gridSize?: number;
   /** What to do with essential classes before computing landscapes. Default drop. */
   infinite?: InfinitePolicy;
   band?: BandOptions;
@@ -40,7 +40,7 @@ export interface ClassMeansOptions {
 export const DEFAULT_CLASS_MEANS_OPTIONS = {
   degrees: [0, 1],
   depth: 5,
-  gridCount: 100,
+  gridSize: 100,
   exact: true,
 } as const;
 
@@ -103,12 +103,12 @@ export function classStacks(
 export function classMeans(sets: readonly DiagramSet[], options: ClassMeansOptions = {}): DegreeMeans[] {
   const degrees = options.degrees ?? DEFAULT_CLASS_MEANS_OPTIONS.degrees;
   const depth = options.depth ?? DEFAULT_CLASS_MEANS_OPTIONS.depth;
-  const gridCount = options.gridCount ?? DEFAULT_CLASS_MEANS_OPTIONS.gridCount;
+  const gridSize = options.gridSize ?? DEFAULT_CLASS_MEANS_OPTIONS.gridSize;
   const infinite = options.infinite ?? { mode: 'drop' };
   const exact = options.exact ?? DEFAULT_CLASS_MEANS_OPTIONS.exact;
   // One entry per channel: per degree, or per filtration and degree when the samples were filtered several ways.
   return channelsOf(sets, degrees).map((channel) => {
-    const grid = sharedGrid(sets, channel, gridCount, infinite);
+    const grid = sharedGrid(sets, channel, gridSize, infinite);
     const classes = classStacks(sets, channel, grid, depth, infinite).map(({ label, stack, members }) => ({
       label,
       samples: stack.samples,

@@ -195,7 +195,7 @@ describe('class-mean charts', () => {
   const means = classMeans([...setsOf('two', 2, 6, 0.02), ...setsOf('one', 1, 6, 0.03)], {
     degrees: [1],
     depth: 3,
-    gridCount: 40,
+    gridSize: 40,
     exact: false,
     band: { draws: 50 },
   })[0];
@@ -226,7 +226,7 @@ describe('class-mean charts', () => {
     const all = classMeans([...setsOf('two', 2, 6, 0.02), ...setsOf('one', 1, 6, 0.03)], {
       degrees: [1],
       depth: 3,
-      gridCount: 40,
+      gridSize: 40,
       exact: false,
       band: { draws: 50, scope: 'all' },
     })[0].classes;
@@ -265,7 +265,7 @@ describe('class-mean charts', () => {
     const tiny = classMeans(sets, {
       degrees: [1],
       depth: 2,
-      gridCount: 400,
+      gridSize: 400,
       exact: false,
       band: { draws: 50 },
     })[0];

@@ -27,7 +27,7 @@ function sets(): DiagramSet[] {
 
 describe('contrastDiagrams', () => {
   it('finds the H1 difference, none in H0, and writes the JSON contract', () => {
-    const result = contrastDiagrams(sets(), { degrees: [0, 1], permutations: 499, gridCount: 80 });
+    const result = contrastDiagrams(sets(), { degrees: [0, 1], permutations: 499, gridSize: 80 });
     expect(result.classes).toEqual(['narrow', 'wide']);
     expect(result.grids.map((g) => g.degree)).toEqual([0, 1]);
     const [h0, h1] = result.tests;
@@ -65,14 +65,14 @@ describe('contrastDiagrams with several filtrations', () => {
         { ...s.diagrams[0], filtration: 'second' },
       ],
     }));
-    const result = contrastDiagrams(tagged, { degrees: [0, 1], permutations: 199, gridCount: 60 });
+    const result = contrastDiagrams(tagged, { degrees: [0, 1], permutations: 199, gridSize: 60 });
     expect(result.grids.map((g) => `${g.filtration}/${g.degree}`)).toEqual([
       'first/0',
       'first/1',
       'second/0',
       'second/1',
     ]);
-    const plain = contrastDiagrams(base, { degrees: [0, 1], permutations: 199, gridCount: 60 });
+    const plain = contrastDiagrams(base, { degrees: [0, 1], permutations: 199, gridSize: 60 });
     // The first filtration's statistics are the untagged ones (same grid, same stacks).
     expect(result.tests[0].statistic).toBe(plain.tests[0].statistic);
     expect(result.tests[1].statistic).toBe(plain.tests[1].statistic);

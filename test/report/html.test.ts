@@ -339,7 +339,7 @@ describe('renderReport: counts in captions come from the data shown', () => {
     const means = classMeans(sets, {
       degrees: [0, 1],
       depth: 3,
-      gridCount: 40,
+      gridSize: 40,
       exact: false,
       band: { draws: 50 },
     });
@@ -431,7 +431,7 @@ describe('renderReport: counts in captions come from the data shown', () => {
     const means = classMeans(sets, {
       degrees: [0, 1],
       depth: 2,
-      gridCount: 20,
+      gridSize: 20,
       exact: false,
       band: { draws: 20 },
     });

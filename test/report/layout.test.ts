@@ -41,7 +41,7 @@ describe('buildDatasetReport', () => {
     });
     const { report, means, contrasts } = await buildDatasetReport(
       { name: 'rings', dataset, diagrams, evaluation, landscape },
-      { depth: 3, gridCount: 40, draws: 200, permutations: 199, importanceRepeats: 2 },
+      { depth: 3, gridSize: 40, draws: 200, permutations: 199, importanceRepeats: 2 },
     );
     expect(means.map((m) => m.degree)).toEqual([0, 1]);
     expect(report.summary.classes).toEqual([
@@ -121,7 +121,7 @@ describe('buildDatasetReport', () => {
     });
     const pieces = await buildDatasetReport(
       { name: 'rings', dataset, diagrams, evaluation, landscape },
-      { depth: 2, gridCount: 30, draws: 100, basePermutations: 49, importanceRepeats: 1 },
+      { depth: 2, gridSize: 30, draws: 100, basePermutations: 49, importanceRepeats: 1 },
     );
     // One test: 100 · 1 − 1 = 99 relabellings reach an adjusted p of 0.01; above the base of 49.
     expect(pieces.permutations).toBe(99);

@@ -15,7 +15,7 @@ describe('classMeans', () => {
     // peaking 2 at t = 2. Worked by hand: mean at t = 1 is (1 + 1)/2 = 1, at t = 2 (0 + 2)/2 = 1,
     // at t = 3 (0 + 1)/2 = 0.5.
     const sets = [set('a', 'x', [[0, 2]]), set('b', 'x', [[0, 4]])];
-    const [h1] = classMeans(sets, { degrees: [1], depth: 2, gridCount: 5, band: { draws: 50 } });
+    const [h1] = classMeans(sets, { degrees: [1], depth: 2, gridSize: 5, band: { draws: 50 } });
     expect(h1.grid).toEqual({ start: 0, stop: 4, count: 5 });
     const mean = h1.classes[0].band.mean;
     expect(Array.from(mean.subarray(0, 5))).toEqual([0, 1, 1, 0.5, 0]);
@@ -37,7 +37,7 @@ describe('classMeans', () => {
       }
       sets.push(set(`s${i}`, i % 2 === 0 ? 'even' : 'odd', pairs));
     }
-    const means = classMeans(sets, { degrees: [0, 1], depth: 3, gridCount: 40, band: { draws: 100 } });
+    const means = classMeans(sets, { degrees: [0, 1], depth: 3, gridSize: 40, band: { draws: 100 } });
     expect(means.map((m) => m.degree)).toEqual([0, 1]);
     const h1 = means[1];
     const t = gridPoints(h1.grid);

@@ -114,7 +114,7 @@ function elevenClasses(): DiagramSet[] {
 describe('contrastDiagrams with the permutations chosen for the family', () => {
   it('raises them for 55 tests and reaches a small adjusted p that 999 cannot', () => {
     const sets = elevenClasses();
-    const raised = contrastDiagrams(sets, { degrees: [1], gridCount: 60 });
+    const raised = contrastDiagrams(sets, { degrees: [1], gridSize: 60 });
     expect(raised.tests).toHaveLength(55);
     expect(raised.permutations).toBe(5499);
     // Class c's bars are about 1 + c long with a ±5% spread, so no two classes overlap and no relabelling
@@ -124,7 +124,7 @@ describe('contrastDiagrams with the permutations chosen for the family', () => {
     expect(first?.pAdjusted).toBeCloseTo(0.01, 12);
     expect(raised.tests.every((t) => t.pAdjusted <= 0.05)).toBe(true);
     // With 999 fixed, the same clear differences cannot reach 5%: the floor is 55/1,000 = 0.055.
-    const fixed = contrastDiagrams(sets, { degrees: [1], gridCount: 60, permutations: 999 });
+    const fixed = contrastDiagrams(sets, { degrees: [1], gridSize: 60, permutations: 999 });
     expect(fixed.permutations).toBe(999);
     expect(Math.min(...fixed.tests.map((t) => t.pAdjusted))).toBeCloseTo(0.055, 12);
     expect(contrastText(fixed)).toContain(

@@ -152,7 +152,7 @@ Examples:
         result = contrastDiagrams(sets, {
           degrees,
           depth,
-          gridCount: gridSize,
+          gridSize,
           permutations: used,
           p,
           seed,
