@@ -13,7 +13,7 @@ import {
   channelRange,
   checkChannelOptions,
   checkSaved,
-  copyChannels,
+  copyChannelRanges,
   decimalsFor,
   finiteChannel,
   trainingChannels,
@@ -155,10 +155,7 @@ export class BettiCurveVectorizer {
       format: 1,
       options: this.options(),
       state: {
-        grids: this.fitted().grids.map((g) => ({
-          channel: copyChannels([g.channel])[0],
-          grid: { ...g.grid },
-        })),
+        grids: copyChannelRanges(this.fitted().grids, 'grid'),
       },
     };
   }
@@ -171,7 +168,7 @@ export class BettiCurveVectorizer {
     ) as unknown as BettiCurveJSON;
     const v = new BettiCurveVectorizer(j.options);
     v.state = {
-      grids: j.state.grids.map((g) => ({ channel: copyChannels([g.channel])[0], grid: { ...g.grid } })),
+      grids: copyChannelRanges(j.state.grids, 'grid'),
     };
     return v;
   }

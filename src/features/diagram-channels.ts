@@ -126,3 +126,14 @@ export function copyChannels(channels: readonly Channel[]): Channel[] {
     c.filtration === undefined ? { degree: c.degree } : { degree: c.degree, filtration: c.filtration },
   );
 }
+
+/**
+ * Copies what a vectoriser learned per channel — a channel and one plain record each (a grid, a frame) — so
+ * that `toJSON` / `fromJSON` share no objects with the estimator they came from.
+ */
+export function copyChannelRanges<T extends { channel: Channel }>(
+  entries: readonly T[],
+  key: Exclude<keyof T, 'channel'>,
+): T[] {
+  return entries.map((e) => ({ ...e, channel: copyChannels([e.channel])[0], [key]: { ...e[key] } }) as T);
+}

@@ -12,7 +12,7 @@ import {
   channelValues,
   checkChannelOptions,
   checkSaved,
-  copyChannels,
+  copyChannelRanges,
   decimalsFor,
   finiteChannel,
   trainingChannels,
@@ -181,10 +181,7 @@ export class PersistenceImageVectorizer {
       format: 1,
       options: this.options(),
       state: {
-        frames: this.fitted().frames.map((f) => ({
-          channel: copyChannels([f.channel])[0],
-          frame: { ...f.frame },
-        })),
+        frames: copyChannelRanges(this.fitted().frames, 'frame'),
       },
     };
   }
@@ -197,7 +194,7 @@ export class PersistenceImageVectorizer {
     ) as unknown as PersistenceImageJSON;
     const v = new PersistenceImageVectorizer(j.options);
     v.state = {
-      frames: j.state.frames.map((f) => ({ channel: copyChannels([f.channel])[0], frame: { ...f.frame } })),
+      frames: copyChannelRanges(j.state.frames, 'frame'),
     };
     return v;
   }

@@ -1,7 +1,7 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it, vi } from 'vitest';
-import { tempDir } from '../helpers/cli.js';
+import { STUDY_FOLDER, tempDir } from '../helpers/cli.js';
 import { writeShapes } from './shapes-fixture.js';
 
 // The report renderer, broken on purpose: whatever fails while the report is made must not cost the
@@ -56,14 +56,7 @@ describe('landform evaluate when the report fails', () => {
     expect(stderr).toContain(
       `the report failed after ${join(out, 'metrics.json')} was written (rerun with --no-report to skip it): renderer broke`,
     );
-    expect(readdirSync(out).sort()).toEqual([
-      '.landform-output.json',
-      'folds.csv',
-      'folds.csv.provenance.json',
-      'metrics.json',
-      'predictions.csv',
-      'predictions.csv.provenance.json',
-    ]);
+    expect(readdirSync(out).sort()).toEqual(STUDY_FOLDER);
     expect(JSON.parse(readFileSync(join(out, 'metrics.json'), 'utf8')).classes).toEqual(['disc', 'loop']);
     expect(readdirSync(dir).filter((n) => n.startsWith('.landform'))).toEqual([]);
   }, 120_000);

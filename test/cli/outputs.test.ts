@@ -11,7 +11,7 @@ import {
 } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { runCli, tempDir, withoutCompletion } from '../helpers/cli.js';
+import { runCli, STUDY_FOLDER, tempDir, withoutCompletion } from '../helpers/cli.js';
 import { writeShapes } from './shapes-fixture.js';
 
 const root = new URL('../../', import.meta.url).pathname;
@@ -146,15 +146,7 @@ describe('outputs never destroy data', () => {
     const r = runCli(['evaluate', labelled, ...STUDY, '--out', out]);
     expect(withoutCompletion(r.stderr)).toBe('');
     expect(r.code).toBe(0);
-    expect(readdirSync(out).sort()).toEqual([
-      '.landform-output.json',
-      'folds.csv',
-      'folds.csv.provenance.json',
-      'metrics.json',
-      'predictions.csv',
-      'predictions.csv.provenance.json',
-      'report.html',
-    ]);
+    expect(readdirSync(out).sort()).toEqual([...STUDY_FOLDER, 'report.html']);
     expect(JSON.parse(readFileSync(join(out, 'metrics.json'), 'utf8')).classes).toEqual([
       'batch one=7',
       'x onload=1',
@@ -164,14 +156,7 @@ describe('outputs never destroy data', () => {
     const n = runCli(['evaluate', labelled, ...STUDY, '--seed', '2', '--no-report', '--out', out]);
     expect(n.code).toBe(0);
     expect(n.stdout).toMatch(/cross-validated estimates: validate on independent data[^\n]*\n$/);
-    expect(readdirSync(out).sort()).toEqual([
-      '.landform-output.json',
-      'folds.csv',
-      'folds.csv.provenance.json',
-      'metrics.json',
-      'predictions.csv',
-      'predictions.csv.provenance.json',
-    ]);
+    expect(readdirSync(out).sort()).toEqual(STUDY_FOLDER);
     expect(JSON.parse(readFileSync(join(out, 'metrics.json'), 'utf8')).seed).toBe(2);
   });
 

@@ -45,3 +45,13 @@ export function withoutCompletion(stderr: string): string {
     .filter((line) => !COMPLETION_LINE.test(line.replace(/\n$/, '')))
     .join('');
 }
+
+/** What `landform evaluate --no-report --out DIR` leaves in DIR, sorted (with the report: add 'report.html'). */
+export const STUDY_FOLDER: readonly string[] = [
+  '.landform-output.json',
+  'folds.csv',
+  'folds.csv.provenance.json',
+  'metrics.json',
+  'predictions.csv',
+  'predictions.csv.provenance.json',
+];
